@@ -1,0 +1,55 @@
+use serde::{Deserialize, Serialize};
+
+/// Everything measured on one crater, in a local azimuthal equidistant frame around it.
+/// Units are in the field names. See docs/metrics.md for each definition and its source.
+#[derive(Clone, Debug, Default, PartialEq, Serialize, Deserialize)]
+pub struct CraterMeasurement {
+    pub centre_lon_deg: f64,
+    pub centre_lat_deg: f64,
+    /// Diameter of the circle fitted to the rim crest.
+    pub diameter_m: f64,
+    /// One standard deviation of `diameter_m` (bootstrap over azimuths).
+    pub diameter_sd_m: f64,
+    pub ellipse_major_m: f64,
+    pub ellipse_minor_m: f64,
+    /// 1 - minor/major.
+    pub ellipticity: f64,
+    /// Azimuth of the major axis, degrees clockwise from north, [0, 180).
+    pub ellipse_azimuth_deg: f64,
+    /// Rim-crest median minus robust floor level.
+    pub depth_m: f64,
+    pub depth_sd_m: f64,
+    pub depth_to_diameter: f64,
+    /// Rim crest above the surrounding plain.
+    pub rim_relief_m: f64,
+    /// Fraction (0..1) of azimuths with a rim crest near the fitted circle.
+    pub rim_completeness: f64,
+    /// Widest contiguous arc without a rim crest, degrees.
+    pub rim_gap_deg: f64,
+    /// Azimuth of the middle of that gap, degrees clockwise from north.
+    pub rim_gap_azimuth_deg: f64,
+    /// Standard deviation of rim-crest heights.
+    pub rim_height_sd_m: f64,
+    pub floor_tilt_deg: f64,
+    /// Downhill direction of the floor plane, degrees clockwise from north.
+    pub floor_tilt_azimuth_deg: f64,
+    pub floor_slope_p95_deg: f64,
+    pub wall_slope_mean_deg: f64,
+    /// RMS height of the floor after removing a smooth bowl, at baseline `roughness_baseline_m`.
+    pub roughness_rms_m: f64,
+    pub roughness_baseline_m: f64,
+    /// Fraction of floor pixels steeper than `obstacle_slope_threshold_deg`.
+    pub obstacle_fraction: f64,
+    pub obstacle_slope_threshold_deg: f64,
+    /// Fraction of the measurement disc with valid data.
+    pub valid_fraction: f64,
+    /// True when the measurement disc is cut by the raster edge: numbers then cover only part.
+    pub edge_cut: bool,
+    /// Rim-crest radius per azimuth (metres from the fitted centre; NaN where no crest), azimuths
+    /// evenly spaced from north clockwise. Kept so the rim can be drawn and audited.
+    pub rim_crest_radius_m: Vec<f32>,
+    /// Rim-crest height per azimuth (metres above the sphere; NaN where no crest).
+    pub rim_crest_height_m: Vec<f32>,
+    /// Robust floor level (metres above the sphere).
+    pub floor_height_m: f64,
+}

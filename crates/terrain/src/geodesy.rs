@@ -1,0 +1,81 @@
+//! Great circles on a sphere and a local metric frame around a point.
+//!
+//! Formulas: haversine distance and initial bearing (Sinnott 1984, Sky & Telescope 68:159;
+//! Snyder 1987 §5), direct problem on the sphere, and the azimuthal equidistant projection
+//! (Snyder 1987 §25). The tests check them against PROJ's `aeqd` and geographiclib's numbers.
+
+/// Great-circle distance in metres between two (lon, lat) points in degrees.
+pub fn distance_m(radius_m: f64, a: (f64, f64), b: (f64, f64)) -> f64 {
+    central_angle_rad(a, b) * radius_m
+}
+
+/// Central angle in radians between two (lon, lat) points (haversine, stable at short range).
+pub fn central_angle_rad(a: (f64, f64), b: (f64, f64)) -> f64 {
+    let (l1, p1) = (a.0.to_radians(), a.1.to_radians());
+    let (l2, p2) = (b.0.to_radians(), b.1.to_radians());
+    let h = ((p2 - p1) / 2.0).sin().powi(2) + p1.cos() * p2.cos() * ((l2 - l1) / 2.0).sin().powi(2);
+    2.0 * h.sqrt().min(1.0).asin()
+}
+
+/// Initial azimuth in degrees clockwise from north, [0, 360), from `a` towards `b`.
+pub fn azimuth_deg(a: (f64, f64), b: (f64, f64)) -> f64 {
+    let (l1, p1) = (a.0.to_radians(), a.1.to_radians());
+    let (l2, p2) = (b.0.to_radians(), b.1.to_radians());
+    let dl = l2 - l1;
+    let y = dl.sin() * p2.cos();
+    let x = p1.cos() * p2.sin() - p1.sin() * p2.cos() * dl.cos();
+    y.atan2(x).to_degrees().rem_euclid(360.0)
+}
+
+/// The point reached by going `distance_m` from `start` along initial azimuth `azimuth_deg`.
+pub fn destination(radius_m: f64, start: (f64, f64), azimuth_deg: f64, distance_m: f64) -> (f64, f64) {
+    let (l1, p1) = (start.0.to_radians(), start.1.to_radians());
+    let (az, d) = (azimuth_deg.to_radians(), distance_m / radius_m);
+    let p2 = (p1.sin() * d.cos() + p1.cos() * d.sin() * az.cos()).clamp(-1.0, 1.0).asin();
+    let l2 = l1 + (az.sin() * d.sin() * p1.cos()).atan2(d.cos() - p1.sin() * p2.sin());
+    (crate::projection::wrap_deg_180(l2.to_degrees()), p2.to_degrees())
+}
+
+/// A local azimuthal equidistant frame (x east, y north, metres) centred on a point: distances
+/// and azimuths from the centre are true, which is what crater measurement needs.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct LocalFrame {
+    pub centre_lon_deg: f64,
+    pub centre_lat_deg: f64,
+    pub radius_m: f64,
+    sin_p0: f64,
+    cos_p0: f64,
+}
+
+impl LocalFrame {
+    pub fn new(radius_m: f64, centre_lon_deg: f64, centre_lat_deg: f64) -> Self {
+        let p0 = centre_lat_deg.to_radians();
+        LocalFrame { centre_lon_deg, centre_lat_deg, radius_m, sin_p0: p0.sin(), cos_p0: p0.cos() }
+    }
+
+    /// Lon/lat (degrees) to local x/y (metres).
+    pub fn to_local(&self, lon_deg: f64, lat_deg: f64) -> (f64, f64) {
+        let p = lat_deg.to_radians();
+        let dl = (lon_deg - self.centre_lon_deg).to_radians();
+        let cosc = (self.sin_p0 * p.sin() + self.cos_p0 * p.cos() * dl.cos()).clamp(-1.0, 1.0);
+        let c = cosc.acos();
+        let k = if c < 1e-12 { 1.0 } else { c / c.sin() };
+        let x = self.radius_m * k * p.cos() * dl.sin();
+        let y = self.radius_m * k * (self.cos_p0 * p.sin() - self.sin_p0 * p.cos() * dl.cos());
+        (x, y)
+    }
+
+    /// Local x/y (metres) to lon/lat (degrees, lon in [-180, 180)).
+    pub fn to_lonlat(&self, x: f64, y: f64) -> (f64, f64) {
+        let rho = x.hypot(y);
+        if rho < 1e-9 {
+            return (crate::projection::wrap_deg_180(self.centre_lon_deg), self.centre_lat_deg);
+        }
+        let c = rho / self.radius_m;
+        let (sc, cc) = c.sin_cos();
+        let lat = (cc * self.sin_p0 + y * sc * self.cos_p0 / rho).clamp(-1.0, 1.0).asin();
+        let lon = self.centre_lon_deg.to_radians()
+            + (x * sc).atan2(rho * self.cos_p0 * cc - y * self.sin_p0 * sc);
+        (crate::projection::wrap_deg_180(lon.to_degrees()), lat.to_degrees())
+    }
+}

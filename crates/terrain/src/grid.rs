@@ -1,0 +1,156 @@
+//! Where a raster sits on the body ([`GridGeometry`]) and a window of heights read from it
+//! ([`ElevationGrid`]).
+
+use crate::geodesy;
+use crate::projection::MapProjection;
+use serde::{Deserialize, Serialize};
+use std::sync::Arc;
+
+/// The georeferencing of a whole raster: size, affine geotransform (GDAL order), projection and
+/// the radius of the reference sphere heights are measured from.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct GridGeometry {
+    pub width: usize,
+    pub height: usize,
+    /// GDAL order: x = gt[0] + col*gt[1] + row*gt[2]; y = gt[3] + col*gt[4] + row*gt[5].
+    /// `col`, `row` are pixel-corner coordinates (0.0 is the upper-left corner of pixel 0).
+    pub geotransform: [f64; 6],
+    pub projection: MapProjection,
+    pub body_radius_m: f64,
+}
+
+impl GridGeometry {
+    /// Map coordinates of a fractional pixel position (pixel-corner convention).
+    pub fn pixel_to_map(&self, col: f64, row: f64) -> (f64, f64) {
+        let g = &self.geotransform;
+        (g[0] + col * g[1] + row * g[2], g[3] + col * g[4] + row * g[5])
+    }
+
+    /// Fractional pixel position of map coordinates. `None` if the geotransform is singular.
+    pub fn map_to_pixel(&self, x: f64, y: f64) -> Option<(f64, f64)> {
+        let g = &self.geotransform;
+        let det = g[1] * g[5] - g[2] * g[4];
+        if det == 0.0 || !det.is_finite() {
+            return None;
+        }
+        let (dx, dy) = (x - g[0], y - g[3]);
+        Some(((dx * g[5] - dy * g[2]) / det, (dy * g[1] - dx * g[4]) / det))
+    }
+
+    /// Lon/lat (degrees, lon in [-180, 180)) of the centre of pixel (col, row).
+    pub fn pixel_centre_lonlat(&self, col: usize, row: usize) -> Option<(f64, f64)> {
+        self.pixel_to_lonlat(col as f64 + 0.5, row as f64 + 0.5)
+    }
+
+    /// Lon/lat of a fractional pixel position (pixel-corner convention).
+    pub fn pixel_to_lonlat(&self, col: f64, row: f64) -> Option<(f64, f64)> {
+        let (x, y) = self.pixel_to_map(col, row);
+        self.projection.inverse(self.body_radius_m, x, y)
+    }
+
+    /// Fractional pixel position (pixel-corner convention) of a lon/lat. For grids that wrap in
+    /// longitude (geographic, equirectangular) the longitude is shifted by whole turns so that a
+    /// 0..360 grid finds -170 at 190 and a -180..180 grid finds 190 at -170.
+    pub fn lonlat_to_pixel(&self, lon_deg: f64, lat_deg: f64) -> Option<(f64, f64)> {
+        let (x, y) = self.projection.forward(self.body_radius_m, lon_deg, lat_deg)?;
+        let (mut col, row) = self.map_to_pixel(x, y)?;
+        if let Some(period) = self.projection.x_period(self.body_radius_m) {
+            let period_px = period / self.geotransform[1].abs();
+            if period_px.is_finite() && period_px > 0.0 {
+                // Bring col into [-(period - width)/2, width + ...): choose the shift nearest the grid.
+                let centre = self.width as f64 / 2.0;
+                col -= ((col - centre) / period_px).round() * period_px;
+            }
+        }
+        Some((col, row))
+    }
+
+    /// Ground size of one pixel in metres (east-west, north-south) at the given pixel, measured
+    /// as great-circle distances to the neighbouring pixel centres.
+    pub fn pixel_size_m_at(&self, col: f64, row: f64) -> Option<(f64, f64)> {
+        let c = self.pixel_to_lonlat(col, row)?;
+        let e = self.pixel_to_lonlat(col + 1.0, row)?;
+        let s = self.pixel_to_lonlat(col, row + 1.0)?;
+        Some((
+            geodesy::distance_m(self.body_radius_m, c, e),
+            geodesy::distance_m(self.body_radius_m, c, s),
+        ))
+    }
+
+    /// Pixel size in metres at the raster centre.
+    pub fn pixel_size_m(&self) -> Option<(f64, f64)> {
+        self.pixel_size_m_at(self.width as f64 / 2.0, self.height as f64 / 2.0)
+    }
+}
+
+/// A window of heights (metres above the reference sphere, `NaN` where there is no data) read
+/// from a raster, with the geometry of the whole raster it came from.
+#[derive(Clone, Debug)]
+pub struct ElevationGrid {
+    pub geometry: Arc<GridGeometry>,
+    /// Position of this window's first column and row in the whole raster; negative when the
+    /// window (with its halo) starts before the raster edge, the missing part being NaN.
+    pub col0: isize,
+    pub row0: isize,
+    pub width: usize,
+    pub height: usize,
+    /// Row-major, `width * height` values.
+    pub heights_m: Vec<f32>,
+}
+
+impl ElevationGrid {
+    /// Height at window pixel (col, row), or `None` outside the window or on nodata.
+    #[inline]
+    pub fn get(&self, col: usize, row: usize) -> Option<f32> {
+        if col < self.width && row < self.height {
+            let h = self.heights_m[row * self.width + col];
+            (!h.is_nan()).then_some(h)
+        } else {
+            None
+        }
+    }
+
+    /// Bilinear height at a fractional window position in pixel-centre convention
+    /// (0.0 is the centre of window pixel 0). `None` if any of the four neighbours is missing.
+    pub fn sample(&self, col: f64, row: f64) -> Option<f64> {
+        if !(col >= 0.0 && row >= 0.0) {
+            return None;
+        }
+        let (c0, r0) = (col.floor() as usize, row.floor() as usize);
+        let (fc, fr) = (col - c0 as f64, row - r0 as f64);
+        let c1 = if fc > 0.0 { c0 + 1 } else { c0 };
+        let r1 = if fr > 0.0 { r0 + 1 } else { r0 };
+        let h00 = self.get(c0, r0)? as f64;
+        let h10 = self.get(c1, r0)? as f64;
+        let h01 = self.get(c0, r1)? as f64;
+        let h11 = self.get(c1, r1)? as f64;
+        Some(h00 * (1.0 - fc) * (1.0 - fr) + h10 * fc * (1.0 - fr) + h01 * (1.0 - fc) * fr + h11 * fc * fr)
+    }
+
+    /// Bilinear height at a lon/lat, or `None` outside the window or on nodata.
+    pub fn sample_lonlat(&self, lon_deg: f64, lat_deg: f64) -> Option<f64> {
+        let (col, row) = self.geometry.lonlat_to_pixel(lon_deg, lat_deg)?;
+        self.sample(col - 0.5 - self.col0 as f64, row - 0.5 - self.row0 as f64)
+    }
+
+    /// Lon/lat of the centre of window pixel (col, row).
+    pub fn lonlat(&self, col: usize, row: usize) -> Option<(f64, f64)> {
+        self.geometry.pixel_to_lonlat((self.col0 + col as isize) as f64 + 0.5, (self.row0 + row as isize) as f64 + 0.5)
+    }
+
+    /// Fraction of the window's pixels that hold data.
+    pub fn valid_fraction(&self) -> f64 {
+        if self.heights_m.is_empty() {
+            return 0.0;
+        }
+        self.heights_m.iter().filter(|h| !h.is_nan()).count() as f64 / self.heights_m.len() as f64
+    }
+
+    /// Smallest and largest valid height, or `None` if the window holds no data.
+    pub fn min_max(&self) -> Option<(f32, f32)> {
+        self.heights_m.iter().filter(|h| !h.is_nan()).fold(None, |acc, &h| match acc {
+            None => Some((h, h)),
+            Some((lo, hi)) => Some((lo.min(h), hi.max(h))),
+        })
+    }
+}

@@ -1,0 +1,369 @@
+//! Open a raster through GDAL and read heights above the body's reference sphere by windows.
+
+use crate::body::{Body, MOON_RADIUS_M};
+use crate::error::TerrainError;
+use crate::grid::{ElevationGrid, GridGeometry};
+use crate::projection::MapProjection;
+use gdal::raster::GdalDataType;
+use gdal::Dataset;
+use serde::{Deserialize, Serialize};
+use std::path::{Path, PathBuf};
+use std::sync::{Arc, Mutex};
+
+/// Larger than any real lunar product per side (a 1 m/px global grid is about 11 million px
+/// wide); a header past it is taken as corrupt rather than as a request for terabytes.
+pub const MAX_SIDE_PX: usize = 50_000_000;
+
+/// How the file's numbers became heights.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum HeightConvention {
+    /// height = DN * scale + offset.
+    ScaleOffset { scale: f64, offset: f64 },
+    /// The band offset equals the reference radius (within 10 km): height = DN * scale; the
+    /// offset would turn heights into planetary radii.
+    RadiusOffsetIgnored { scale: f64, radius_offset_m: f64 },
+    /// The stored values are planetary radii: height = DN * scale + offset - radius.
+    RadiusValues { scale: f64, offset: f64, radius_m: f64 },
+}
+
+impl HeightConvention {
+    #[inline]
+    fn apply(&self, dn: f64) -> f64 {
+        match *self {
+            HeightConvention::ScaleOffset { scale, offset } => dn * scale + offset,
+            HeightConvention::RadiusOffsetIgnored { scale, .. } => dn * scale,
+            HeightConvention::RadiusValues { scale, offset, radius_m } => dn * scale + offset - radius_m,
+        }
+    }
+
+    /// One sentence for `describe`.
+    pub fn explain(&self) -> String {
+        match *self {
+            HeightConvention::ScaleOffset { scale, offset } => {
+                format!("height = DN x {scale} + {offset} m (band scale and offset applied)")
+            }
+            HeightConvention::RadiusOffsetIgnored { scale, radius_offset_m } => format!(
+                "height = DN x {scale} m; the band offset {radius_offset_m} m is the reference-sphere radius, not a height shift, so it is not added"
+            ),
+            HeightConvention::RadiusValues { radius_m, .. } => {
+                format!("stored values are planetary radii; height = value - {radius_m} m")
+            }
+        }
+    }
+}
+
+/// Choices the user can make when a file is ambiguous.
+#[derive(Clone, Debug, Default)]
+pub struct OpenOptions {
+    /// Use this reference radius (metres) even if the CRS names another body: the explicit
+    /// override for mislabelled files.
+    pub assume_body_radius_m: Option<f64>,
+}
+
+/// What the tool understood of a DEM file.
+#[derive(Clone, Debug, Serialize, Deserialize)]
+pub struct DemInfo {
+    pub path: PathBuf,
+    pub driver: String,
+    pub width: usize,
+    pub height: usize,
+    pub data_type: String,
+    pub crs_wkt: String,
+    /// For example `IAU_2015:30115`, when the CRS carries an authority code.
+    pub crs_authority: Option<String>,
+    pub crs_name: Option<String>,
+    pub body: Body,
+    pub body_radius_m: f64,
+    /// True when `assume_body_radius_m` overrode the CRS.
+    pub body_radius_overridden: bool,
+    pub geometry: GridGeometry,
+    pub nodata: Option<f64>,
+    pub height_convention: HeightConvention,
+    /// Ground pixel size at the raster centre (east-west, north-south), metres.
+    pub pixel_size_m: (f64, f64),
+    /// Longitude range as the file counts it (0..360 or -180..180), and latitude range.
+    pub lon_range_deg: (f64, f64),
+    pub lat_range_deg: (f64, f64),
+    /// The raster covers the 180 meridian somewhere inside it (not only on an edge).
+    pub crosses_180: bool,
+}
+
+/// An open DEM: read windows of heights from it. Safe to share between threads; reads are
+/// serialised on one GDAL handle.
+pub struct Dem {
+    dataset: Mutex<Dataset>,
+    info: DemInfo,
+    geometry: Arc<GridGeometry>,
+}
+
+impl std::fmt::Debug for Dem {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("Dem").field("info", &self.info).finish()
+    }
+}
+
+fn supported_type(t: GdalDataType) -> bool {
+    matches!(
+        t,
+        GdalDataType::UInt8
+            | GdalDataType::Int16
+            | GdalDataType::UInt16
+            | GdalDataType::Int32
+            | GdalDataType::UInt32
+            | GdalDataType::Float32
+            | GdalDataType::Float64
+    )
+}
+
+impl Dem {
+    /// Open a raster and work out its geometry, body and height convention.
+    pub fn open(path: impl AsRef<Path>, options: &OpenOptions) -> Result<Dem, TerrainError> {
+        let path = path.as_ref().to_path_buf();
+        let open_err = |reason: String| TerrainError::Open { path: path.clone(), reason };
+        if !path.exists() {
+            return Err(open_err("no such file".into()));
+        }
+        let ds = Dataset::open(&path).map_err(|e| open_err(e.to_string()))?;
+        let (width, height) = ds.raster_size();
+        if width == 0 || height == 0 || ds.raster_count() == 0 {
+            return Err(TerrainError::Empty { path, width, height });
+        }
+        if width > MAX_SIDE_PX || height > MAX_SIDE_PX {
+            return Err(TerrainError::Oversized { path, width, height, limit: MAX_SIDE_PX });
+        }
+        let band = ds.rasterband(1).map_err(|e| open_err(e.to_string()))?;
+        let band_type = band.band_type();
+        if !supported_type(band_type) {
+            return Err(TerrainError::UnsupportedType { path, data_type: band_type.name() });
+        }
+        let geotransform = ds.geo_transform().map_err(|_| TerrainError::NoGeotransform { path: path.clone() })?;
+        if geotransform == [0.0, 1.0, 0.0, 0.0, 0.0, 1.0] {
+            return Err(TerrainError::NoGeotransform { path });
+        }
+        let srs = ds.spatial_ref().map_err(|_| TerrainError::NoCrs { path: path.clone() })?;
+        let crs_wkt = srs.to_wkt().unwrap_or_default();
+        if crs_wkt.is_empty() {
+            return Err(TerrainError::NoCrs { path });
+        }
+        let proj4 = srs.to_proj4().map_err(|e| TerrainError::UnsupportedCrs { path: path.clone(), reason: e.to_string() })?;
+        let (projection, proj_radius) = MapProjection::from_proj4(&proj4)
+            .map_err(|reason| TerrainError::UnsupportedCrs { path: path.clone(), reason })?;
+        let semi_major = srs.semi_major().ok().or(proj_radius).unwrap_or(MOON_RADIUS_M);
+        let crs_body = Body::from_radius_m(semi_major);
+        let (body_radius_m, overridden) = match options.assume_body_radius_m {
+            Some(r) => (r, true),
+            None if crs_body == Body::Earth => {
+                return Err(TerrainError::EarthCrs { path, semi_major_m: semi_major });
+            }
+            None => (semi_major, false),
+        };
+        let body = Body::from_radius_m(body_radius_m);
+        let crs_authority = match (srs.auth_name(), srs.auth_code()) {
+            (Some(name), Ok(code)) => Some(format!("{name}:{code}")),
+            _ => None,
+        };
+        let scale = band.scale().unwrap_or(1.0);
+        let offset = band.offset().unwrap_or(0.0);
+        let nodata = band.no_data_value();
+        let mut height_convention = if (offset - body_radius_m).abs() < 10_000.0
+            || (offset > 0.0 && Body::from_radius_m(offset) != Body::Unknown)
+        {
+            HeightConvention::RadiusOffsetIgnored { scale, radius_offset_m: offset }
+        } else {
+            HeightConvention::ScaleOffset { scale, offset }
+        };
+        let geometry = GridGeometry { width, height, geotransform, projection, body_radius_m };
+        let pixel_size_m = geometry.pixel_size_m().unwrap_or((f64::NAN, f64::NAN));
+        let (lon_range_deg, lat_range_deg, crosses_180) = extent(&geometry);
+        drop(band);
+        // Values stored as planetary radii (no offset): detect from a decimated look.
+        if let HeightConvention::ScaleOffset { scale, offset } = height_convention {
+            if let Some(median) = coarse_median(&ds, nodata) {
+                let v = median * scale + offset;
+                if (v - body_radius_m).abs() < 0.01 * body_radius_m {
+                    height_convention = HeightConvention::RadiusValues { scale, offset, radius_m: body_radius_m };
+                }
+            }
+        }
+        let info = DemInfo {
+            path,
+            driver: ds.driver().short_name(),
+            width,
+            height,
+            data_type: band_type.name(),
+            crs_wkt,
+            crs_authority,
+            crs_name: srs.name(),
+            body,
+            body_radius_m,
+            body_radius_overridden: overridden,
+            geometry: geometry.clone(),
+            nodata,
+            height_convention,
+            pixel_size_m,
+            lon_range_deg,
+            lat_range_deg,
+            crosses_180,
+        };
+        Ok(Dem { dataset: Mutex::new(ds), info, geometry: Arc::new(geometry) })
+    }
+
+    pub fn info(&self) -> &DemInfo {
+        &self.info
+    }
+
+    pub fn geometry(&self) -> Arc<GridGeometry> {
+        self.geometry.clone()
+    }
+
+    pub fn width(&self) -> usize {
+        self.info.width
+    }
+
+    pub fn height(&self) -> usize {
+        self.info.height
+    }
+
+    /// Read a window of heights. Parts of the window outside the raster come back as NaN, so a
+    /// window with a halo can be asked for at any position (for neighbourhood operations at the
+    /// edges). Fails only if the window misses the raster entirely or GDAL cannot read it.
+    pub fn read_window(&self, col: isize, row: isize, width: usize, height: usize) -> Result<ElevationGrid, TerrainError> {
+        let (rw, rh) = (self.info.width as isize, self.info.height as isize);
+        let outside = || TerrainError::WindowOutside {
+            col, row, width, height, raster_width: self.info.width, raster_height: self.info.height,
+        };
+        if width == 0 || height == 0 {
+            return Err(outside());
+        }
+        let (c0, r0) = (col.max(0), row.max(0));
+        let (c1, r1) = ((col + width as isize).min(rw), (row + height as isize).min(rh));
+        if c0 >= c1 || r0 >= r1 {
+            return Err(outside());
+        }
+        let (iw, ih) = ((c1 - c0) as usize, (r1 - r0) as usize);
+        let mut raw = vec![0f64; iw * ih];
+        {
+            let ds = self.dataset.lock().unwrap_or_else(|p| p.into_inner());
+            let band = ds.rasterband(1).map_err(|e| self.read_err(c0, r0, iw, ih, e))?;
+            band.read_into_slice::<f64>((c0, r0), (iw, ih), (iw, ih), &mut raw, None)
+                .map_err(|e| self.read_err(c0, r0, iw, ih, e))?;
+        }
+        let mut heights_m = vec![f32::NAN; width * height];
+        let nodata = self.info.nodata;
+        let conv = &self.info.height_convention;
+        for r in 0..ih {
+            let dst_row = (r0 - row) as usize + r;
+            let dst_off = dst_row * width + (c0 - col) as usize;
+            for (c, &dn) in raw[r * iw..(r + 1) * iw].iter().enumerate() {
+                let is_nodata = dn.is_nan() || nodata.is_some_and(|nd| dn == nd || (nd.is_nan() && dn.is_nan()));
+                if !is_nodata {
+                    heights_m[dst_off + c] = conv.apply(dn) as f32;
+                }
+            }
+        }
+        Ok(ElevationGrid { geometry: self.geometry.clone(), col0: col, row0: row, width, height, heights_m })
+    }
+
+    /// Read the whole raster. Only for rasters known to be small (demo terrain, tests).
+    pub fn read_all(&self) -> Result<ElevationGrid, TerrainError> {
+        self.read_window(0, 0, self.info.width, self.info.height)
+    }
+
+    fn read_err(&self, col: isize, row: isize, width: usize, height: usize, e: gdal::errors::GdalError) -> TerrainError {
+        TerrainError::Read { path: self.info.path.clone(), col: col as usize, row: row as usize, width, height, reason: e.to_string() }
+    }
+
+    /// Height range and valid fraction over the whole raster, reading strip by strip so memory
+    /// stays bounded. Returns `None` for the range when there is no valid height.
+    pub fn scan_stats(&self, mut progress: impl FnMut(usize, usize)) -> Result<RasterStats, TerrainError> {
+        let strip = (8_000_000 / self.info.width.max(1)).clamp(1, self.info.height);
+        let (mut lo, mut hi, mut valid, mut total) = (f64::INFINITY, f64::NEG_INFINITY, 0u64, 0u64);
+        let mut row = 0;
+        while row < self.info.height {
+            let h = strip.min(self.info.height - row);
+            let g = self.read_window(0, row as isize, self.info.width, h)?;
+            for &v in &g.heights_m {
+                if !v.is_nan() {
+                    valid += 1;
+                    lo = lo.min(v as f64);
+                    hi = hi.max(v as f64);
+                }
+            }
+            total += g.heights_m.len() as u64;
+            row += h;
+            progress(row, self.info.height);
+        }
+        Ok(RasterStats { min_m: (valid > 0).then_some(lo), max_m: (valid > 0).then_some(hi), valid_fraction: valid as f64 / total.max(1) as f64 })
+    }
+}
+
+/// Summary of every height in a raster.
+#[derive(Clone, Debug, Serialize, Deserialize)]
+pub struct RasterStats {
+    pub min_m: Option<f64>,
+    pub max_m: Option<f64>,
+    pub valid_fraction: f64,
+}
+
+/// Median of a small decimated read, to recognise files whose values are radii.
+fn coarse_median(ds: &Dataset, nodata: Option<f64>) -> Option<f64> {
+    let band = ds.rasterband(1).ok()?;
+    let (w, h) = band.size();
+    let (bw, bh) = (w.min(64), h.min(64));
+    let buf = band.read_as::<f64>((0, 0), (w, h), (bw, bh), None).ok()?;
+    let mut v: Vec<f64> = buf.data().iter().copied().filter(|x| !x.is_nan() && Some(*x) != nodata).collect();
+    if v.is_empty() {
+        return None;
+    }
+    v.sort_by(|a, b| a.total_cmp(b));
+    Some(v[v.len() / 2])
+}
+
+/// Lon and lat ranges of a grid and whether it covers the 180 meridian.
+fn extent(g: &GridGeometry) -> ((f64, f64), (f64, f64), bool) {
+    match g.projection {
+        MapProjection::Geographic | MapProjection::Equirectangular { .. } => {
+            // Cylindrical: longitude is linear in x, so the corners give the range in the
+            // file's own counting (0..360 stays 0..360).
+            let lon_of = |col: f64| -> f64 {
+                let (x, _) = g.pixel_to_map(col, 0.0);
+                match g.projection {
+                    MapProjection::Geographic => x,
+                    MapProjection::Equirectangular { lon0_deg, lat_ts_deg, false_easting_m, .. } => {
+                        lon0_deg + ((x - false_easting_m) / (g.body_radius_m * lat_ts_deg.to_radians().cos())).to_degrees()
+                    }
+                    _ => unreachable!(),
+                }
+            };
+            let (a, b) = (lon_of(0.0), lon_of(g.width as f64));
+            let (lo, hi) = (a.min(b), a.max(b));
+            let lat_a = g.pixel_to_lonlat(0.0, 0.0).map(|p| p.1).unwrap_or(f64::NAN);
+            let lat_b = g.pixel_to_lonlat(0.0, g.height as f64).map(|p| p.1).unwrap_or(f64::NAN);
+            // 180 (or -180, 540...) strictly inside (lo, hi)?
+            let k = ((lo - 180.0) / 360.0).floor() + 1.0;
+            let crosses = 180.0 + 360.0 * k < hi - 1e-9 && hi - lo < 360.0 - 1e-9;
+            ((lo, hi), (lat_a.min(lat_b), lat_a.max(lat_b)), crosses)
+        }
+        _ => {
+            // Other projections: sample the border and the centre; longitudes in [-180, 180).
+            let n = 64;
+            let mut pts = Vec::new();
+            for i in 0..=n {
+                let t = i as f64 / n as f64;
+                let (w, h) = (g.width as f64, g.height as f64);
+                for (c, r) in [(t * w, 0.0), (t * w, h), (0.0, t * h), (w, t * h), (t * w, t * h)] {
+                    if let Some(p) = g.pixel_to_lonlat(c, r) {
+                        pts.push(p);
+                    }
+                }
+            }
+            let lat_lo = pts.iter().map(|p| p.1).fold(f64::INFINITY, f64::min);
+            let lat_hi = pts.iter().map(|p| p.1).fold(f64::NEG_INFINITY, f64::max);
+            let lon_lo = pts.iter().map(|p| p.0).fold(f64::INFINITY, f64::min);
+            let lon_hi = pts.iter().map(|p| p.0).fold(f64::NEG_INFINITY, f64::max);
+            let crosses = pts.iter().any(|p| p.0 > 170.0) && pts.iter().any(|p| p.0 < -170.0);
+            ((lon_lo, lon_hi), (lat_lo, lat_hi), crosses)
+        }
+    }
+}
