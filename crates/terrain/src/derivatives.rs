@@ -14,11 +14,31 @@
 use crate::grid::ElevationGrid;
 use rayon::prelude::*;
 
-/// Ground size (east-west, north-south) in metres of a pixel in window row `row`.
-fn row_pixel_size(grid: &ElevationGrid, row: usize) -> (f64, f64) {
-    let c = grid.col0 as f64 + grid.width as f64 / 2.0;
-    let r = grid.row0 as f64 + row as f64 + 0.5;
-    grid.geometry.pixel_size_m_at(c, r).unwrap_or((f64::NAN, f64::NAN))
+/// How far apart neighbouring pixels are taken to be.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+pub enum Spacing {
+    /// True ground distance in metres at each row (a degree of longitude shrinks with
+    /// cos(latitude) on cylindrical grids). What every measurement uses.
+    #[default]
+    Ground,
+    /// The geotransform's pixel size in map units, as `gdaldem` does for projected grids.
+    /// Only for comparing with GDAL.
+    MapUnits,
+}
+
+/// Pixel size (east-west, north-south) of window row `row` under `spacing`.
+fn row_pixel_size(grid: &ElevationGrid, row: usize, spacing: Spacing) -> (f64, f64) {
+    match spacing {
+        Spacing::Ground => {
+            let c = grid.col0 as f64 + grid.width as f64 / 2.0;
+            let r = grid.row0 as f64 + row as f64 + 0.5;
+            grid.geometry.pixel_size_m_at(c, r).unwrap_or((f64::NAN, f64::NAN))
+        }
+        Spacing::MapUnits => {
+            let g = &grid.geometry.geotransform;
+            (g[1].hypot(g[4]), g[2].hypot(g[5]))
+        }
+    }
 }
 
 /// The 3x3 neighbourhood of (c, r), or `None` if it leaves the window or holds nodata.
@@ -51,10 +71,10 @@ fn horn_gradient(z: &[f64; 9], dx: f64, dy: f64) -> (f64, f64) {
     (dzdx, dzdy)
 }
 
-fn per_pixel(grid: &ElevationGrid, f: impl Fn(&[f64; 9], f64, f64) -> f64 + Sync) -> Vec<f32> {
+fn per_pixel(grid: &ElevationGrid, spacing: Spacing, f: impl Fn(&[f64; 9], f64, f64) -> f64 + Sync) -> Vec<f32> {
     let mut out = vec![f32::NAN; grid.width * grid.height];
     out.par_chunks_mut(grid.width.max(1)).enumerate().for_each(|(r, row)| {
-        let (dx, dy) = row_pixel_size(grid, r);
+        let (dx, dy) = row_pixel_size(grid, r, spacing);
         for (c, v) in row.iter_mut().enumerate() {
             if let Some(z) = window3(grid, c, r) {
                 *v = f(&z, dx, dy) as f32;
@@ -64,9 +84,14 @@ fn per_pixel(grid: &ElevationGrid, f: impl Fn(&[f64; 9], f64, f64) -> f64 + Sync
     out
 }
 
-/// Horn slope in degrees.
+/// Horn slope in degrees, ground spacing.
 pub fn slope_deg(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, |z, dx, dy| {
+    slope_deg_with(grid, Spacing::Ground)
+}
+
+/// Horn slope in degrees with the given pixel spacing.
+pub fn slope_deg_with(grid: &ElevationGrid, spacing: Spacing) -> Vec<f32> {
+    per_pixel(grid, spacing, |z, dx, dy| {
         let (gx, gy) = horn_gradient(z, dx, dy);
         gx.hypot(gy).atan().to_degrees()
     })
@@ -74,7 +99,7 @@ pub fn slope_deg(grid: &ElevationGrid) -> Vec<f32> {
 
 /// Horn aspect: the downhill direction in degrees clockwise from north, [0, 360); NaN where flat.
 pub fn aspect_deg(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, |z, dx, dy| {
+    per_pixel(grid, Spacing::Ground, |z, dx, dy| {
         let (gx, gy) = horn_gradient(z, dx, dy);
         if gx == 0.0 && gy == 0.0 {
             f64::NAN
@@ -87,7 +112,7 @@ pub fn aspect_deg(grid: &ElevationGrid) -> Vec<f32> {
 /// Hillshade 0..255 for a lamp at `azimuth_deg` (clockwise from north) and `altitude_deg`.
 pub fn hillshade(grid: &ElevationGrid, azimuth_deg: f64, altitude_deg: f64, z_factor: f64) -> Vec<f32> {
     let (zen, az) = ((90.0 - altitude_deg).to_radians(), azimuth_deg.to_radians());
-    per_pixel(grid, move |z, dx, dy| {
+    per_pixel(grid, Spacing::Ground, move |z, dx, dy| {
         let (gx, gy) = horn_gradient(z, dx, dy);
         let (gx, gy) = (gx * z_factor, gy * z_factor);
         let slope = gx.hypot(gy).atan();
@@ -99,12 +124,12 @@ pub fn hillshade(grid: &ElevationGrid, azimuth_deg: f64, altitude_deg: f64, z_fa
 
 /// Terrain Ruggedness Index (Riley et al. 1999), mean absolute difference to the 8 neighbours, m.
 pub fn tri_m(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, |z, _, _| z.iter().map(|h| (h - z[4]).abs()).sum::<f64>() / 8.0)
+    per_pixel(grid, Spacing::MapUnits, |z, _, _| z.iter().map(|h| (h - z[4]).abs()).sum::<f64>() / 8.0)
 }
 
 /// Roughness: max minus min height in the 3x3 window (Wilson et al. 2007), m.
 pub fn roughness_m(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, |z, _, _| {
+    per_pixel(grid, Spacing::MapUnits, |z, _, _| {
         let (lo, hi) = z.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &h| (a.min(h), b.max(h)));
         hi - lo
     })

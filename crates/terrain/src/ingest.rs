@@ -161,7 +161,7 @@ impl Dem {
         let body = Body::from_radius_m(body_radius_m);
         let crs_authority = match (srs.auth_name(), srs.auth_code()) {
             (Some(name), Ok(code)) => Some(format!("{name}:{code}")),
-            _ => None,
+            _ => identify_iau_moon(&projection, semi_major),
         };
         let scale = band.scale().unwrap_or(1.0);
         let offset = band.offset().unwrap_or(0.0);
@@ -265,6 +265,55 @@ impl Dem {
         Ok(ElevationGrid { geometry: self.geometry.clone(), col0: col, row0: row, width, height, heights_m })
     }
 
+    /// Read a window of `width x height` *source* pixels at (col, row), resampled by GDAL to one
+    /// output pixel per `factor x factor` source pixels (average). The returned grid's geometry is
+    /// that of the whole raster at the coarser pixel size, and its `col0`/`row0` are counted in
+    /// coarse pixels, so lon/lat lookups and derivatives (hillshade) work on it unchanged.
+    /// Used for display pyramids: a large raster is looked at through a few such levels.
+    pub fn read_window_decimated(&self, col: usize, row: usize, width: usize, height: usize, factor: usize) -> Result<ElevationGrid, TerrainError> {
+        let factor = factor.max(1);
+        let outside = || TerrainError::WindowOutside {
+            col: col as isize, row: row as isize, width, height, raster_width: self.info.width, raster_height: self.info.height,
+        };
+        let (c1, r1) = ((col + width).min(self.info.width), (row + height).min(self.info.height));
+        if width == 0 || height == 0 || col >= c1 || row >= r1 {
+            return Err(outside());
+        }
+        let (iw, ih) = (c1 - col, r1 - row);
+        let (ow, oh) = (iw.div_ceil(factor), ih.div_ceil(factor));
+        let mut raw = vec![0f64; ow * oh];
+        {
+            let ds = self.dataset.lock().unwrap_or_else(|p| p.into_inner());
+            let band = ds.rasterband(1).map_err(|e| self.read_err(col as isize, row as isize, iw, ih, e))?;
+            band.read_into_slice::<f64>((col as isize, row as isize), (iw, ih), (ow, oh), &mut raw, Some(gdal::raster::ResampleAlg::Average))
+                .map_err(|e| self.read_err(col as isize, row as isize, iw, ih, e))?;
+        }
+        let nodata = self.info.nodata;
+        let conv = &self.info.height_convention;
+        let heights_m = raw
+            .iter()
+            .map(|&dn| {
+                let is_nodata = dn.is_nan() || nodata.is_some_and(|nd| dn == nd);
+                if is_nodata { f32::NAN } else { conv.apply(dn) as f32 }
+            })
+            .collect();
+        let mut geometry = (*self.geometry).clone();
+        geometry.geotransform[1] *= factor as f64;
+        geometry.geotransform[2] *= factor as f64;
+        geometry.geotransform[4] *= factor as f64;
+        geometry.geotransform[5] *= factor as f64;
+        geometry.width = self.info.width.div_ceil(factor);
+        geometry.height = self.info.height.div_ceil(factor);
+        Ok(ElevationGrid {
+            geometry: Arc::new(geometry),
+            col0: (col / factor) as isize,
+            row0: (row / factor) as isize,
+            width: ow,
+            height: oh,
+            heights_m,
+        })
+    }
+
     /// Read the whole raster. Only for rasters known to be small (demo terrain, tests).
     pub fn read_all(&self) -> Result<ElevationGrid, TerrainError> {
         self.read_window(0, 0, self.info.width, self.info.height)
@@ -306,6 +355,27 @@ pub struct RasterStats {
     pub valid_fraction: f64,
 }
 
+/// IAU 2015 Moon CRS codes we can recognise when a format (GeoTIFF keys, PDS labels) does not
+/// carry the authority: the sphere and the projections this tool supports.
+const IAU_2015_MOON_CODES: [u32; 5] = [30100, 30110, 30115, 30130, 30135];
+
+/// The IAU 2015 code whose definition (as PROJ gives it) equals this projection and radius.
+fn identify_iau_moon(projection: &MapProjection, radius_m: f64) -> Option<String> {
+    static KNOWN: std::sync::OnceLock<Vec<(String, MapProjection, f64)>> = std::sync::OnceLock::new();
+    let known = KNOWN.get_or_init(|| {
+        IAU_2015_MOON_CODES
+            .iter()
+            .filter_map(|code| {
+                let name = format!("IAU_2015:{code}");
+                let srs = gdal::spatial_ref::SpatialRef::from_definition(&name).ok()?;
+                let (p, r) = MapProjection::from_proj4(&srs.to_proj4().ok()?).ok()?;
+                Some((name, p, r?))
+            })
+            .collect()
+    });
+    known.iter().find(|(_, p, r)| p == projection && (r - radius_m).abs() < 1e-3).map(|(n, _, _)| n.clone())
+}
+
 /// Median of a small decimated read, to recognise files whose values are radii.
 fn coarse_median(ds: &Dataset, nodata: Option<f64>) -> Option<f64> {
     let band = ds.rasterband(1).ok()?;
@@ -342,7 +412,7 @@ fn extent(g: &GridGeometry) -> ((f64, f64), (f64, f64), bool) {
             let lat_b = g.pixel_to_lonlat(0.0, g.height as f64).map(|p| p.1).unwrap_or(f64::NAN);
             // 180 (or -180, 540...) strictly inside (lo, hi)?
             let k = ((lo - 180.0) / 360.0).floor() + 1.0;
-            let crosses = 180.0 + 360.0 * k < hi - 1e-9 && hi - lo < 360.0 - 1e-9;
+            let crosses = 180.0 + 360.0 * k < hi - 1e-9;
             ((lo, hi), (lat_a.min(lat_b), lat_a.max(lat_b)), crosses)
         }
         _ => {

@@ -76,7 +76,8 @@ impl MapProjection {
             MapProjection::Geographic => (x, y),
             MapProjection::Equirectangular { lon0_deg, lat_ts_deg, false_easting_m, false_northing_m } => {
                 let lat = ((y - false_northing_m) / r).to_degrees();
-                if lat.abs() > 90.0 + 1e-9 { return None; }
+                // Products round their pixel scale (LOLA: 7580.84 m), so edges may overshoot the pole slightly.
+                if lat.abs() > 90.0 + 1e-3 { return None; }
                 let lon = lon0_deg + ((x - false_easting_m) / (r * lat_ts_deg.to_radians().cos())).to_degrees();
                 (lon, lat.clamp(-90.0, 90.0))
             }
@@ -141,11 +142,15 @@ impl MapProjection {
                 if (lat0.abs() - 90.0).abs() > 1e-6 {
                     return Err(format!("oblique stereographic (lat_0={lat0}) is not supported; only polar"));
                 }
-                let lat_ts = p.get("lat_ts").and_then(|v| v.parse().ok()).unwrap_or(lat0);
-                let k = num("k_0");
-                if p.contains_key("k_0") && (k - 1.0).abs() > 1e-9 && !p.contains_key("lat_ts") {
-                    return Err("polar stereographic with a scale factor k_0 != 1 is not supported; give lat_ts".into());
-                }
+                // A scale factor k at the pole is the same as true scale at the latitude where
+                // (1 + sin|lat_ts|)/2 = k (Snyder 1987 eq. 21-35 on the sphere).
+                let k = p.get("k_0").or_else(|| p.get("k")).and_then(|v| v.parse::<f64>().ok());
+                let lat_ts = match (p.get("lat_ts").and_then(|v| v.parse::<f64>().ok()), k) {
+                    (Some(ts), _) => ts,
+                    (None, Some(k)) if (0.5..=1.0).contains(&k) => (2.0 * k - 1.0).asin().to_degrees().copysign(lat0),
+                    (None, Some(k)) => return Err(format!("polar stereographic scale factor k={k} is outside 0.5..1")),
+                    (None, None) => lat0,
+                };
                 MapProjection::PolarStereographic { south: lat0 < 0.0, lon0_deg: num("lon_0"), lat_ts_deg: lat_ts, false_easting_m: fe, false_northing_m: fn_ }
             }
             "ortho" => MapProjection::Orthographic { lon0_deg: num("lon_0"), lat0_deg: num("lat_0"), false_easting_m: fe, false_northing_m: fn_ },
