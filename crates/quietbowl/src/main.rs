@@ -1,1 +1,54 @@
-fn main() {}
+//! `quietbowl`: the command line and the workbench launcher. Parses arguments and wires the
+//! library crates together; every computation lives in a library.
+
+mod commands;
+mod diameter_range;
+
+use clap::{Parser, Subcommand};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Choose lunar craters to host a large far-side structure, from orbital elevation data.
+///
+/// Screening estimates from orbital data; real site decisions rest on mission-grade analysis
+/// and the responsible engineering authority's review.
+#[derive(Parser)]
+#[command(name = "quietbowl", version, about, long_about = None)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Tell what the tool understood of a DEM: driver, size, CRS and body, pixel size,
+    /// height convention, value range, valid fraction, extent.
+    Describe(commands::describe::Args),
+    /// Write the invented demo terrain (a far-side highland patch) and its ground truth.
+    MakeDemoTerrain {
+        /// Output folder.
+        #[arg(long, default_value = "demo-terrain")]
+        out: PathBuf,
+    },
+    /// Find and measure every crater in a diameter range, with Earth and sky visibility.
+    Survey(commands::survey::Args),
+    /// Print the visibility report of one point: horizon, Earth margin, sky track.
+    Site(commands::site::Args),
+}
+
+fn main() -> ExitCode {
+    let cli = Cli::parse();
+    let result = match cli.command {
+        Command::Describe(a) => commands::describe::run(a),
+        Command::MakeDemoTerrain { out } => commands::make_demo(&out),
+        Command::Survey(a) => commands::survey::run(a),
+        Command::Site(a) => commands::site::run(a),
+    };
+    match result {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) => {
+            eprintln!("error: {e:#}");
+            ExitCode::FAILURE
+        }
+    }
+}

@@ -3,8 +3,14 @@
 //!
 //! The GUI, the command line and the exporters only read this model.
 
+mod error;
+pub mod io;
 pub mod metrics;
 pub mod model;
+pub mod run;
 
-pub use metrics::{MetricInfo, METRICS};
+pub use error::SurveyError;
+pub use io::write_atomic;
+pub use metrics::{metric, MetricInfo, METRICS};
 pub use model::{Candidate, CandidateSource, InputFile, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+pub use run::{run, Progress, RunOptions, RunOutcome};

@@ -2,8 +2,8 @@
 //!
 //! - Slope and aspect: Horn (1981), "Hill shading and the reflectance map", Proc. IEEE 69:14.
 //! - Hillshade: the same gradient with a lamp at azimuth/altitude (Horn 1981).
-//! - TRI: Riley, DeGloria and Elliot (1999), Intermountain J. Sci. 5:23, in the form GDAL's
-//!   `gdaldem TRI` computes by default (mean absolute difference to the 8 neighbours).
+//! - TRI: Riley, DeGloria and Elliot (1999), Intermountain J. Sci. 5:23: the square root of the
+//!   summed squared differences to the 8 neighbours (`gdaldem TRI`'s default since GDAL 3.3).
 //! - Roughness: largest minus smallest height in the 3x3 window (Wilson et al. 2007,
 //!   Marine Geodesy 30:3), as `gdaldem roughness`.
 //!
@@ -122,9 +122,10 @@ pub fn hillshade(grid: &ElevationGrid, azimuth_deg: f64, altitude_deg: f64, z_fa
     })
 }
 
-/// Terrain Ruggedness Index (Riley et al. 1999), mean absolute difference to the 8 neighbours, m.
+/// Terrain Ruggedness Index (Riley et al. 1999): sqrt of summed squared differences to the 8
+/// neighbours, m.
 pub fn tri_m(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, Spacing::MapUnits, |z, _, _| z.iter().map(|h| (h - z[4]).abs()).sum::<f64>() / 8.0)
+    per_pixel(grid, Spacing::MapUnits, |z, _, _| z.iter().map(|h| (h - z[4]).powi(2)).sum::<f64>().sqrt())
 }
 
 /// Roughness: max minus min height in the 3x3 window (Wilson et al. 2007), m.

@@ -72,6 +72,9 @@ pub struct DemInfo {
     pub crs_wkt: String,
     /// For example `IAU_2015:30115`, when the CRS carries an authority code.
     pub crs_authority: Option<String>,
+    /// True when the file carried no authority code and `crs_authority` was recognised by
+    /// comparing its definition with the IAU 2015 Moon CRSs.
+    pub crs_authority_recognised: bool,
     pub crs_name: Option<String>,
     pub body: Body,
     pub body_radius_m: f64,
@@ -159,9 +162,13 @@ impl Dem {
             None => (semi_major, false),
         };
         let body = Body::from_radius_m(body_radius_m);
-        let crs_authority = match (srs.auth_name(), srs.auth_code()) {
-            (Some(name), Ok(code)) => Some(format!("{name}:{code}")),
-            _ => identify_iau_moon(&projection, semi_major),
+        let (crs_authority, crs_authority_recognised) = match (srs.auth_name(), srs.auth_code()) {
+            (Some(name), Ok(code)) => (Some(format!("{name}:{code}")), false),
+            _ => {
+                let found = identify_iau_moon(&projection, semi_major);
+                let recognised = found.is_some();
+                (found, recognised)
+            }
         };
         let scale = band.scale().unwrap_or(1.0);
         let offset = band.offset().unwrap_or(0.0);
@@ -194,6 +201,7 @@ impl Dem {
             data_type: band_type.name(),
             crs_wkt,
             crs_authority,
+            crs_authority_recognised,
             crs_name: srs.name(),
             body,
             body_radius_m,

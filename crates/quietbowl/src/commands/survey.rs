@@ -1,0 +1,106 @@
+//! `quietbowl survey <DEM> --out survey.json`: find and measure every crater in a range.
+
+use super::bar;
+use crate::diameter_range;
+use anyhow::Context;
+use craters::catalogue::OnBadRow;
+use std::path::PathBuf;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::Arc;
+use std::time::Instant;
+use survey::{RunOptions, SurveyError};
+use terrain::OpenOptions;
+
+#[derive(clap::Args)]
+pub struct Args {
+    /// The DEM to survey.
+    dem: PathBuf,
+    /// Diameter range, MIN..MAX in metres or with km (e.g. 800..2000, 0.5km..8km). Default:
+    /// 3 pixels up to a third of a tile.
+    #[arg(long, value_name = "MIN..MAX", value_parser = diameter_range::parse)]
+    diameter: Option<(Option<f64>, Option<f64>)>,
+    /// Crater list to measure: CSV (lon_deg, lat_deg, diameter_m or diameter_km), GeoJSON points
+    /// or polygons, or any vector file OGR reads.
+    #[arg(long, value_name = "FILE")]
+    catalogue: Option<PathBuf>,
+    /// Skip catalogue rows that cannot be read (each is reported with its line) instead of stopping.
+    #[arg(long)]
+    skip_bad_rows: bool,
+    /// Measure only the catalogue's craters; do not detect.
+    #[arg(long, requires = "catalogue")]
+    catalogue_only: bool,
+    /// Leave out the Earth and sky visibility columns.
+    #[arg(long)]
+    no_visibility: bool,
+    /// Tile core size in pixels.
+    #[arg(long, default_value_t = 2048, value_name = "PX")]
+    tile: usize,
+    /// Take heights as above a sphere of this radius (m), whatever the CRS says.
+    #[arg(long, value_name = "METRES")]
+    assume_body_radius: Option<f64>,
+    /// Where to write the survey (JSON).
+    #[arg(long, value_name = "FILE")]
+    out: PathBuf,
+}
+
+pub fn run(a: Args) -> anyhow::Result<()> {
+    let (dmin, dmax) = a.diameter.unwrap_or((None, None));
+    let opts = RunOptions {
+        diameter_min_m: dmin,
+        diameter_max_m: dmax,
+        tile_px: a.tile,
+        catalogue: a.catalogue.clone(),
+        catalogue_on_bad_row: if a.skip_bad_rows { OnBadRow::Skip } else { OnBadRow::Stop },
+        detect: !a.catalogue_only,
+        visibility: !a.no_visibility,
+        open: OpenOptions { assume_body_radius_m: a.assume_body_radius },
+        ..RunOptions::default()
+    };
+    let cancel = Arc::new(AtomicBool::new(false));
+    {
+        let cancel = cancel.clone();
+        // A second Ctrl-C while the first is being honoured ends the process at once.
+        let _ = ctrlc::set_handler(move || {
+            if cancel.swap(true, Ordering::SeqCst) {
+                std::process::exit(130);
+            }
+            eprintln!("\ncancelling after the tiles in progress; nothing will be written");
+        });
+    }
+    let pb = bar(0, "surveying tiles");
+    let start = Instant::now();
+    let outcome = survey::run(
+        &a.dem,
+        &opts,
+        &|p| {
+            pb.set_length(p.tiles_total as u64);
+            pb.set_position(p.tiles_done as u64);
+            pb.set_message(format!("surveying tiles, {} candidates", p.candidates));
+        },
+        &cancel,
+    );
+    pb.finish_and_clear();
+    let outcome = match outcome {
+        Err(SurveyError::Cancelled) => {
+            eprintln!("survey cancelled; {} was not written", a.out.display());
+            std::process::exit(130);
+        }
+        r => r.with_context(|| format!("surveying {}", a.dem.display()))?,
+    };
+    for p in &outcome.skipped_rows {
+        eprintln!("skipped catalogue line {}: {}", p.line, p.reason);
+    }
+    outcome.survey.write(&a.out).with_context(|| format!("writing {}", a.out.display()))?;
+    let secs = start.elapsed().as_secs_f64();
+    println!(
+        "{} candidates in {:.2} s ({:.1} Mpx/s over {} x {} px); written to {}",
+        outcome.survey.candidates.len(),
+        secs,
+        outcome.pixels as f64 / 1e6 / secs.max(1e-9),
+        (outcome.pixels as f64).sqrt().round(),
+        (outcome.pixels as f64).sqrt().round(),
+        a.out.display()
+    );
+    println!("{}", super::CAUTION);
+    Ok(())
+}

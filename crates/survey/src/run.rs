@@ -1,0 +1,222 @@
+//! The survey run: a DEM in, a [`SurveyFile`] out. The DEM is cut into square tiles with a halo
+//! wide enough to measure a crater of the largest diameter whose centre lies in the tile; each
+//! tile keeps only the craters centred in its own core, so a crater is measured once, whole,
+//! whatever tile it falls in. Tiles run in parallel; memory holds a few tile windows at a time.
+
+use crate::model::{Candidate, CandidateSource, InputFile, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+use crate::SurveyError;
+use craters::catalogue::{self, CatalogueRow, OnBadRow, RowProblem};
+use craters::{CraterMeasurement, DetectOptions, MeasureOptions};
+use rayon::prelude::*;
+use sha2::{Digest, Sha256};
+use std::io::Read;
+use std::path::{Path, PathBuf};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::Mutex;
+use terrain::{Dem, OpenOptions};
+use visibility::VisibilityOptions;
+
+/// Measurement reaches 2.5 crater radii from the centre (profiles and the plain around the rim).
+const MEASURE_REACH_RADII: f64 = 2.5;
+
+/// What to survey and how.
+#[derive(Clone, Debug)]
+pub struct RunOptions {
+    /// Diameter range; `None` means the default: 3 pixels up to a third of a tile.
+    pub diameter_min_m: Option<f64>,
+    pub diameter_max_m: Option<f64>,
+    /// Tile core size in pixels.
+    pub tile_px: usize,
+    pub catalogue: Option<PathBuf>,
+    pub catalogue_on_bad_row: OnBadRow,
+    /// Detect craters (false: measure only the catalogue's).
+    pub detect: bool,
+    /// Fill the visibility columns.
+    pub visibility: bool,
+    pub open: OpenOptions,
+    pub visibility_options: VisibilityOptions,
+}
+
+impl Default for RunOptions {
+    fn default() -> Self {
+        RunOptions {
+            diameter_min_m: None,
+            diameter_max_m: None,
+            tile_px: 2048,
+            catalogue: None,
+            catalogue_on_bad_row: OnBadRow::Stop,
+            detect: true,
+            visibility: true,
+            open: OpenOptions::default(),
+            visibility_options: VisibilityOptions::default(),
+        }
+    }
+}
+
+/// Where the run is, for a progress bar.
+#[derive(Clone, Copy, Debug)]
+pub struct Progress {
+    pub tiles_done: usize,
+    pub tiles_total: usize,
+    pub candidates: usize,
+    pub pixels_done: u64,
+}
+
+/// A finished run: the survey and what the user should hear about it.
+pub struct RunOutcome {
+    pub survey: SurveyFile,
+    /// Catalogue rows skipped in lenient mode, with their line numbers.
+    pub skipped_rows: Vec<RowProblem>,
+    pub pixels: u64,
+}
+
+struct Tile {
+    col: usize,
+    row: usize,
+    width: usize,
+    height: usize,
+}
+
+fn tiles(width: usize, height: usize, tile_px: usize) -> Vec<Tile> {
+    let mut v = Vec::new();
+    for row in (0..height).step_by(tile_px) {
+        for col in (0..width).step_by(tile_px) {
+            v.push(Tile { col, row, width: tile_px.min(width - col), height: tile_px.min(height - row) });
+        }
+    }
+    v
+}
+
+/// SHA-256 of a file, read in blocks.
+pub fn sha256_file(path: &Path) -> std::io::Result<(u64, String)> {
+    let mut f = std::fs::File::open(path)?;
+    let mut hasher = Sha256::new();
+    let mut buf = vec![0u8; 1 << 20];
+    let mut size = 0u64;
+    loop {
+        let n = f.read(&mut buf)?;
+        if n == 0 {
+            break;
+        }
+        size += n as u64;
+        hasher.update(&buf[..n]);
+    }
+    let hex = hasher.finalize().iter().map(|b| format!("{b:02x}")).collect();
+    Ok((size, hex))
+}
+
+/// Survey a DEM. `progress` is called after each tile; setting `cancel` stops the run between
+/// tiles with [`SurveyError::Cancelled`] (nothing is returned, so nothing half-made is written).
+pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sync), cancel: &AtomicBool) -> Result<RunOutcome, SurveyError> {
+    let dem = Dem::open(dem_path, &opts.open)?;
+    let info = dem.info().clone();
+    let (px_ew, px_ns) = info.pixel_size_m;
+    let pixel_m = px_ew.max(px_ns);
+    if !(pixel_m.is_finite() && pixel_m > 0.0) {
+        return Err(SurveyError::Parameters("the DEM's pixel size could not be worked out at its centre".into()));
+    }
+    if opts.tile_px < 64 {
+        return Err(SurveyError::Parameters(format!("tile size {} px is too small (64 at least)", opts.tile_px)));
+    }
+    let tile_px = opts.tile_px.min(info.width.max(info.height));
+    let d_min = opts.diameter_min_m.unwrap_or(3.0 * pixel_m);
+    let d_max = opts.diameter_max_m.unwrap_or(tile_px as f64 / 3.0 * px_ew.min(px_ns));
+    if !(d_min > 0.0 && d_max >= d_min && d_max.is_finite()) {
+        return Err(SurveyError::Parameters(format!("diameter range {d_min}..{d_max} m is not a range of positive diameters")));
+    }
+    let needed_px = (d_min * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 3;
+    if info.width < needed_px || info.height < needed_px {
+        return Err(SurveyError::TooSmall { width: info.width, height: info.height, pixel_m, diameter_min_m: d_min, needed_px });
+    }
+    let halo_px = (d_max / 2.0 * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 2;
+
+    let (seeds, skipped_rows) = match &opts.catalogue {
+        Some(path) => catalogue::read_on(path, opts.catalogue_on_bad_row, info.body_radius_m)?,
+        None => (Vec::new(), Vec::new()),
+    };
+    let (size_bytes, sha256) = sha256_file(dem_path).map_err(|e| SurveyError::Io { path: dem_path.display().to_string(), reason: e.to_string() })?;
+
+    let detect_opts = DetectOptions { diameter_min_m: d_min, diameter_max_m: d_max, ..DetectOptions::default() };
+    let measure_opts = MeasureOptions::default();
+    let all_tiles = tiles(info.width, info.height, tile_px);
+    let total = all_tiles.len();
+    let done = AtomicUsize::new(0);
+    let pixels_done = std::sync::atomic::AtomicU64::new(0);
+    let found = Mutex::new(Vec::<(CandidateSource, CraterMeasurement, Option<visibility::SiteVisibility>)>::new());
+    let geometry = dem.geometry();
+
+    all_tiles.par_iter().try_for_each(|t| -> Result<(), SurveyError> {
+        if cancel.load(Ordering::Relaxed) {
+            return Err(SurveyError::Cancelled);
+        }
+        let window = dem.read_window(t.col as isize - halo_px as isize, t.row as isize - halo_px as isize, t.width + 2 * halo_px, t.height + 2 * halo_px)?;
+        // A crater belongs to the tile whose core holds its centre.
+        let owns = |lon: f64, lat: f64| {
+            geometry.lonlat_to_pixel(lon, lat).is_some_and(|(c, r)| {
+                c >= t.col as f64 && c < (t.col + t.width) as f64 && r >= t.row as f64 && r < (t.row + t.height) as f64
+            })
+        };
+        let mut here: Vec<(CandidateSource, CraterMeasurement)> = Vec::new();
+        if opts.detect && window.valid_fraction() > 0.0 {
+            match craters::survey_grid(&window, &detect_opts, &measure_opts) {
+                Ok(v) => here.extend(v.into_iter().filter(|m| owns(m.centre_lon_deg, m.centre_lat_deg)).map(|m| (CandidateSource::Detected, m))),
+                Err(craters::CraterError::AllNodata) => {}
+                Err(e) => return Err(e.into()),
+            }
+        }
+        let tile_seeds: Vec<&CatalogueRow> = seeds.iter().filter(|s| owns(s.lon_deg, s.lat_deg)).collect();
+        here.extend(tile_seeds.par_iter().filter_map(|s| {
+            craters::measure(&window, s.lon_deg, s.lat_deg, s.diameter_m, &measure_opts)
+                .ok()
+                .map(|m| (CandidateSource::Catalogue { row: s.line }, m))
+        }).collect::<Vec<_>>());
+        let vis: Vec<Option<visibility::SiteVisibility>> = if opts.visibility {
+            let sites: Vec<(f64, f64)> = here.iter().map(|(_, m)| (m.centre_lon_deg, m.centre_lat_deg)).collect();
+            visibility::bulk(&sites, Some(&window), &opts.visibility_options).into_iter().map(Some).collect()
+        } else {
+            vec![None; here.len()]
+        };
+        let mut f = found.lock().unwrap_or_else(|p| p.into_inner());
+        f.extend(here.into_iter().zip(vis).map(|((s, m), v)| (s, m, v)));
+        let n = f.len();
+        drop(f);
+        let d = done.fetch_add(1, Ordering::Relaxed) + 1;
+        let p = pixels_done.fetch_add((t.width * t.height) as u64, Ordering::Relaxed) + (t.width * t.height) as u64;
+        progress(Progress { tiles_done: d, tiles_total: total, candidates: n, pixels_done: p });
+        Ok(())
+    })?;
+
+    let mut found = found.into_inner().unwrap_or_else(|p| p.into_inner());
+    // Detected craters that a catalogue seed also measured are kept once, as the seed.
+    found.sort_by(|a, b| {
+        b.1.centre_lat_deg.total_cmp(&a.1.centre_lat_deg)
+            .then(a.1.centre_lon_deg.total_cmp(&b.1.centre_lon_deg))
+            .then(a.1.diameter_m.total_cmp(&b.1.diameter_m))
+    });
+    let candidates = found
+        .into_iter()
+        .enumerate()
+        .map(|(i, (source, crater, visibility))| Candidate { id: i as u32 + 1, source, crater, visibility })
+        .collect();
+    let survey = SurveyFile {
+        schema_version: SCHEMA_VERSION,
+        tool_version: env!("CARGO_PKG_VERSION").to_string(),
+        input: InputFile {
+            path: dem_path.display().to_string(),
+            size_bytes,
+            sha256,
+            crs_wkt: info.crs_wkt.clone(),
+            crs_authority: info.crs_authority.clone(),
+            body_radius_m: info.body_radius_m,
+        },
+        parameters: SurveyParameters {
+            diameter_min_m: d_min,
+            diameter_max_m: d_max,
+            tile_px,
+            catalogue: opts.catalogue.as_ref().map(|p| p.display().to_string()),
+            detect: opts.detect,
+        },
+        candidates,
+    };
+    Ok(RunOutcome { survey, skipped_rows, pixels: (info.width * info.height) as u64 })
+}
