@@ -67,7 +67,8 @@ pub struct RunOutcome {
     pub survey: SurveyFile,
     /// Catalogue rows skipped in lenient mode, with their line numbers.
     pub skipped_rows: Vec<RowProblem>,
-    pub pixels: u64,
+    pub width_px: usize,
+    pub height_px: usize,
 }
 
 struct Tile {
@@ -218,5 +219,5 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
         },
         candidates,
     };
-    Ok(RunOutcome { survey, skipped_rows, pixels: (info.width * info.height) as u64 })
+    Ok(RunOutcome { survey, skipped_rows, width_px: info.width, height_px: info.height })
 }

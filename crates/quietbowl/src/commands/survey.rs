@@ -96,9 +96,9 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         "{} candidates in {:.2} s ({:.1} Mpx/s over {} x {} px); written to {}",
         outcome.survey.candidates.len(),
         secs,
-        outcome.pixels as f64 / 1e6 / secs.max(1e-9),
-        (outcome.pixels as f64).sqrt().round(),
-        (outcome.pixels as f64).sqrt().round(),
+        (outcome.width_px * outcome.height_px) as f64 / 1e6 / secs.max(1e-9),
+        outcome.width_px,
+        outcome.height_px,
         a.out.display()
     );
     println!("{}", super::CAUTION);
