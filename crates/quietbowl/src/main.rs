@@ -34,6 +34,15 @@ enum Command {
     Survey(commands::survey::Args),
     /// Print the visibility report of one point: horizon, Earth margin, sky track.
     Site(commands::site::Args),
+    /// Combine the outputs of `survey --shard K/N` into one survey file.
+    Merge {
+        /// Every shard's survey file, in any order.
+        #[arg(required = true)]
+        parts: Vec<PathBuf>,
+        /// Where to write the merged survey.
+        #[arg(long, value_name = "FILE")]
+        out: PathBuf,
+    },
 }
 
 fn main() -> ExitCode {
@@ -43,6 +52,7 @@ fn main() -> ExitCode {
         Command::MakeDemoTerrain { out } => commands::make_demo(&out),
         Command::Survey(a) => commands::survey::run(a),
         Command::Site(a) => commands::site::run(a),
+        Command::Merge { parts, out } => commands::merge(&parts, &out),
     };
     match result {
         Ok(()) => ExitCode::SUCCESS,

@@ -3,8 +3,10 @@
 //!
 //! The GUI, the command line and the exporters only read this model.
 
+pub mod checkpoint;
 mod error;
 pub mod io;
+pub mod merge;
 pub mod metrics;
 pub mod model;
 pub mod run;
@@ -12,5 +14,6 @@ pub mod run;
 pub use error::SurveyError;
 pub use io::write_atomic;
 pub use metrics::{metric, MetricInfo, METRICS};
-pub use model::{Candidate, CandidateSource, InputFile, SurveyFile, SurveyParameters, SCHEMA_VERSION};
-pub use run::{run, Progress, RunOptions, RunOutcome};
+pub use merge::merge;
+pub use model::{Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+pub use run::{into_candidates, run, Found, Progress, RunOptions, RunOutcome};

@@ -46,6 +46,37 @@ pub struct SurveyParameters {
     pub detect: bool,
 }
 
+/// A share of a survey's tiles: shard `index` of `count` (1-based) takes the tiles whose
+/// row-major index is `index - 1` modulo `count`, so shards interleave and balance.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Shard {
+    pub index: usize,
+    pub count: usize,
+}
+
+impl Shard {
+    /// Parse `K/N`.
+    pub fn parse(s: &str) -> Result<Shard, String> {
+        let (k, n) = s.split_once('/').ok_or_else(|| format!("'{s}' is not a shard; write K/N, e.g. 2/8"))?;
+        let k: usize = k.trim().parse().map_err(|_| format!("'{k}' is not a shard number"))?;
+        let n: usize = n.trim().parse().map_err(|_| format!("'{n}' is not a shard count"))?;
+        let shard = Shard { index: k, count: n };
+        shard.validate().map_err(|e| e.to_string())?;
+        Ok(shard)
+    }
+
+    pub fn validate(&self) -> Result<(), crate::SurveyError> {
+        if self.count == 0 || self.index == 0 || self.index > self.count {
+            return Err(crate::SurveyError::Parameters(format!("shard {}/{}: K must lie in 1..N", self.index, self.count)));
+        }
+        Ok(())
+    }
+
+    pub fn owns(&self, tile_index: usize) -> bool {
+        tile_index % self.count == self.index - 1
+    }
+}
+
 /// A whole survey: provenance, parameters and the candidate table.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
 pub struct SurveyFile {
@@ -53,5 +84,8 @@ pub struct SurveyFile {
     pub tool_version: String,
     pub input: InputFile,
     pub parameters: SurveyParameters,
+    /// Present on a shard's partial survey; absent on a whole one (or a merge of all shards).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub shard: Option<Shard>,
     pub candidates: Vec<Candidate>,
 }

@@ -1,23 +1,33 @@
-//! The survey run: a DEM in, a [`SurveyFile`] out. The DEM is cut into square tiles with a halo
-//! wide enough to measure a crater of the largest diameter whose centre lies in the tile; each
-//! tile keeps only the craters centred in its own core, so a crater is measured once, whole,
-//! whatever tile it falls in. Tiles run in parallel; memory holds a few tile windows at a time.
+//! The survey run: a DEM in, a [`SurveyFile`] out.
+//!
+//! The DEM is cut into a fixed grid of square tiles (row-major indices), each read with a halo
+//! wide enough to measure the largest crater whose centre lies in the tile. A tile keeps only
+//! the craters centred in its own core, so every crater is measured once, whole, and a tile's
+//! result depends on nothing but its own window. That is what makes the other features exact:
+//! a shard is a subset of tile indices, a checkpoint is the list of finished tiles, and merging
+//! shards or resuming gives the same file as one uninterrupted run.
 
-use crate::model::{Candidate, CandidateSource, InputFile, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+use crate::checkpoint::Checkpoint;
+use crate::model::{Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION};
 use crate::SurveyError;
 use craters::catalogue::{self, CatalogueRow, OnBadRow, RowProblem};
 use craters::{CraterMeasurement, DetectOptions, MeasureOptions};
 use rayon::prelude::*;
+use serde::{Deserialize, Serialize};
 use sha2::{Digest, Sha256};
 use std::io::Read;
 use std::path::{Path, PathBuf};
-use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::atomic::{AtomicBool, AtomicU64, AtomicUsize, Ordering};
 use std::sync::Mutex;
 use terrain::{Dem, OpenOptions};
-use visibility::VisibilityOptions;
+use visibility::{SiteVisibility, VisibilityOptions};
 
 /// Measurement reaches 2.5 crater radii from the centre (profiles and the plain around the rim).
 const MEASURE_REACH_RADII: f64 = 2.5;
+/// Working memory per pixel of a tile window in flight: heights, filled copy, pyramid levels,
+/// symmetry votes and per-crater patches, with room to spare (measured peak over the demo
+/// survey divided by window pixels, rounded up).
+const BYTES_PER_WINDOW_PX: usize = 48;
 
 /// What to survey and how.
 #[derive(Clone, Debug)]
@@ -25,8 +35,10 @@ pub struct RunOptions {
     /// Diameter range; `None` means the default: 3 pixels up to a third of a tile.
     pub diameter_min_m: Option<f64>,
     pub diameter_max_m: Option<f64>,
-    /// Tile core size in pixels.
+    /// Tile core size in pixels (lowered if the memory budget asks for it).
     pub tile_px: usize,
+    /// Working-memory budget for tile windows in flight, bytes.
+    pub memory_budget_bytes: usize,
     pub catalogue: Option<PathBuf>,
     pub catalogue_on_bad_row: OnBadRow,
     /// Detect craters (false: measure only the catalogue's).
@@ -35,6 +47,10 @@ pub struct RunOptions {
     pub visibility: bool,
     pub open: OpenOptions,
     pub visibility_options: VisibilityOptions,
+    /// Survey only shard `k` of `n` (1-based): tiles whose index is k-1 modulo n.
+    pub shard: Option<Shard>,
+    /// Record finished tiles here and skip those already recorded.
+    pub checkpoint: Option<PathBuf>,
 }
 
 impl Default for RunOptions {
@@ -43,12 +59,15 @@ impl Default for RunOptions {
             diameter_min_m: None,
             diameter_max_m: None,
             tile_px: 2048,
+            memory_budget_bytes: 2 << 30,
             catalogue: None,
             catalogue_on_bad_row: OnBadRow::Stop,
             detect: true,
             visibility: true,
             open: OpenOptions::default(),
             visibility_options: VisibilityOptions::default(),
+            shard: None,
+            checkpoint: None,
         }
     }
 }
@@ -69,9 +88,22 @@ pub struct RunOutcome {
     pub skipped_rows: Vec<RowProblem>,
     pub width_px: usize,
     pub height_px: usize,
+    /// Tiles taken from a checkpoint rather than computed.
+    pub tiles_resumed: usize,
+    /// Pixels in the tiles this run computed.
+    pub pixels_computed: u64,
+}
+
+/// One measured crater before ids are given.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Found {
+    pub source: CandidateSource,
+    pub crater: CraterMeasurement,
+    pub visibility: Option<SiteVisibility>,
 }
 
 struct Tile {
+    index: usize,
     col: usize,
     row: usize,
     width: usize,
@@ -82,7 +114,7 @@ fn tiles(width: usize, height: usize, tile_px: usize) -> Vec<Tile> {
     let mut v = Vec::new();
     for row in (0..height).step_by(tile_px) {
         for col in (0..width).step_by(tile_px) {
-            v.push(Tile { col, row, width: tile_px.min(width - col), height: tile_px.min(height - row) });
+            v.push(Tile { index: v.len(), col, row, width: tile_px.min(width - col), height: tile_px.min(height - row) });
         }
     }
     v
@@ -106,11 +138,23 @@ pub fn sha256_file(path: &Path) -> std::io::Result<(u64, String)> {
     Ok((size, hex))
 }
 
-/// Survey a DEM. `progress` is called after each tile; setting `cancel` stops the run between
-/// tiles with [`SurveyError::Cancelled`] (nothing is returned, so nothing half-made is written).
-pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sync), cancel: &AtomicBool) -> Result<RunOutcome, SurveyError> {
-    let dem = Dem::open(dem_path, &opts.open)?;
-    let info = dem.info().clone();
+/// Sort found craters north to south, then west to east, and number them from 1. The order
+/// depends only on the craters, so any grouping of tiles gives the same table.
+pub fn into_candidates(mut found: Vec<Found>) -> Vec<Candidate> {
+    found.sort_by(|a, b| {
+        b.crater.centre_lat_deg.total_cmp(&a.crater.centre_lat_deg)
+            .then(a.crater.centre_lon_deg.total_cmp(&b.crater.centre_lon_deg))
+            .then(a.crater.diameter_m.total_cmp(&b.crater.diameter_m))
+    });
+    found
+        .into_iter()
+        .enumerate()
+        .map(|(i, f)| Candidate { id: i as u32 + 1, source: f.source, crater: f.crater, visibility: f.visibility })
+        .collect()
+}
+
+/// The parameters a run will use, resolved from the options and the DEM.
+fn resolve(info: &terrain::DemInfo, opts: &RunOptions) -> Result<(SurveyParameters, usize), SurveyError> {
     let (px_ew, px_ns) = info.pixel_size_m;
     let pixel_m = px_ew.max(px_ns);
     if !(pixel_m.is_finite() && pixel_m > 0.0) {
@@ -119,7 +163,7 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
     if opts.tile_px < 64 {
         return Err(SurveyError::Parameters(format!("tile size {} px is too small (64 at least)", opts.tile_px)));
     }
-    let tile_px = opts.tile_px.min(info.width.max(info.height));
+    let mut tile_px = opts.tile_px.min(info.width.max(info.height));
     let d_min = opts.diameter_min_m.unwrap_or(3.0 * pixel_m);
     let d_max = opts.diameter_max_m.unwrap_or(tile_px as f64 / 3.0 * px_ew.min(px_ns));
     if !(d_min > 0.0 && d_max >= d_min && d_max.is_finite()) {
@@ -130,23 +174,71 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
         return Err(SurveyError::TooSmall { width: info.width, height: info.height, pixel_m, diameter_min_m: d_min, needed_px });
     }
     let halo_px = (d_max / 2.0 * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 2;
+    // Windows in flight at once: one per worker thread.
+    let in_flight = rayon::current_num_threads().max(1);
+    let window_budget_px = opts.memory_budget_bytes / BYTES_PER_WINDOW_PX / in_flight;
+    let max_side = (window_budget_px as f64).sqrt() as usize;
+    if max_side < 2 * halo_px + 64 {
+        return Err(SurveyError::Parameters(format!(
+            "the memory budget ({} MB) cannot hold a tile window for craters up to {d_max:.0} m ({} px of halo); raise --memory or lower the largest diameter",
+            opts.memory_budget_bytes >> 20, halo_px
+        )));
+    }
+    tile_px = tile_px.min(max_side - 2 * halo_px);
+    let params = SurveyParameters {
+        diameter_min_m: d_min,
+        diameter_max_m: d_max,
+        tile_px,
+        catalogue: opts.catalogue.as_ref().map(|p| p.display().to_string()),
+        detect: opts.detect,
+    };
+    Ok((params, halo_px))
+}
 
+/// Survey a DEM. `progress` is called after each tile; setting `cancel` stops the run between
+/// tiles with [`SurveyError::Cancelled`] (nothing is returned, so nothing half-made is written;
+/// finished tiles stay in the checkpoint if there is one).
+pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sync), cancel: &AtomicBool) -> Result<RunOutcome, SurveyError> {
+    let dem = Dem::open(dem_path, &opts.open)?;
+    let info = dem.info().clone();
+    let (parameters, halo_px) = resolve(&info, opts)?;
+    if let Some(s) = opts.shard {
+        s.validate()?;
+    }
     let (seeds, skipped_rows) = match &opts.catalogue {
         Some(path) => catalogue::read_on(path, opts.catalogue_on_bad_row, info.body_radius_m)?,
         None => (Vec::new(), Vec::new()),
     };
     let (size_bytes, sha256) = sha256_file(dem_path).map_err(|e| SurveyError::Io { path: dem_path.display().to_string(), reason: e.to_string() })?;
+    let input = InputFile {
+        path: dem_path.display().to_string(),
+        size_bytes,
+        sha256,
+        crs_wkt: info.crs_wkt.clone(),
+        crs_authority: info.crs_authority.clone(),
+        body_radius_m: info.body_radius_m,
+    };
 
-    let detect_opts = DetectOptions { diameter_min_m: d_min, diameter_max_m: d_max, ..DetectOptions::default() };
+    let all_tiles = tiles(info.width, info.height, parameters.tile_px);
+    let mine: Vec<&Tile> = all_tiles.iter().filter(|t| opts.shard.is_none_or(|s| s.owns(t.index))).collect();
+    let mut checkpoint = match &opts.checkpoint {
+        Some(path) => Some(Checkpoint::open(path, &input, &parameters, opts.shard)?),
+        None => None,
+    };
+    let done_before = checkpoint.as_ref().map(|c| c.finished().clone()).unwrap_or_default();
+    let todo: Vec<&&Tile> = mine.iter().filter(|t| !done_before.contains_key(&t.index)).collect();
+
+    let detect_opts = DetectOptions { diameter_min_m: parameters.diameter_min_m, diameter_max_m: parameters.diameter_max_m, ..DetectOptions::default() };
     let measure_opts = MeasureOptions::default();
-    let all_tiles = tiles(info.width, info.height, tile_px);
-    let total = all_tiles.len();
-    let done = AtomicUsize::new(0);
-    let pixels_done = std::sync::atomic::AtomicU64::new(0);
-    let found = Mutex::new(Vec::<(CandidateSource, CraterMeasurement, Option<visibility::SiteVisibility>)>::new());
+    let total = mine.len();
+    let done = AtomicUsize::new(mine.len() - todo.len());
+    let candidates_so_far = AtomicUsize::new(done_before.values().map(Vec::len).sum());
+    let pixels_done = AtomicU64::new(0);
     let geometry = dem.geometry();
+    let checkpoint_lock = Mutex::new(checkpoint.as_mut());
+    let computed = Mutex::new(Vec::<(usize, Vec<Found>)>::new());
 
-    all_tiles.par_iter().try_for_each(|t| -> Result<(), SurveyError> {
+    todo.par_iter().try_for_each(|t| -> Result<(), SurveyError> {
         if cancel.load(Ordering::Relaxed) {
             return Err(SurveyError::Cancelled);
         }
@@ -166,58 +258,49 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
             }
         }
         let tile_seeds: Vec<&CatalogueRow> = seeds.iter().filter(|s| owns(s.lon_deg, s.lat_deg)).collect();
-        here.extend(tile_seeds.par_iter().filter_map(|s| {
-            craters::measure(&window, s.lon_deg, s.lat_deg, s.diameter_m, &measure_opts)
-                .ok()
-                .map(|m| (CandidateSource::Catalogue { row: s.line }, m))
-        }).collect::<Vec<_>>());
-        let vis: Vec<Option<visibility::SiteVisibility>> = if opts.visibility {
+        here.extend(
+            tile_seeds
+                .par_iter()
+                .filter_map(|s| {
+                    craters::measure(&window, s.lon_deg, s.lat_deg, s.diameter_m, &measure_opts).ok().map(|m| (CandidateSource::Catalogue { row: s.line }, m))
+                })
+                .collect::<Vec<_>>(),
+        );
+        let vis: Vec<Option<SiteVisibility>> = if opts.visibility {
             let sites: Vec<(f64, f64)> = here.iter().map(|(_, m)| (m.centre_lon_deg, m.centre_lat_deg)).collect();
             visibility::bulk(&sites, Some(&window), &opts.visibility_options).into_iter().map(Some).collect()
         } else {
             vec![None; here.len()]
         };
-        let mut f = found.lock().unwrap_or_else(|p| p.into_inner());
-        f.extend(here.into_iter().zip(vis).map(|((s, m), v)| (s, m, v)));
-        let n = f.len();
-        drop(f);
+        let found: Vec<Found> = here.into_iter().zip(vis).map(|((source, crater), visibility)| Found { source, crater, visibility }).collect();
+        if let Some(cp) = checkpoint_lock.lock().unwrap_or_else(|p| p.into_inner()).as_mut() {
+            cp.record(t.index, &found)?;
+        }
+        let n = candidates_so_far.fetch_add(found.len(), Ordering::Relaxed) + found.len();
+        computed.lock().unwrap_or_else(|p| p.into_inner()).push((t.index, found));
         let d = done.fetch_add(1, Ordering::Relaxed) + 1;
-        let p = pixels_done.fetch_add((t.width * t.height) as u64, Ordering::Relaxed) + (t.width * t.height) as u64;
+        let px = (t.width * t.height) as u64;
+        let p = pixels_done.fetch_add(px, Ordering::Relaxed) + px;
         progress(Progress { tiles_done: d, tiles_total: total, candidates: n, pixels_done: p });
         Ok(())
     })?;
 
-    let mut found = found.into_inner().unwrap_or_else(|p| p.into_inner());
-    // Detected craters that a catalogue seed also measured are kept once, as the seed.
-    found.sort_by(|a, b| {
-        b.1.centre_lat_deg.total_cmp(&a.1.centre_lat_deg)
-            .then(a.1.centre_lon_deg.total_cmp(&b.1.centre_lon_deg))
-            .then(a.1.diameter_m.total_cmp(&b.1.diameter_m))
-    });
-    let candidates = found
-        .into_iter()
-        .enumerate()
-        .map(|(i, (source, crater, visibility))| Candidate { id: i as u32 + 1, source, crater, visibility })
-        .collect();
+    let mut found: Vec<Found> = done_before.into_values().flatten().collect();
+    found.extend(computed.into_inner().unwrap_or_else(|p| p.into_inner()).into_iter().flat_map(|(_, f)| f));
     let survey = SurveyFile {
         schema_version: SCHEMA_VERSION,
         tool_version: env!("CARGO_PKG_VERSION").to_string(),
-        input: InputFile {
-            path: dem_path.display().to_string(),
-            size_bytes,
-            sha256,
-            crs_wkt: info.crs_wkt.clone(),
-            crs_authority: info.crs_authority.clone(),
-            body_radius_m: info.body_radius_m,
-        },
-        parameters: SurveyParameters {
-            diameter_min_m: d_min,
-            diameter_max_m: d_max,
-            tile_px,
-            catalogue: opts.catalogue.as_ref().map(|p| p.display().to_string()),
-            detect: opts.detect,
-        },
-        candidates,
+        input,
+        parameters,
+        shard: opts.shard,
+        candidates: into_candidates(found),
     };
-    Ok(RunOutcome { survey, skipped_rows, width_px: info.width, height_px: info.height })
+    Ok(RunOutcome {
+        survey,
+        skipped_rows,
+        width_px: info.width,
+        height_px: info.height,
+        tiles_resumed: mine.len() - todo.len(),
+        pixels_computed: pixels_done.into_inner(),
+    })
 }

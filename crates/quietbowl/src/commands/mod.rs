@@ -15,6 +15,17 @@ pub fn make_demo(out: &Path) -> anyhow::Result<()> {
     Ok(())
 }
 
+pub fn merge(parts: &[std::path::PathBuf], out: &Path) -> anyhow::Result<()> {
+    let files = parts
+        .iter()
+        .map(|p| ::survey::SurveyFile::read(p).with_context(|| format!("reading {}", p.display())))
+        .collect::<anyhow::Result<Vec<_>>>()?;
+    let merged = ::survey::merge(files).context("merging the shard surveys")?;
+    merged.write(out).with_context(|| format!("writing {}", out.display()))?;
+    println!("{} candidates from {} shards written to {}", merged.candidates.len(), parts.len(), out.display());
+    Ok(())
+}
+
 /// A progress bar on stderr, hidden when stderr is not a terminal.
 pub fn bar(len: u64, what: &str) -> indicatif::ProgressBar {
     let pb = indicatif::ProgressBar::new(len);

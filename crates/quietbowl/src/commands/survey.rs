@@ -38,9 +38,34 @@ pub struct Args {
     /// Take heights as above a sphere of this radius (m), whatever the CRS says.
     #[arg(long, value_name = "METRES")]
     assume_body_radius: Option<f64>,
+    /// Working-memory budget for tile windows, e.g. 2G or 512M (the tile size shrinks to fit).
+    #[arg(long, default_value = "2G", value_name = "SIZE", value_parser = parse_memory)]
+    memory: usize,
+    /// Survey only share K of N of the tiles (for running on several machines; combine the
+    /// outputs with `quietbowl merge`).
+    #[arg(long, value_name = "K/N", value_parser = survey::Shard::parse)]
+    shard: Option<survey::Shard>,
+    /// Do not keep a checkpoint of finished tiles beside the output.
+    #[arg(long)]
+    no_checkpoint: bool,
     /// Where to write the survey (JSON).
     #[arg(long, value_name = "FILE")]
     out: PathBuf,
+}
+
+/// `2G`, `512M`, `1500000000`.
+fn parse_memory(s: &str) -> Result<usize, String> {
+    let t = s.trim();
+    let (num, mult) = match t.chars().last() {
+        Some('G' | 'g') => (&t[..t.len() - 1], 1usize << 30),
+        Some('M' | 'm') => (&t[..t.len() - 1], 1usize << 20),
+        _ => (t, 1usize),
+    };
+    let v: f64 = num.parse().map_err(|_| format!("'{s}' is not a memory size (examples: 2G, 512M)"))?;
+    if !(v.is_finite() && v > 0.0) {
+        return Err(format!("'{s}' must be a positive size"));
+    }
+    Ok((v * mult as f64) as usize)
 }
 
 pub fn run(a: Args) -> anyhow::Result<()> {
@@ -54,8 +79,14 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         detect: !a.catalogue_only,
         visibility: !a.no_visibility,
         open: OpenOptions { assume_body_radius_m: a.assume_body_radius },
+        memory_budget_bytes: a.memory,
+        shard: a.shard,
+        checkpoint: (!a.no_checkpoint).then(|| survey::checkpoint::path_beside(&a.out)),
         ..RunOptions::default()
     };
+    if let Some(cp) = opts.checkpoint.as_ref().filter(|p| p.exists()) {
+        eprintln!("resuming from the checkpoint {}", cp.display());
+    }
     let cancel = Arc::new(AtomicBool::new(false));
     {
         let cancel = cancel.clone();
@@ -83,6 +114,9 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     let outcome = match outcome {
         Err(SurveyError::Cancelled) => {
             eprintln!("survey cancelled; {} was not written", a.out.display());
+            if let Some(cp) = &opts.checkpoint {
+                eprintln!("finished tiles are kept in {}: run the same command again to resume", cp.display());
+            }
             std::process::exit(130);
         }
         r => r.with_context(|| format!("surveying {}", a.dem.display()))?,
@@ -91,14 +125,18 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         eprintln!("skipped catalogue line {}: {}", p.line, p.reason);
     }
     outcome.survey.write(&a.out).with_context(|| format!("writing {}", a.out.display()))?;
+    if let Some(cp) = &opts.checkpoint {
+        let _ = std::fs::remove_file(cp);
+    }
     let secs = start.elapsed().as_secs_f64();
+    let n = outcome.survey.candidates.len();
     println!(
-        "{} candidates in {:.2} s ({:.1} Mpx/s over {} x {} px); written to {}",
-        outcome.survey.candidates.len(),
-        secs,
-        (outcome.width_px * outcome.height_px) as f64 / 1e6 / secs.max(1e-9),
+        "{n} candidates from a {} x {} px DEM in {secs:.2} s ({:.1} Mpx/s, {:.0} candidates/s{}); written to {}",
         outcome.width_px,
         outcome.height_px,
+        outcome.pixels_computed as f64 / 1e6 / secs.max(1e-9),
+        n as f64 / secs.max(1e-9),
+        if outcome.tiles_resumed > 0 { format!(", {} tiles taken from the checkpoint", outcome.tiles_resumed) } else { String::new() },
         a.out.display()
     );
     println!("{}", super::CAUTION);

@@ -1,0 +1,36 @@
+//! Regenerate the committed demo terrain: `cargo run --release -p quietbowl-synthetic
+//! --example make_demo -- [OUT_DIR]` (default: `demo-terrain/` at the workspace root).
+
+use std::path::PathBuf;
+
+fn main() -> Result<(), Box<dyn std::error::Error>> {
+    let out = std::env::args_os()
+        .nth(1)
+        .map(PathBuf::from)
+        .unwrap_or_else(|| {
+            PathBuf::from(concat!(env!("CARGO_MANIFEST_DIR"), "/../../demo-terrain"))
+        });
+    let spec = synthetic::DemoSpec::default();
+    let started = std::time::Instant::now();
+    let terrain = synthetic::generate(&spec)?;
+    let generated = started.elapsed();
+    let files = synthetic::write(&terrain, &out)?;
+    let hosts = terrain
+        .craters
+        .iter()
+        .filter(|c| c.planted_as == synthetic::PlantedAs::Host)
+        .count();
+    println!(
+        "{} x {} posts, {} craters ({} hosts) generated in {:.2} s; wrote {} ({} bytes), {}",
+        terrain.grid.width_px,
+        terrain.grid.height_px,
+        terrain.craters.len(),
+        hosts,
+        generated.as_secs_f64(),
+        files.raster.display(),
+        files.raster_bytes,
+        files.truth.display()
+    );
+    println!("heights sha256 {}", files.heights_sha256);
+    Ok(())
+}
