@@ -47,6 +47,8 @@ enum Command {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
+    // GDAL's own messages would repeat what our errors already say, with less context.
+    gdal::config::set_error_handler(|_, _, _| {});
     let result = match cli.command {
         Command::Describe(a) => commands::describe::run(a),
         Command::MakeDemoTerrain { out } => commands::make_demo(&out),

@@ -28,8 +28,13 @@ struct TileLine {
 
 pub struct Checkpoint {
     path: PathBuf,
-    file: std::fs::File,
+    header: Header,
+    /// Opened on the first finished tile, so a run that fails before any tile leaves nothing.
+    file: Option<std::fs::File>,
     finished: BTreeMap<usize, Vec<Found>>,
+    /// An existing checkpoint of another survey (other input, parameters or shard) was found
+    /// and will be replaced.
+    pub discarded_stale: bool,
 }
 
 fn io_err(path: &Path, e: impl std::fmt::Display) -> SurveyError {
@@ -37,48 +42,51 @@ fn io_err(path: &Path, e: impl std::fmt::Display) -> SurveyError {
 }
 
 impl Checkpoint {
-    /// Open the checkpoint for this survey, loading the tiles it already holds, or start one.
+    /// Load the tiles an existing checkpoint of this same survey holds. A checkpoint of another
+    /// survey at the same place is stale (its output path was reused) and is replaced.
     pub fn open(path: &Path, input: &InputFile, parameters: &SurveyParameters, shard: Option<Shard>) -> Result<Checkpoint, SurveyError> {
         let header = Header { checkpoint_version: CHECKPOINT_VERSION, input_sha256: input.sha256.clone(), parameters: parameters.clone(), shard };
         let mut finished = BTreeMap::new();
+        let mut discarded_stale = false;
         if path.exists() {
             let f = std::fs::File::open(path).map_err(|e| io_err(path, e))?;
             let mut lines = std::io::BufReader::new(f).lines();
             let first = lines.next().transpose().map_err(|e| io_err(path, e))?.unwrap_or_default();
-            let theirs: Option<Header> = serde_json::from_str(&first).ok();
-            if theirs.as_ref() != Some(&header) {
-                return Err(SurveyError::Parameters(format!(
-                    "the checkpoint {} belongs to another survey (different input, parameters or shard); delete it to start afresh",
-                    path.display()
-                )));
-            }
-            for line in lines {
-                let Ok(line) = line else { break };
-                // A torn last line (the run was killed mid-write) is simply not a finished tile.
-                if let Ok(t) = serde_json::from_str::<TileLine>(&line) {
-                    finished.insert(t.tile, t.found);
+            if serde_json::from_str::<Header>(&first).ok().as_ref() == Some(&header) {
+                for line in lines {
+                    let Ok(line) = line else { break };
+                    // A torn last line (the run was killed mid-write) is simply not a finished tile.
+                    if let Ok(t) = serde_json::from_str::<TileLine>(&line) {
+                        finished.insert(t.tile, t.found);
+                    }
                 }
+            } else {
+                discarded_stale = true;
             }
         }
-        // Rewrite header plus the good lines, so a torn line never sits before new ones.
-        let mut text = serde_json::to_string(&header).map_err(|e| io_err(path, e))? + "\n";
-        for (tile, found) in &finished {
-            text += &(serde_json::to_string(&TileLine { tile: *tile, found: found.clone() }).map_err(|e| io_err(path, e))? + "\n");
-        }
-        crate::io::write_atomic(path, text.as_bytes()).map_err(|e| io_err(path, e))?;
-        let file = std::fs::OpenOptions::new().append(true).open(path).map_err(|e| io_err(path, e))?;
-        Ok(Checkpoint { path: path.to_path_buf(), file, finished })
+        Ok(Checkpoint { path: path.to_path_buf(), header, file: None, finished, discarded_stale })
     }
 
     pub fn finished(&self) -> &BTreeMap<usize, Vec<Found>> {
         &self.finished
     }
 
-    /// Append a finished tile and push it to disk.
+    /// Append a finished tile and push it to disk. The first call rewrites the file as header
+    /// plus the tiles already known, so a torn line never sits before new ones.
     pub fn record(&mut self, tile: usize, found: &[Found]) -> Result<(), SurveyError> {
-        let line = serde_json::to_string(&TileLine { tile, found: found.to_vec() }).map_err(|e| io_err(&self.path, e))? + "\n";
-        self.file.write_all(line.as_bytes()).map_err(|e| io_err(&self.path, e))?;
-        self.file.sync_data().map_err(|e| io_err(&self.path, e))
+        let path = self.path.clone();
+        if self.file.is_none() {
+            let mut text = serde_json::to_string(&self.header).map_err(|e| io_err(&path, e))? + "\n";
+            for (t, f) in &self.finished {
+                text += &(serde_json::to_string(&TileLine { tile: *t, found: f.clone() }).map_err(|e| io_err(&path, e))? + "\n");
+            }
+            crate::io::write_atomic(&path, text.as_bytes()).map_err(|e| io_err(&path, e))?;
+            self.file = Some(std::fs::OpenOptions::new().append(true).open(&path).map_err(|e| io_err(&path, e))?);
+        }
+        let line = serde_json::to_string(&TileLine { tile, found: found.to_vec() }).map_err(|e| io_err(&path, e))? + "\n";
+        let file = self.file.as_mut().ok_or_else(|| io_err(&path, "checkpoint not open"))?;
+        file.write_all(line.as_bytes()).map_err(|e| io_err(&path, e))?;
+        file.sync_data().map_err(|e| io_err(&path, e))
     }
 }
 

@@ -166,12 +166,12 @@ fn resolve(info: &terrain::DemInfo, opts: &RunOptions) -> Result<(SurveyParamete
     let mut tile_px = opts.tile_px.min(info.width.max(info.height));
     let d_min = opts.diameter_min_m.unwrap_or(3.0 * pixel_m);
     let d_max = opts.diameter_max_m.unwrap_or(tile_px as f64 / 3.0 * px_ew.min(px_ns));
-    if !(d_min > 0.0 && d_max >= d_min && d_max.is_finite()) {
-        return Err(SurveyError::Parameters(format!("diameter range {d_min}..{d_max} m is not a range of positive diameters")));
-    }
     let needed_px = (d_min * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 3;
     if info.width < needed_px || info.height < needed_px {
         return Err(SurveyError::TooSmall { width: info.width, height: info.height, pixel_m, diameter_min_m: d_min, needed_px });
+    }
+    if !(d_min > 0.0 && d_max >= d_min && d_max.is_finite()) {
+        return Err(SurveyError::Parameters(format!("diameter range {d_min}..{d_max} m is not a range of positive diameters")));
     }
     let halo_px = (d_max / 2.0 * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 2;
     // Windows in flight at once: one per worker thread.
@@ -234,6 +234,7 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
     let done = AtomicUsize::new(mine.len() - todo.len());
     let candidates_so_far = AtomicUsize::new(done_before.values().map(Vec::len).sum());
     let pixels_done = AtomicU64::new(0);
+    let valid_px = AtomicU64::new(0);
     let geometry = dem.geometry();
     let checkpoint_lock = Mutex::new(checkpoint.as_mut());
     let computed = Mutex::new(Vec::<(usize, Vec<Found>)>::new());
@@ -249,6 +250,10 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
                 c >= t.col as f64 && c < (t.col + t.width) as f64 && r >= t.row as f64 && r < (t.row + t.height) as f64
             })
         };
+        let core_valid = (halo_px..halo_px + t.height)
+            .map(|r| window.heights_m[r * window.width + halo_px..r * window.width + halo_px + t.width].iter().filter(|h| !h.is_nan()).count() as u64)
+            .sum::<u64>();
+        valid_px.fetch_add(core_valid, Ordering::Relaxed);
         let mut here: Vec<(CandidateSource, CraterMeasurement)> = Vec::new();
         if opts.detect && window.valid_fraction() > 0.0 {
             match craters::survey_grid(&window, &detect_opts, &measure_opts) {
@@ -285,6 +290,11 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
         Ok(())
     })?;
 
+    // A whole survey of a raster without a single height is a mistake worth stopping for; one
+    // empty shard among many is not.
+    if opts.shard.is_none() && done_before.is_empty() && valid_px.into_inner() == 0 {
+        return Err(terrain::TerrainError::AllNodata { path: dem_path.to_path_buf() }.into());
+    }
     let mut found: Vec<Found> = done_before.into_values().flatten().collect();
     found.extend(computed.into_inner().unwrap_or_else(|p| p.into_inner()).into_iter().flat_map(|(_, f)| f));
     let survey = SurveyFile {

@@ -16,6 +16,7 @@ pub fn make_demo(out: &Path) -> anyhow::Result<()> {
 }
 
 pub fn merge(parts: &[std::path::PathBuf], out: &Path) -> anyhow::Result<()> {
+    ensure_writable(out).context("writing the merged survey")?;
     let files = parts
         .iter()
         .map(|p| ::survey::SurveyFile::read(p).with_context(|| format!("reading {}", p.display())))
@@ -24,6 +25,18 @@ pub fn merge(parts: &[std::path::PathBuf], out: &Path) -> anyhow::Result<()> {
     merged.write(out).with_context(|| format!("writing {}", out.display()))?;
     println!("{} candidates from {} shards written to {}", merged.candidates.len(), parts.len(), out.display());
     Ok(())
+}
+
+/// Fail before long work if `out` cannot be written: create and remove a probe file beside it.
+pub fn ensure_writable(out: &Path) -> anyhow::Result<()> {
+    let dir = match out.parent() {
+        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
+        _ => std::path::PathBuf::from("."),
+    };
+    let probe = dir.join(format!(".quietbowl-probe-{}.tmp", std::process::id()));
+    std::fs::write(&probe, b"")
+        .and_then(|_| std::fs::remove_file(&probe))
+        .with_context(|| format!("cannot write {}: its folder {} is not writable or does not exist", out.display(), dir.display()))
 }
 
 /// A progress bar on stderr, hidden when stderr is not a terminal.

@@ -69,6 +69,7 @@ fn parse_memory(s: &str) -> Result<usize, String> {
 }
 
 pub fn run(a: Args) -> anyhow::Result<()> {
+    super::ensure_writable(&a.out).context("writing the survey")?;
     let (dmin, dmax) = a.diameter.unwrap_or((None, None));
     let opts = RunOptions {
         diameter_min_m: dmin,
@@ -84,9 +85,6 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         checkpoint: (!a.no_checkpoint).then(|| survey::checkpoint::path_beside(&a.out)),
         ..RunOptions::default()
     };
-    if let Some(cp) = opts.checkpoint.as_ref().filter(|p| p.exists()) {
-        eprintln!("resuming from the checkpoint {}", cp.display());
-    }
     let cancel = Arc::new(AtomicBool::new(false));
     {
         let cancel = cancel.clone();
