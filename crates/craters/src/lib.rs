@@ -3,6 +3,34 @@
 //! Input: a [`terrain::ElevationGrid`] window. Output: [`CraterMeasurement`]s, one per crater,
 //! measured the same way whether the crater was detected here or seeded from a catalogue.
 //! Craters knows nothing of visibility, ranking or the GUI.
+//!
+//! - [`detect`]: provisional craters from two cues, closed depressions and radial symmetry.
+//! - [`measure`]: rim, floor and uncertainties of one crater in a local metric frame.
+//! - [`merge_duplicates`]: one measurement per crater across tiles and scales (R-tree).
+//! - [`survey_grid`]: all three over one window, in parallel.
+//! - [`catalogue::read`]: seeds from a crater list.
 
+pub mod catalogue;
+mod circle_fit;
+mod detect;
+mod depressions;
+mod ellipse_fit;
+mod error;
+mod floor;
+mod lsq;
+mod measure;
 mod measurement;
+mod merge;
+mod profiles;
+mod pyramid;
+mod radial_symmetry;
+mod sampler;
+mod stats;
+mod survey;
+
+pub use detect::{detect, Cue, DetectOptions, Detection};
+pub use error::CraterError;
+pub use measure::{measure, MeasureOptions};
 pub use measurement::CraterMeasurement;
+pub use merge::{merge_duplicates, merge_duplicates_on, same_crater};
+pub use survey::{fresh_depth_to_diameter, looks_like_crater, survey_grid};

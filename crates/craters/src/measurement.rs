@@ -47,9 +47,28 @@ pub struct CraterMeasurement {
     pub edge_cut: bool,
     /// Rim-crest radius per azimuth (metres from the fitted centre; NaN where no crest), azimuths
     /// evenly spaced from north clockwise. Kept so the rim can be drawn and audited.
+    #[serde(with = "nan_as_null")]
     pub rim_crest_radius_m: Vec<f32>,
     /// Rim-crest height per azimuth (metres above the sphere; NaN where no crest).
+    #[serde(with = "nan_as_null")]
     pub rim_crest_height_m: Vec<f32>,
     /// Robust floor level (metres above the sphere).
     pub floor_height_m: f64,
+    /// RMS distance of the rim-crest points from the fitted circle, metres.
+    #[serde(default)]
+    pub rim_fit_rms_m: f64,
+}
+
+/// JSON has no NaN: azimuths without a crest are written as `null` and read back as NaN.
+mod nan_as_null {
+    use serde::{Deserialize, Deserializer, Serializer};
+
+    pub fn serialize<S: Serializer>(v: &[f32], s: S) -> Result<S::Ok, S::Error> {
+        s.collect_seq(v.iter().map(|x| if x.is_nan() { None } else { Some(*x) }))
+    }
+
+    pub fn deserialize<'de, D: Deserializer<'de>>(d: D) -> Result<Vec<f32>, D::Error> {
+        let v: Vec<Option<f32>> = Vec::deserialize(d)?;
+        Ok(v.into_iter().map(|x| x.unwrap_or(f32::NAN)).collect())
+    }
 }

@@ -1,0 +1,214 @@
+//! Provisional craters from two published cues over a pyramid of scale levels:
+//! closed depressions ([`crate::depressions`], Barnes et al. 2014) and radial-symmetry voting
+//! ([`crate::radial_symmetry`], Loy and Zelinsky 2003). Every provisional crater is then measured;
+//! measurement, not detection, decides what is a crater.
+
+use crate::error::CraterError;
+use crate::{depressions, pyramid, radial_symmetry};
+use rstar::RTree;
+use serde::{Deserialize, Serialize};
+use terrain::ElevationGrid;
+
+/// Which cue proposed a crater.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Cue {
+    Depression,
+    RadialSymmetry,
+}
+
+/// A provisional crater.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Detection {
+    pub lon_deg: f64,
+    pub lat_deg: f64,
+    pub diameter_m: f64,
+    /// Cue strength: fill depth over diameter for depressions, transform value for symmetry.
+    pub score: f64,
+    pub cue: Cue,
+}
+
+/// Choices of detection.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct DetectOptions {
+    pub diameter_min_m: f64,
+    pub diameter_max_m: f64,
+    /// Closed depressions shallower than this fraction of their equivalent diameter are ignored.
+    pub min_depression_depth_ratio: f64,
+    /// Radial-symmetry peaks below this score are ignored (dimensionless; see radial_symmetry).
+    pub min_symmetry_score: f64,
+    pub use_depressions: bool,
+    pub use_symmetry: bool,
+    /// Measured craters shallower than this fraction of the fresh depth-to-diameter ratio at
+    /// their size ([`crate::fresh_depth_to_diameter`]) are not reported.
+    pub min_fraction_of_fresh_depth: f64,
+}
+
+impl DetectOptions {
+    /// The default range for a window: 3 pixels up to a third of the window's shorter side.
+    pub fn for_grid(grid: &ElevationGrid) -> Result<DetectOptions, CraterError> {
+        let (dx, dy) = pyramid::window_pixel_size_m(grid).ok_or_else(|| CraterError::Geometry("no pixel size at the window centre".into()))?;
+        let px = dx.max(dy);
+        Ok(DetectOptions {
+            diameter_min_m: 3.0 * px,
+            diameter_max_m: grid.width.min(grid.height) as f64 / 3.0 * dx.min(dy),
+            ..DetectOptions::default()
+        })
+    }
+}
+
+impl Default for DetectOptions {
+    fn default() -> Self {
+        DetectOptions {
+            diameter_min_m: 0.0,
+            diameter_max_m: f64::INFINITY,
+            min_depression_depth_ratio: 0.01,
+            min_symmetry_score: 1.0,
+            use_depressions: true,
+            use_symmetry: true,
+            min_fraction_of_fresh_depth: 0.2,
+        }
+    }
+}
+
+/// A level covers craters of BAND_LO..2*BAND_LO cells across (the first level also everything
+/// smaller down to the requested minimum).
+const BAND_LO_CELLS: f64 = 8.0;
+/// Symmetry votes find the wall about 0.8 R from the centre; the best voting radius n thus
+/// maps to a diameter of about 2.4 n (a provisional size, refined by measurement).
+const DIAMETER_PER_VOTE_RADIUS: f64 = 2.4;
+
+/// Propose craters in the window with diameters in [diameter_min_m, diameter_max_m].
+pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detection>, CraterError> {
+    if !(opts.diameter_min_m > 0.0 && opts.diameter_max_m >= opts.diameter_min_m) {
+        return Err(CraterError::Options(format!(
+            "diameter range must be positive and ordered (got {} to {} m)",
+            opts.diameter_min_m, opts.diameter_max_m
+        )));
+    }
+    let (dx, dy) = pyramid::window_pixel_size_m(grid).ok_or_else(|| CraterError::Geometry("no pixel size at the window centre".into()))?;
+    let g0 = (dx * dy).sqrt();
+    let window_m = (grid.width as f64 * dx).min(grid.height as f64 * dy);
+    // A crater needs room for its profiles (out to 2.5 R) to be measured; ask for 2 D at least.
+    if window_m < 2.0 * opts.diameter_min_m || grid.width < 8 || grid.height < 8 {
+        return Err(CraterError::GridTooSmall {
+            width: grid.width,
+            height: grid.height,
+            diameter_min_m: opts.diameter_min_m,
+            pixel_m: g0,
+            needed_px: (2.0 * opts.diameter_min_m / dx.min(dy)).ceil() as usize,
+        });
+    }
+    if grid.heights_m.iter().all(|h| h.is_nan()) {
+        return Err(CraterError::AllNodata);
+    }
+    let d_max = opts.diameter_max_m.min(window_m / 2.0);
+    let mut out = Vec::new();
+    let mut level_idx = 0u32;
+    let mut next: Option<pyramid::Level> = None;
+    loop {
+        let cell = g0 * 2f64.powi(level_idx as i32);
+        let (band_lo, band_hi) = (BAND_LO_CELLS * cell, 2.0 * BAND_LO_CELLS * cell);
+        let lo = if level_idx == 0 { opts.diameter_min_m.min(band_lo) } else { band_lo };
+        if lo > d_max {
+            break;
+        }
+        level_idx += 1;
+        if band_hi < opts.diameter_min_m {
+            continue;
+        }
+        let lo = lo.max(opts.diameter_min_m);
+        let hi = band_hi.min(d_max);
+        let level = match next.take() {
+            Some(l) if (l.cell_m - cell).abs() < 1e-9 * cell => l,
+            _ => pyramid::build(grid, (dx, dy), cell),
+        };
+        if level.width < 8 || level.height < 8 {
+            break;
+        }
+        let coarse = pyramid::build(grid, (dx, dy), 2.0 * cell);
+        scan_level(grid, &level, &coarse, lo, hi, opts, &mut out);
+        next = Some(coarse);
+    }
+    Ok(suppress(out, grid.geometry.body_radius_m))
+}
+
+fn scan_level(grid: &ElevationGrid, level: &pyramid::Level, coarse: &pyramid::Level, lo: f64, hi: f64, opts: &DetectOptions, out: &mut Vec<Detection>) {
+    if opts.use_depressions {
+        scan_depressions(grid, coarse, lo, hi, opts, out);
+    }
+    let cell = level.cell_m;
+    let (w, h) = (level.width, level.height);
+    let to_lonlat = |i: f64, j: f64| {
+        let (c, r) = level.to_window(i, j);
+        grid.geometry.pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5)
+    };
+    if opts.use_symmetry {
+        let n_lo = (0.4 * lo / cell).max(1.0);
+        let n_hi = (0.45 * hi / cell).max(n_lo);
+        let mut radii = Vec::new();
+        let mut n = n_lo.round().max(1.0);
+        while n <= n_hi.round() {
+            radii.push(n);
+            n += 1.0;
+        }
+        for p in radial_symmetry::peaks(&level.z, w, h, &radii, opts.min_symmetry_score) {
+            let dia = (DIAMETER_PER_VOTE_RADIUS * p.radius_cells * cell).clamp(lo, hi);
+            if let Some((lon, lat)) = to_lonlat(p.i as f64, p.j as f64) {
+                out.push(Detection { lon_deg: lon, lat_deg: lat, diameter_m: dia, score: p.score, cue: Cue::RadialSymmetry });
+            }
+        }
+    }
+}
+
+/// Closed depressions, looked for one level coarser than the symmetry votes (craters of the
+/// band span 4-8 cells there): a filled bowl stays a closed region at that size, and the fill,
+/// the costliest step of detection, then touches a quarter of the cells.
+fn scan_depressions(grid: &ElevationGrid, level: &pyramid::Level, lo: f64, hi: f64, opts: &DetectOptions, out: &mut Vec<Detection>) {
+    let cell = level.cell_m;
+    let (w, h) = (level.width, level.height);
+    if w < 8 || h < 8 {
+        return;
+    }
+    // Remove relief broader than the band so a small crater on a large one's floor is a
+    // closed depression of its own.
+    let k = ((2.0 * hi / cell).ceil() as usize).max(2);
+    let smooth = pyramid::box_mean(&level.z, w, h, k);
+    let hp: Vec<f32> = level.z.iter().zip(&smooth).map(|(a, b)| a - b).collect();
+    for d in depressions::find(&hp, w, h, 0.0) {
+        let dia = 2.0 * (d.cells as f64 / std::f64::consts::PI).sqrt() * cell;
+        if dia < 0.6 * lo || dia > 1.3 * hi || d.max_depth < opts.min_depression_depth_ratio * dia {
+            continue;
+        }
+        let (c, r) = level.to_window(d.ci, d.cj);
+        if let Some((lon, lat)) = grid.geometry.pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5) {
+            out.push(Detection { lon_deg: lon, lat_deg: lat, diameter_m: dia.clamp(lo, hi), score: d.max_depth / dia, cue: Cue::Depression });
+        }
+    }
+}
+
+/// Drop proposals that repeat a stronger-placed one: centre within 0.25 D and diameter within
+/// a factor 1.3. Depressions are kept before symmetry peaks (they locate the floor better).
+fn suppress(mut d: Vec<Detection>, radius_m: f64) -> Vec<Detection> {
+    d.sort_by(|a, b| {
+        (a.cue != Cue::Depression)
+            .cmp(&(b.cue != Cue::Depression))
+            .then(b.score.total_cmp(&a.score))
+            .then(a.lat_deg.total_cmp(&b.lat_deg))
+            .then(a.lon_deg.total_cmp(&b.lon_deg))
+    });
+    let mut tree: RTree<rstar::primitives::GeomWithData<[f64; 3], f64>> = RTree::new();
+    let mut keep = Vec::new();
+    for det in d {
+        let p = crate::merge::cartesian(radius_m, det.lon_deg, det.lat_deg);
+        let r = 0.25 * det.diameter_m;
+        let dup = tree
+            .locate_within_distance(p, r * r)
+            .any(|q| (1.0 / 1.3..=1.3).contains(&(q.data / det.diameter_m)));
+        if !dup {
+            tree.insert(rstar::primitives::GeomWithData::new(p, det.diameter_m));
+            keep.push(det);
+        }
+    }
+    keep
+}

@@ -1,0 +1,140 @@
+//! Floor and wall metrics over the grid's own pixels inside a crater.
+//!
+//! - Per-pixel slope: Horn (1981), "Hill shading and the reflectance map", Proc. IEEE 69:14,
+//!   the same 3 x 3 formula and pixel ground sizes as `terrain::derivatives::slope_deg` (which
+//!   is checked against `gdaldem slope`); pixels whose 3 x 3 neighbourhood is incomplete are
+//!   skipped, as there.
+//! - Floor surface: least squares z = a + b x + c y + e (x^2 + y^2) over the floor disc: the
+//!   plane part gives the tilt, the whole is the "smooth bowl" whose residuals give the
+//!   roughness, and its lowest value over the floor is the robust floor level.
+
+use crate::profiles::Surface;
+use crate::sampler::LocalSampler;
+use crate::stats;
+
+/// Pixels examined per crater at most; larger craters are subsampled on a regular stride.
+const MAX_PIXELS: usize = 40_000;
+
+#[derive(Clone, Debug, Default)]
+pub struct FloorMetrics {
+    /// Lowest value of the fitted bowl over the floor, relative to the regional plane.
+    pub floor_level_m: f64,
+    /// The same lowest value in heights above the sphere.
+    pub floor_height_m: f64,
+    pub tilt_deg: f64,
+    pub tilt_azimuth_deg: f64,
+    pub slope_p95_deg: f64,
+    pub wall_slope_mean_deg: f64,
+    pub roughness_rms_m: f64,
+    pub obstacle_fraction: f64,
+    pub baseline_m: f64,
+}
+
+pub struct FloorSpec {
+    pub floor_radius_m: f64,
+    pub wall_inner_m: f64,
+    pub wall_outer_m: f64,
+    pub obstacle_slope_deg: f64,
+}
+
+#[inline]
+fn horn_slope_deg(s: &LocalSampler, c: usize, r: usize, dx: f64, dy: f64) -> Option<f64> {
+    let g = s.grid;
+    if c == 0 || r == 0 || c + 1 >= g.width || r + 1 >= g.height {
+        return None;
+    }
+    let mut z = [0.0f64; 9];
+    for dr in 0..3 {
+        for dc in 0..3 {
+            z[dr * 3 + dc] = g.get(c + dc - 1, r + dr - 1)? as f64;
+        }
+    }
+    let gx = ((z[2] + 2.0 * z[5] + z[8]) - (z[0] + 2.0 * z[3] + z[6])) / (8.0 * dx);
+    let gy = ((z[0] + 2.0 * z[1] + z[2]) - (z[6] + 2.0 * z[7] + z[8])) / (8.0 * dy);
+    Some(gx.hypot(gy).atan().to_degrees())
+}
+
+/// Measure the floor and wall of the crater centred at frame (cx, cy). `plane` is the regional
+/// plane (frame coordinates) that the floor level is reported against. `None` if the floor
+/// disc holds fewer than 4 valid pixels.
+pub fn measure(s: &LocalSampler, cx: f64, cy: f64, spec: &FloorSpec, plane: &Surface) -> Option<FloorMetrics> {
+    let g = s.grid;
+    let reach = spec.wall_outer_m.max(spec.floor_radius_m);
+    let corners = [(-reach, -reach), (reach, -reach), (-reach, reach), (reach, reach)].map(|(x, y)| s.pixel_of(cx + x, cy + y));
+    let cmin = corners.iter().map(|p| p.0).fold(f64::INFINITY, f64::min).floor().max(0.0) as usize;
+    let cmax = (corners.iter().map(|p| p.0).fold(f64::NEG_INFINITY, f64::max).ceil().max(0.0) as usize).min(g.width.saturating_sub(1));
+    let rmin = corners.iter().map(|p| p.1).fold(f64::INFINITY, f64::min).floor().max(0.0) as usize;
+    let rmax = (corners.iter().map(|p| p.1).fold(f64::NEG_INFINITY, f64::max).ceil().max(0.0) as usize).min(g.height.saturating_sub(1));
+    if cmin > cmax || rmin > rmax {
+        return None;
+    }
+    let count = (cmax - cmin + 1) * (rmax - rmin + 1);
+    let stride = ((count as f64 / MAX_PIXELS as f64).sqrt().ceil() as usize).max(1);
+    let (centre_col, _) = s.pixel_of(cx, cy);
+    let mut floor: Vec<([f64; 4], f64, f64)> = Vec::new();
+    let mut slopes = Vec::new();
+    let (mut wall_sum, mut wall_n) = (0.0, 0usize);
+    let (mut px_sum, mut px_n) = (0.0, 0usize);
+    for r in (rmin..=rmax).step_by(stride) {
+        // Ground pixel size along the row, at the crater's column (as terrain::derivatives does
+        // per row at the window centre; identical for cylindrical grids).
+        let raster_col = g.col0 as f64 + centre_col + 0.5;
+        let raster_row = g.row0 as f64 + r as f64 + 0.5;
+        let Some((dx, dy)) = g.geometry.pixel_size_m_at(raster_col, raster_row) else { continue };
+        for c in (cmin..=cmax).step_by(stride) {
+            let Some((x, y)) = s.local_of(c, r) else { continue };
+            let (x, y) = (x - cx, y - cy);
+            let rho = x.hypot(y);
+            if rho > reach {
+                continue;
+            }
+            let Some(z) = g.get(c, r) else { continue };
+            let slope = horn_slope_deg(s, c, r, dx, dy);
+            if rho <= spec.floor_radius_m {
+                floor.push(([1.0, x, y, x * x + y * y], z as f64, slope.unwrap_or(f64::NAN)));
+                px_sum += (dx * dy).sqrt();
+                px_n += 1;
+                if let Some(sl) = slope {
+                    slopes.push(sl);
+                }
+            }
+            if rho >= spec.wall_inner_m && rho <= spec.wall_outer_m {
+                if let Some(sl) = slope {
+                    wall_sum += sl;
+                    wall_n += 1;
+                }
+            }
+        }
+    }
+    if floor.len() < 4 {
+        return None;
+    }
+    // With too few pixels for the curvature term, fall back to a plane.
+    let coef = if floor.len() >= 8 {
+        crate::lsq::fit_linear(floor.iter().map(|f| (f.0, f.1)))?
+    } else {
+        let p = crate::lsq::fit_linear(floor.iter().map(|f| ([f.0[0], f.0[1], f.0[2]], f.1)))?;
+        [p[0], p[1], p[2], 0.0]
+    };
+    let model = |f: &[f64; 4]| coef[0] + coef[1] * f[1] + coef[2] * f[2] + coef[3] * f[3];
+    let rms = (floor.iter().map(|f| (f.1 - model(&f.0)).powi(2)).sum::<f64>() / floor.len() as f64).sqrt();
+    let floor_level_m = floor
+        .iter()
+        .map(|f| model(&f.0) - plane.at(cx + f.0[1], cy + f.0[2]))
+        .fold(f64::INFINITY, f64::min);
+    let floor_height_m = floor.iter().map(|f| model(&f.0)).fold(f64::INFINITY, f64::min);
+    let (b, c) = (coef[1], coef[2]);
+    let obstacles = slopes.iter().filter(|&&sl| sl > spec.obstacle_slope_deg).count();
+    let n_slopes = slopes.len();
+    Some(FloorMetrics {
+        floor_level_m,
+        floor_height_m,
+        tilt_deg: b.hypot(c).atan().to_degrees(),
+        tilt_azimuth_deg: if b == 0.0 && c == 0.0 { 0.0 } else { (-b).atan2(-c).to_degrees().rem_euclid(360.0) },
+        slope_p95_deg: if n_slopes > 0 { stats::quantile(&mut slopes, 0.95) } else { 0.0 },
+        wall_slope_mean_deg: if wall_n > 0 { wall_sum / wall_n as f64 } else { 0.0 },
+        roughness_rms_m: rms,
+        obstacle_fraction: if n_slopes > 0 { obstacles as f64 / n_slopes as f64 } else { 0.0 },
+        baseline_m: if px_n > 0 { px_sum / px_n as f64 } else { 0.0 },
+    })
+}

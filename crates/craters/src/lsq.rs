@@ -1,0 +1,45 @@
+//! Linear least squares through the normal equations, for the small (3 or 4 parameter)
+//! surface fits of the measurement, solved by Gaussian elimination with partial pivoting.
+//! Callers centre their coordinates first, which keeps the normal equations well conditioned.
+
+/// Fit coefficients c minimising sum (c . f_i - z_i)^2 over rows (f_i, z_i). `None` when the
+/// rows do not determine the coefficients.
+pub fn fit_linear<const N: usize>(rows: impl Iterator<Item = ([f64; N], f64)>) -> Option<[f64; N]> {
+    let mut m = [[0.0f64; N]; N];
+    let mut b = [0.0f64; N];
+    let mut n = 0usize;
+    for (f, z) in rows {
+        for i in 0..N {
+            for j in 0..N {
+                m[i][j] += f[i] * f[j];
+            }
+            b[i] += f[i] * z;
+        }
+        n += 1;
+    }
+    if n < N {
+        return None;
+    }
+    let scale = (0..N).map(|i| m[i][i].abs()).fold(0.0, f64::max);
+    for col in 0..N {
+        let piv = (col..N).max_by(|&a, &b2| m[a][col].abs().total_cmp(&m[b2][col].abs()))?;
+        if m[piv][col].abs() <= 1e-13 * scale || !m[piv][col].is_finite() {
+            return None;
+        }
+        m.swap(col, piv);
+        b.swap(col, piv);
+        for r in col + 1..N {
+            let k = m[r][col] / m[col][col];
+            for c in col..N {
+                m[r][c] -= k * m[col][c];
+            }
+            b[r] -= k * b[col];
+        }
+    }
+    let mut x = [0.0f64; N];
+    for i in (0..N).rev() {
+        let s: f64 = (i + 1..N).map(|j| m[i][j] * x[j]).sum();
+        x[i] = (b[i] - s) / m[i][i];
+    }
+    x.iter().all(|v| v.is_finite()).then_some(x)
+}

@@ -1,0 +1,376 @@
+//! Measuring one crater: iterate centre and radius from rim crests on radial profiles, then
+//! report the rim, the floor and their uncertainties. See docs/metrics.md for each metric.
+
+use crate::circle_fit::{self, Circle};
+use crate::error::CraterError;
+use crate::floor::{self, FloorSpec};
+use crate::profiles::{Crest, Profiles, Surface};
+use crate::sampler::LocalSampler;
+use crate::{ellipse_fit, stats, CraterMeasurement};
+use rand::{Rng, SeedableRng};
+use terrain::ElevationGrid;
+
+/// Choices of the measurement; the defaults are what docs/metrics.md describes.
+#[derive(Clone, Debug, PartialEq)]
+pub struct MeasureOptions {
+    /// Radial profiles per crater (at least 64).
+    pub azimuths: usize,
+    /// Rounds of crest finding and circle fitting that move the centre.
+    pub iterations: usize,
+    /// A crest counts towards completeness when within this fraction of R of the fitted circle.
+    pub crest_tolerance_frac: f64,
+    /// Floor disc radius as a fraction of R (at least 1.5 pixels).
+    pub floor_radius_frac: f64,
+    /// Inner wall annulus, fractions of R.
+    pub wall_inner_frac: f64,
+    pub wall_outer_frac: f64,
+    /// Floor pixels steeper than this count as obstacles (15 deg: common practice for lander and
+    /// rover slope limits, no source).
+    pub obstacle_slope_deg: f64,
+    /// Bootstrap resamples over azimuths for the uncertainties (0 disables; SDs are then 0).
+    pub bootstrap_resamples: usize,
+    pub seed: u64,
+    /// Below this fraction of valid data in the disc out to 1.5 R the crater is not measured.
+    pub min_valid_fraction: f64,
+}
+
+impl Default for MeasureOptions {
+    fn default() -> Self {
+        MeasureOptions {
+            azimuths: 64,
+            iterations: 3,
+            crest_tolerance_frac: 0.15,
+            floor_radius_frac: 0.3,
+            wall_inner_frac: 0.5,
+            wall_outer_frac: 0.9,
+            obstacle_slope_deg: 15.0,
+            bootstrap_resamples: 50,
+            seed: 0x5eed_c0de,
+            min_valid_fraction: 0.5,
+        }
+    }
+}
+
+/// Samples per profile at most: half a pixel apart, or coarser for craters more than about
+/// 60 pixels across, where the crest is still located to a fraction of a pixel by its flanks.
+const SAMPLES_PER_PROFILE: f64 = 72.0;
+
+/// Profiles reach this many radii: the plane annulus is 1.6-2.4 R, the plain 2.0-2.5 R.
+const PROFILE_REACH: f64 = 2.5;
+
+struct Round {
+    profiles: Profiles,
+    /// Regional plane: depth, relief and floor level are reported against it.
+    plane: Surface,
+    /// Crest heights relative to the plane.
+    crest_z: Vec<f64>,
+    circle: Circle,
+    /// Index of each fitted point's azimuth, with its frame position.
+    pts: Vec<(usize, (f64, f64))>,
+}
+
+fn not_measurable(lon: f64, lat: f64, d: f64, reason: impl Into<String>) -> CraterError {
+    CraterError::NotMeasurable { lon_deg: lon, lat_deg: lat, diameter_m: d, reason: reason.into() }
+}
+
+/// Drops below a centimetre are below the vertical precision of any planetary DEM and are
+/// taken as flat ground (common practice, no source).
+const MIN_DROP_M: f64 = 0.01;
+
+/// Accept crests that stand clearly above both neighbourhoods, relative to the crater's own
+/// typical rim: a fifth of the median inner and outer drops (breached sectors fall far short).
+fn accept(crests: &[Option<Crest>]) -> Vec<bool> {
+    let mut inner: Vec<f64> = crests.iter().flatten().map(|c| c.inner_drop).collect();
+    let mut outer: Vec<f64> = crests.iter().flatten().map(|c| c.outer_drop).collect();
+    let (mi, mo) = (stats::median(&mut inner), stats::median(&mut outer));
+    crests
+        .iter()
+        .map(|c| c.is_some_and(|c| c.inner_drop >= 0.25 * mi && c.outer_drop >= 0.2 * mo && c.outer_drop > MIN_DROP_M && c.inner_drop > MIN_DROP_M))
+        .collect()
+}
+
+/// Crests on the profiles detrended by `surface`, their heights relative to `plane`, and the
+/// accepted ones as frame points.
+#[allow(clippy::too_many_arguments, clippy::type_complexity)]
+fn crests_over(
+    raw: &Profiles,
+    surface: &Surface,
+    plane: &Surface,
+    centre: (f64, f64),
+    r: f64,
+    band: (f64, f64),
+    pixel_m: f64,
+    opts: &MeasureOptions,
+) -> (Vec<Option<Crest>>, Vec<f64>, Vec<(usize, (f64, f64))>) {
+    let profiles = raw.detrended(surface);
+    let crests: Vec<Option<Crest>> = (0..opts.azimuths).map(|i| profiles.crest(i, band.0 * r, band.1 * r, 0.4 * r, pixel_m)).collect();
+    let at = |i: usize, c: &Crest| (centre.0 + profiles.dir[i].0 * c.r, centre.1 + profiles.dir[i].1 * c.r);
+    let crest_z: Vec<f64> = crests
+        .iter()
+        .enumerate()
+        .map(|(i, c)| {
+            c.map_or(f64::NAN, |c| {
+                let (x, y) = at(i, &c);
+                c.z + surface.at(x, y) - plane.at(x, y)
+            })
+        })
+        .collect();
+    let ok = accept(&crests);
+    let pts = crests.iter().enumerate().filter(|(i, _)| ok[*i]).filter_map(|(i, c)| c.map(|c| (i, at(i, &c)))).collect();
+    (crests, crest_z, pts)
+}
+
+fn round(s: &LocalSampler, centre: (f64, f64), r: f64, band: (f64, f64), opts: &MeasureOptions, pixel_m: f64) -> Option<Round> {
+    let r_max = PROFILE_REACH * r;
+    let dr = (0.5 * pixel_m).max(r_max / SAMPLES_PER_PROFILE);
+    let raw = Profiles::sample(s, centre.0, centre.1, opts.azimuths, r_max, dr);
+    let plane = raw.regional(1.6 * r, 2.4 * r, false)?;
+    let need = (opts.azimuths / 8).max(6);
+    let mut found = crests_over(&raw, &plane, &plane, centre, r, band, pixel_m, opts);
+    if found.2.len() < need {
+        // A small crater on a larger crater's curved floor sits in ground that rises in every
+        // direction, and a plane leaves that rise to swamp its rim: retry over a quadratic
+        // regional surface. Not the first choice: on an isolated crater the quadratic takes
+        // the ejecta's outward fall for curvature and pulls broad rims outwards.
+        let quad = raw.regional(1.6 * r, 2.4 * r, true)?;
+        found = crests_over(&raw, &quad, &plane, centre, r, band, pixel_m, opts);
+    }
+    let (_, crest_z, pts) = found;
+    let profiles = raw.detrended(&plane);
+    if pts.len() < need {
+        return None;
+    }
+    let xy: Vec<(f64, f64)> = pts.iter().map(|p| p.1).collect();
+    let (circle, _) = circle_fit::robust_geometric(&xy)?;
+    Some(Round { profiles, plane, crest_z, circle, pts })
+}
+
+/// Measure the crater near (lon, lat) with provisional diameter `diameter_guess_m`.
+///
+/// Fails with [`CraterError::NotMeasurable`] when the rim cannot be traced (too few crests, no
+/// data, centre wandering off to another feature) rather than returning made-up numbers.
+pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_m: f64, opts: &MeasureOptions) -> Result<CraterMeasurement, CraterError> {
+    let nm = |reason: &str| not_measurable(lon_deg, lat_deg, diameter_guess_m, reason);
+    if opts.azimuths < 16 || !(diameter_guess_m > 0.0) || !lon_deg.is_finite() || !lat_deg.is_finite() {
+        return Err(CraterError::Options(format!("measure needs >= 16 azimuths and a positive diameter (got {} and {diameter_guess_m})", opts.azimuths)));
+    }
+    let r0 = diameter_guess_m / 2.0;
+    let geom = &grid.geometry;
+    let (pc, pr) = geom.lonlat_to_pixel(lon_deg, lat_deg).ok_or_else(|| nm("position is outside the map projection"))?;
+    let (px_x, px_y) = geom.pixel_size_m_at(pc, pr).ok_or_else(|| nm("no pixel size at this position"))?;
+    let pixel_m = px_x.min(px_y);
+    // Room for the centre to move by R/2 and the radius to grow by half while profiles reach 2.5 R.
+    let s = LocalSampler::new(grid, lon_deg, lat_deg, r0 * (PROFILE_REACH * 1.5 + 0.6)).ok_or_else(|| nm("position is outside the map projection"))?;
+    let (mut centre, mut r) = ((0.0, 0.0), r0);
+    for it in 0..opts.iterations.max(1) {
+        let band = if it == 0 { (0.5, 1.5) } else { (0.7, 1.35) };
+        let rd = round(&s, centre, r, band, opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?;
+        let moved = (rd.circle.cx - centre.0).hypot(rd.circle.cy - centre.1) + (rd.circle.r - r).abs();
+        centre = (rd.circle.cx, rd.circle.cy);
+        r = rd.circle.r;
+        let converged = it > 0 && moved < 0.005 * r;
+        if centre.0.hypot(centre.1) > 0.6 * r0 || r > 1.6 * r0 || r < 0.4 * r0 {
+            return Err(nm("the rim fit drifted to another feature"));
+        }
+        if converged {
+            break;
+        }
+    }
+    let rd = round(&s, centre, r, (0.7, 1.35), opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?;
+    let prof_centre = centre;
+    let circle = rd.circle;
+    let (cx, cy, r) = (circle.cx, circle.cy, circle.r);
+
+    // Coverage over the disc out to 1.5 R, area-weighted (each sample stands for r dr dtheta).
+    let p = &rd.profiles;
+    // A raster spanning the whole circle of longitude has no east or west edge.
+    let wraps = geom
+        .projection
+        .x_period(geom.body_radius_m)
+        .is_some_and(|per| (per / geom.geotransform[1].abs() - geom.width as f64).abs() < 0.5);
+    let (mut w_all, mut w_ok, mut cut) = (0.0, 0.0, false);
+    for i in 0..p.n_az {
+        for k in 0..p.n_r {
+            let rk = k as f64 * p.dr;
+            if rk > 1.5 * r {
+                break;
+            }
+            let w = rk.max(0.5 * p.dr);
+            w_all += w;
+            if p.at(i, k).is_finite() {
+                w_ok += w;
+            } else {
+                let (x, y) = (p.cx + p.dir[i].0 * rk, p.cy + p.dir[i].1 * rk);
+                let (c, rr) = s.pixel_of(x, y);
+                let (rc, rrow) = (c + grid.col0 as f64, rr + grid.row0 as f64);
+                let col_edge = !wraps && (rc < 0.0 || rc > geom.width as f64 - 1.0);
+                cut |= s.outside(x, y) || col_edge || rrow < 0.0 || rrow > geom.height as f64 - 1.0;
+            }
+        }
+    }
+    let valid_fraction = if w_all > 0.0 { w_ok / w_all } else { 0.0 };
+    if valid_fraction < opts.min_valid_fraction {
+        return Err(nm(&format!("only {:.0}% of the crater has data", 100.0 * valid_fraction)));
+    }
+
+    // Rim crests near the fitted circle: completeness, the widest gap, heights.
+    let n = opts.azimuths;
+    let mut rim_r = vec![f32::NAN; n];
+    let mut rim_h = vec![f32::NAN; n];
+    let mut rim_pts = Vec::new();
+    let mut crest_det = Vec::new();
+    for &(i, (x, y)) in &rd.pts {
+        let d = (x - cx).hypot(y - cy);
+        if (d - r).abs() <= opts.crest_tolerance_frac * r {
+            let z = rd.crest_z[i];
+            rim_r[i] = d as f32;
+            rim_h[i] = (z + rd.plane.at(x, y)) as f32;
+            rim_pts.push((x, y));
+            crest_det.push(z);
+        }
+    }
+    if rim_pts.len() < 6 {
+        return Err(nm("too few rim crests near the fitted circle"));
+    }
+    let has: Vec<bool> = rim_r.iter().map(|v| v.is_finite()).collect();
+    let completeness = has.iter().filter(|b| **b).count() as f64 / n as f64;
+    let (gap_len, gap_mid) = widest_gap(&has);
+    let step_deg = 360.0 / n as f64;
+    let rim_heights: Vec<f64> = rim_h.iter().filter(|v| v.is_finite()).map(|&v| v as f64).collect();
+    let rim_det_median = stats::median(&mut crest_det.clone());
+
+    // Plain: detrended heights 2.0-2.5 R around the profile centre.
+    let mut plain = Vec::new();
+    for i in 0..p.n_az {
+        for k in ((2.0 * r / p.dr).ceil() as usize)..p.n_r {
+            let z = p.at(i, k);
+            if z.is_finite() && k as f64 * p.dr <= 2.5 * r {
+                plain.push(z);
+            }
+        }
+    }
+    let plain_level = if plain.is_empty() { 0.0 } else { stats::median(&mut plain) };
+
+    let spec = FloorSpec {
+        floor_radius_m: (opts.floor_radius_frac * r).max(1.5 * pixel_m),
+        wall_inner_m: opts.wall_inner_frac * r,
+        wall_outer_m: opts.wall_outer_frac * r,
+        obstacle_slope_deg: opts.obstacle_slope_deg,
+    };
+    let fl = floor::measure(&s, cx, cy, &spec, &rd.plane).ok_or_else(|| nm("the floor has too few valid pixels"))?;
+    let depth = rim_det_median - fl.floor_level_m;
+    if !(depth > 0.0) {
+        return Err(nm("the rim does not stand above the floor"));
+    }
+
+    let ell = ellipse_fit::fit(&rim_pts);
+    let (major, minor, az) = match ell {
+        Some(e) if e.semi_major < 2.0 * r && e.semi_minor > 0.5 * r => (2.0 * e.semi_major, 2.0 * e.semi_minor, e.azimuth_deg),
+        _ => (2.0 * r, 2.0 * r, 0.0),
+    };
+    let (d_sd, depth_sd) = bootstrap(&rim_pts, &crest_det, fl.floor_level_m, opts);
+    let fit_rms = (rim_pts.iter().map(|p| ((p.0 - cx).hypot(p.1 - cy) - r).powi(2)).sum::<f64>() / rim_pts.len() as f64).sqrt();
+    let _ = prof_centre;
+    let (lon, lat) = s.lonlat(cx, cy);
+    let diameter = 2.0 * r;
+    Ok(CraterMeasurement {
+        centre_lon_deg: lon,
+        centre_lat_deg: lat,
+        diameter_m: diameter,
+        diameter_sd_m: d_sd,
+        ellipse_major_m: major,
+        ellipse_minor_m: minor,
+        ellipticity: if major > 0.0 { 1.0 - minor / major } else { 0.0 },
+        ellipse_azimuth_deg: az,
+        depth_m: depth,
+        depth_sd_m: depth_sd,
+        depth_to_diameter: depth / diameter,
+        rim_relief_m: rim_det_median - plain_level,
+        rim_completeness: completeness,
+        rim_gap_deg: gap_len as f64 * step_deg,
+        rim_gap_azimuth_deg: if gap_len == 0 { 0.0 } else { (gap_mid * step_deg).rem_euclid(360.0) },
+        rim_height_sd_m: stats::sd(&rim_heights),
+        floor_tilt_deg: fl.tilt_deg,
+        floor_tilt_azimuth_deg: fl.tilt_azimuth_deg,
+        floor_slope_p95_deg: fl.slope_p95_deg,
+        wall_slope_mean_deg: fl.wall_slope_mean_deg,
+        roughness_rms_m: fl.roughness_rms_m,
+        roughness_baseline_m: fl.baseline_m,
+        obstacle_fraction: fl.obstacle_fraction,
+        obstacle_slope_threshold_deg: opts.obstacle_slope_deg,
+        valid_fraction,
+        edge_cut: cut,
+        rim_crest_radius_m: rim_r,
+        rim_crest_height_m: rim_h,
+        floor_height_m: fl.floor_height_m,
+        rim_fit_rms_m: fit_rms,
+    })
+}
+
+/// Longest circular run of azimuths without a crest: (length in azimuth steps, middle index).
+fn widest_gap(has: &[bool]) -> (usize, f64) {
+    let n = has.len();
+    if has.iter().all(|h| !h) {
+        return (n, 0.0);
+    }
+    let start = has.iter().position(|h| *h).unwrap_or(0);
+    let (mut best, mut best_mid, mut run) = (0usize, 0.0, 0usize);
+    for j in 1..=n {
+        let i = (start + j) % n;
+        if has[i] {
+            run = 0;
+        } else {
+            run += 1;
+            if run > best {
+                best = run;
+                // Middle of the run that ends at i.
+                best_mid = (start + j) as f64 - (run as f64 - 1.0) / 2.0;
+            }
+        }
+    }
+    (best, best_mid.rem_euclid(n as f64))
+}
+
+/// Bootstrap over azimuths (Efron 1979, Ann. Statist. 7:1): resample the rim-crest points with
+/// replacement, refit the circle (Kåsa) and the rim median, and report the standard deviations
+/// of the diameter and the depth. Seeded, so the output is reproducible.
+fn bootstrap(pts: &[(f64, f64)], crest_z: &[f64], floor_level: f64, opts: &MeasureOptions) -> (f64, f64) {
+    if opts.bootstrap_resamples < 2 || pts.len() < 3 {
+        return (0.0, 0.0);
+    }
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(opts.seed);
+    let n = pts.len();
+    let (mut ds, mut hs) = (Vec::with_capacity(opts.bootstrap_resamples), Vec::with_capacity(opts.bootstrap_resamples));
+    let mut sample = Vec::with_capacity(n);
+    let mut z = Vec::with_capacity(n);
+    for _ in 0..opts.bootstrap_resamples {
+        sample.clear();
+        z.clear();
+        for _ in 0..n {
+            let j = rng.gen_range(0..n);
+            sample.push(pts[j]);
+            z.push(crest_z[j]);
+        }
+        if let Some(c) = circle_fit::kasa(&sample, None) {
+            ds.push(2.0 * c.r);
+        }
+        hs.push(stats::median(&mut z) - floor_level);
+    }
+    (stats::sd(&ds), stats::sd(&hs))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::widest_gap;
+
+    #[test]
+    fn widest_gap_wraps_around_north() {
+        let mut has = vec![true; 8];
+        has[7] = false;
+        has[0] = false;
+        has[1] = false;
+        let (len, mid) = widest_gap(&has);
+        assert_eq!(len, 3);
+        assert!((mid - 0.0).abs() < 1e-9, "{mid}");
+    }
+}
