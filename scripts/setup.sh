@@ -3,7 +3,7 @@
 # files (the gdal and proj crates link the system libraries), GDAL's command-line tools (tests
 # compare with gdaldem and ogrinfo), Xvfb and ImageMagick (screenshots). Safe to run again.
 set -euo pipefail
-packages=(libgdal-dev libproj-dev gdal-bin pkg-config xvfb imagemagick)
+packages=(libgdal-dev libproj-dev gdal-bin pkg-config xvfb imagemagick time)
 missing=()
 for p in "${packages[@]}"; do
   dpkg -s "$p" >/dev/null 2>&1 || missing+=("$p")

@@ -41,44 +41,33 @@ fn row_pixel_size(grid: &ElevationGrid, row: usize, spacing: Spacing) -> (f64, f
     }
 }
 
-/// The 3x3 neighbourhood of (c, r), or `None` if it leaves the window or holds nodata.
-#[inline]
-fn window3(grid: &ElevationGrid, c: usize, r: usize) -> Option<[f64; 9]> {
-    if c == 0 || r == 0 || c + 1 >= grid.width || r + 1 >= grid.height {
-        return None;
-    }
-    let w = grid.width;
-    let mut out = [0.0; 9];
-    for dr in 0..3 {
-        let base = (r + dr - 1) * w + c - 1;
-        for dc in 0..3 {
-            let h = grid.heights_m[base + dc];
-            if h.is_nan() {
-                return None;
-            }
-            out[dr * 3 + dc] = h as f64;
-        }
-    }
-    Some(out)
-}
-
-/// Horn's gradient (dz/dx east-positive, dz/dy north-positive) of a 3x3 window.
-#[inline]
-fn horn_gradient(z: &[f64; 9], dx: f64, dy: f64) -> (f64, f64) {
-    let dzdx = ((z[2] + 2.0 * z[5] + z[8]) - (z[0] + 2.0 * z[3] + z[6])) / (8.0 * dx);
+/// Horn's gradient (dz/dx east-positive, dz/dy north-positive) of a 3x3 window given as its
+/// three rows, top to bottom, each starting at the left column.
+#[inline(always)]
+fn horn_gradient(t: &[f32], m: &[f32], b: &[f32], dx: f64, dy: f64) -> (f64, f64) {
+    let z = |row: &[f32], i: usize| row[i] as f64;
+    let dzdx = ((z(t, 2) + 2.0 * z(m, 2) + z(b, 2)) - (z(t, 0) + 2.0 * z(m, 0) + z(b, 0))) / (8.0 * dx);
     // Rows run north to south, so north-positive is top minus bottom.
-    let dzdy = ((z[0] + 2.0 * z[1] + z[2]) - (z[6] + 2.0 * z[7] + z[8])) / (8.0 * dy);
+    let dzdy = ((z(t, 0) + 2.0 * z(t, 1) + z(t, 2)) - (z(b, 0) + 2.0 * z(b, 1) + z(b, 2))) / (8.0 * dy);
     (dzdx, dzdy)
 }
 
-fn per_pixel(grid: &ElevationGrid, spacing: Spacing, f: impl Fn(&[f64; 9], f64, f64) -> f64 + Sync) -> Vec<f32> {
-    let mut out = vec![f32::NAN; grid.width * grid.height];
-    out.par_chunks_mut(grid.width.max(1)).enumerate().for_each(|(r, row)| {
+/// Apply `f(top, middle, bottom, dx, dy)` to every pixel with a full 3x3 neighbourhood, rows in
+/// parallel. Each slice starts at the pixel's left neighbour. Border pixels are NaN. A NaN
+/// anywhere in the neighbourhood propagates through the arithmetic, so nodata needs no test
+/// (kernels that use min/max must check for it themselves).
+fn per_pixel(grid: &ElevationGrid, spacing: Spacing, f: impl Fn(&[f32], &[f32], &[f32], f64, f64) -> f64 + Sync) -> Vec<f32> {
+    let (w, h) = (grid.width, grid.height);
+    let mut out = vec![f32::NAN; w * h];
+    if w < 3 || h < 3 {
+        return out;
+    }
+    let z = &grid.heights_m;
+    out.par_chunks_mut(w).enumerate().skip(1).take(h - 2).for_each(|(r, row)| {
         let (dx, dy) = row_pixel_size(grid, r, spacing);
-        for (c, v) in row.iter_mut().enumerate() {
-            if let Some(z) = window3(grid, c, r) {
-                *v = f(&z, dx, dy) as f32;
-            }
+        let (t, m, b) = (&z[(r - 1) * w..r * w], &z[r * w..(r + 1) * w], &z[(r + 1) * w..(r + 2) * w]);
+        for c in 1..w - 1 {
+            row[c] = f(&t[c - 1..c + 2], &m[c - 1..c + 2], &b[c - 1..c + 2], dx, dy) as f32;
         }
     });
     out
@@ -91,16 +80,16 @@ pub fn slope_deg(grid: &ElevationGrid) -> Vec<f32> {
 
 /// Horn slope in degrees with the given pixel spacing.
 pub fn slope_deg_with(grid: &ElevationGrid, spacing: Spacing) -> Vec<f32> {
-    per_pixel(grid, spacing, |z, dx, dy| {
-        let (gx, gy) = horn_gradient(z, dx, dy);
-        gx.hypot(gy).atan().to_degrees()
+    per_pixel(grid, spacing, |t, m, b, dx, dy| {
+        let (gx, gy) = horn_gradient(t, m, b, dx, dy);
+        (gx * gx + gy * gy).sqrt().atan().to_degrees()
     })
 }
 
 /// Horn aspect: the downhill direction in degrees clockwise from north, [0, 360); NaN where flat.
 pub fn aspect_deg(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, Spacing::Ground, |z, dx, dy| {
-        let (gx, gy) = horn_gradient(z, dx, dy);
+    per_pixel(grid, Spacing::Ground, |t, m, b, dx, dy| {
+        let (gx, gy) = horn_gradient(t, m, b, dx, dy);
         if gx == 0.0 && gy == 0.0 {
             f64::NAN
         } else {
@@ -112,8 +101,8 @@ pub fn aspect_deg(grid: &ElevationGrid) -> Vec<f32> {
 /// Hillshade 0..255 for a lamp at `azimuth_deg` (clockwise from north) and `altitude_deg`.
 pub fn hillshade(grid: &ElevationGrid, azimuth_deg: f64, altitude_deg: f64, z_factor: f64) -> Vec<f32> {
     let (zen, az) = ((90.0 - altitude_deg).to_radians(), azimuth_deg.to_radians());
-    per_pixel(grid, Spacing::Ground, move |z, dx, dy| {
-        let (gx, gy) = horn_gradient(z, dx, dy);
+    per_pixel(grid, Spacing::Ground, move |t, m, b, dx, dy| {
+        let (gx, gy) = horn_gradient(t, m, b, dx, dy);
         let (gx, gy) = (gx * z_factor, gy * z_factor);
         let slope = gx.hypot(gy).atan();
         let aspect = (-gx).atan2(-gy); // downhill azimuth, clockwise from north
@@ -125,13 +114,22 @@ pub fn hillshade(grid: &ElevationGrid, azimuth_deg: f64, altitude_deg: f64, z_fa
 /// Terrain Ruggedness Index (Riley et al. 1999): sqrt of summed squared differences to the 8
 /// neighbours, m.
 pub fn tri_m(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, Spacing::MapUnits, |z, _, _| z.iter().map(|h| (h - z[4]).powi(2)).sum::<f64>().sqrt())
+    per_pixel(grid, Spacing::MapUnits, |t, m, b, _, _| {
+        let centre = m[1] as f64;
+        t.iter().chain(m).chain(b).map(|&h| (h as f64 - centre).powi(2)).sum::<f64>().sqrt()
+    })
 }
 
 /// Roughness: max minus min height in the 3x3 window (Wilson et al. 2007), m.
 pub fn roughness_m(grid: &ElevationGrid) -> Vec<f32> {
-    per_pixel(grid, Spacing::MapUnits, |z, _, _| {
-        let (lo, hi) = z.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), &h| (a.min(h), b.max(h)));
-        hi - lo
+    per_pixel(grid, Spacing::MapUnits, |t, m, b, _, _| {
+        let (mut lo, mut hi, mut sum) = (f32::INFINITY, f32::NEG_INFINITY, 0.0f32);
+        for &h in t.iter().chain(m).chain(b) {
+            lo = lo.min(h);
+            hi = hi.max(h);
+            sum += h;
+        }
+        // min/max skip NaN; the sum does not, so it tells whether a neighbour is missing.
+        if sum.is_nan() { f64::NAN } else { (hi - lo) as f64 }
     })
 }
