@@ -32,7 +32,7 @@ pub fn merge(parts: Vec<SurveyFile>) -> Result<SurveyFile, SurveyError> {
         parts
             .into_iter()
             .flat_map(|p| p.candidates)
-            .map(|c: Candidate| Found { source: c.source, crater: c.crater, visibility: c.visibility })
+            .map(|c: Candidate| Found { source: c.source, crater: c.crater, visibility: c.visibility, fit: c.fit })
             .collect(),
     );
     Ok(merged)

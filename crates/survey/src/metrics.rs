@@ -21,6 +21,12 @@ macro_rules! vis {
     };
 }
 
+macro_rules! fit {
+    ($name:literal, $unit:literal, $desc:literal) => {
+        MetricInfo { name: $name, unit: $unit, description: $desc, get: |c| c.fit.as_ref().and_then(|f| f.metric($name)) }
+    };
+}
+
 /// Every metric a candidate carries, in table order.
 pub static METRICS: &[MetricInfo] = &[
     crater!("diameter_m", "m", "diameter of the circle fitted to the rim crest", diameter_m),
@@ -44,7 +50,25 @@ pub static METRICS: &[MetricInfo] = &[
     vis!("far_side_band", "", "1 if within 45 deg of the 180 meridian, else 0", |v| if v.far_side_band { 1.0 } else { 0.0 }),
     vis!("gc_separation_deg", "deg", "closest approach of a zenith-fixed beam to the galactic centre", |v| v.gc_separation_deg),
     vis!("plane_fraction", "", "fraction of the beam's sky track near the galactic plane", |v| v.plane_fraction),
+    fit!("fit_ok", "", "1 if the target structure fits with every requirement met, else 0"),
+    fit!("min_clearance_m", "m", "smallest gap between the placed surface and the ground under it"),
+    fit!("headroom_m", "m", "how far the surface could rise before its edge reaches the lowest anchor"),
+    fit!("anchor_height_spread_m", "m", "highest minus lowest rim anchor"),
+    fit!("max_span_m", "m", "longest straight span from a rim anchor to the aperture edge"),
+    fit!("excavation_m3", "m3", "ground to remove to reach the clearance"),
+    fit!("offset_from_crater_centre_m", "m", "distance of the structure's axis from the crater centre"),
 ];
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn every_structure_fit_metric_is_offered() {
+        for m in structure::FIT_METRICS {
+            let ours = super::metric(m.name).unwrap_or_else(|| panic!("{} missing from METRICS", m.name));
+            assert_eq!(ours.unit, m.unit);
+        }
+    }
+}
 
 /// Look a metric up by name.
 pub fn metric(name: &str) -> Option<&'static MetricInfo> {

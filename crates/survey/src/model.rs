@@ -23,6 +23,10 @@ pub struct Candidate {
     pub source: CandidateSource,
     pub crater: CraterMeasurement,
     pub visibility: Option<SiteVisibility>,
+    /// How the survey's target structure fits this crater; `None` when no structure was given
+    /// or the crater could not be fitted (no usable rim).
+    #[serde(default)]
+    pub fit: Option<structure::StructureFit>,
 }
 
 /// The input DEM, identified so a result can be audited.
@@ -44,6 +48,9 @@ pub struct SurveyParameters {
     pub tile_px: usize,
     pub catalogue: Option<String>,
     pub detect: bool,
+    /// The structure fitted into every candidate, if any.
+    #[serde(default)]
+    pub structure: Option<structure::StructureSpec>,
 }
 
 /// A share of a survey's tiles: shard `index` of `count` (1-based) takes the tiles whose

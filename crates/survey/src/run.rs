@@ -51,6 +51,8 @@ pub struct RunOptions {
     pub shard: Option<Shard>,
     /// Record finished tiles here and skip those already recorded.
     pub checkpoint: Option<PathBuf>,
+    /// Fit this structure into every candidate.
+    pub structure: Option<structure::StructureSpec>,
 }
 
 impl Default for RunOptions {
@@ -68,6 +70,7 @@ impl Default for RunOptions {
             visibility_options: VisibilityOptions::default(),
             shard: None,
             checkpoint: None,
+            structure: Some(structure::StructureSpec::default()),
         }
     }
 }
@@ -100,6 +103,8 @@ pub struct Found {
     pub source: CandidateSource,
     pub crater: CraterMeasurement,
     pub visibility: Option<SiteVisibility>,
+    #[serde(default)]
+    pub fit: Option<structure::StructureFit>,
 }
 
 struct Tile {
@@ -149,7 +154,7 @@ pub fn into_candidates(mut found: Vec<Found>) -> Vec<Candidate> {
     found
         .into_iter()
         .enumerate()
-        .map(|(i, f)| Candidate { id: i as u32 + 1, source: f.source, crater: f.crater, visibility: f.visibility })
+        .map(|(i, f)| Candidate { id: i as u32 + 1, source: f.source, crater: f.crater, visibility: f.visibility, fit: f.fit })
         .collect()
 }
 
@@ -191,7 +196,11 @@ fn resolve(info: &terrain::DemInfo, opts: &RunOptions) -> Result<(SurveyParamete
         tile_px,
         catalogue: opts.catalogue.as_ref().map(|p| p.display().to_string()),
         detect: opts.detect,
+        structure: opts.structure.clone(),
     };
+    if let Some(spec) = &params.structure {
+        spec.validate().map_err(|e| SurveyError::Parameters(format!("structure: {e}")))?;
+    }
     Ok((params, halo_px))
 }
 
@@ -277,7 +286,16 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
         } else {
             vec![None; here.len()]
         };
-        let found: Vec<Found> = here.into_iter().zip(vis).map(|((source, crater), visibility)| Found { source, crater, visibility }).collect();
+        let fits: Vec<Option<structure::StructureFit>> = match &parameters.structure {
+            Some(spec) => here.par_iter().map(|(_, m)| structure::fit(&window, m, spec).ok()).collect(),
+            None => vec![None; here.len()],
+        };
+        let found: Vec<Found> = here
+            .into_iter()
+            .zip(vis)
+            .zip(fits)
+            .map(|(((source, crater), visibility), fit)| Found { source, crater, visibility, fit })
+            .collect();
         if let Some(cp) = checkpoint_lock.lock().unwrap_or_else(|p| p.into_inner()).as_mut() {
             cp.record(t.index, &found)?;
         }

@@ -45,6 +45,13 @@ pub struct Args {
     /// outputs with `quietbowl merge`).
     #[arg(long, value_name = "K/N", value_parser = survey::Shard::parse)]
     shard: Option<survey::Shard>,
+    /// The structure to fit into every candidate (TOML: aperture_m, shape, anchors,
+    /// min_clearance_m, max_anchor_height_difference_m). Default: a 350 m paraboloid, f/D 0.5.
+    #[arg(long, value_name = "FILE", conflicts_with = "no_structure")]
+    structure: Option<PathBuf>,
+    /// Do not fit a structure.
+    #[arg(long)]
+    no_structure: bool,
     /// Do not keep a checkpoint of finished tiles beside the output.
     #[arg(long)]
     no_checkpoint: bool,
@@ -71,6 +78,15 @@ fn parse_memory(s: &str) -> Result<usize, String> {
 pub fn run(a: Args) -> anyhow::Result<()> {
     super::ensure_writable(&a.out).context("writing the survey")?;
     let (dmin, dmax) = a.diameter.unwrap_or((None, None));
+    let structure = match (&a.structure, a.no_structure) {
+        (_, true) => None,
+        (Some(path), false) => {
+            let text = std::fs::read_to_string(path).with_context(|| format!("reading {}", path.display()))?;
+            let spec: structure::StructureSpec = toml::from_str(&text).with_context(|| format!("{} is not a structure description", path.display()))?;
+            Some(spec)
+        }
+        (None, false) => Some(structure::StructureSpec::default()),
+    };
     let opts = RunOptions {
         diameter_min_m: dmin,
         diameter_max_m: dmax,
@@ -83,6 +99,7 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         memory_budget_bytes: a.memory,
         shard: a.shard,
         checkpoint: (!a.no_checkpoint).then(|| survey::checkpoint::path_beside(&a.out)),
+        structure,
         ..RunOptions::default()
     };
     let cancel = Arc::new(AtomicBool::new(false));
