@@ -34,6 +34,9 @@ enum Command {
     Survey(commands::survey::Args),
     /// Print the visibility report of one point: horizon, Earth margin, sky track.
     Site(commands::site::Args),
+    /// Apply criteria to a survey: requirements, weighted ranking, robustness, and exports
+    /// (GeoJSON, CSV, GeoPackage).
+    Rank(commands::rank::Args),
     /// Combine the outputs of `survey --shard K/N` into one survey file.
     Merge {
         /// Every shard's survey file, in any order.
@@ -54,6 +57,7 @@ fn main() -> ExitCode {
         Command::MakeDemoTerrain { out } => commands::make_demo(&out),
         Command::Survey(a) => commands::survey::run(a),
         Command::Site(a) => commands::site::run(a),
+        Command::Rank(a) => commands::rank::run(a),
         Command::Merge { parts, out } => commands::merge(&parts, &out),
     };
     match result {

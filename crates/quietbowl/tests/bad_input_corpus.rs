@@ -123,3 +123,33 @@ fn catalogue_with_broken_rows_can_skip_them_and_reports_each_line() {
         assert!(err.contains(&format!("line {line}")), "line {line} not reported: {err}");
     }
 }
+
+#[test]
+fn criteria_with_every_kind_of_mistake_and_bad_rank_inputs_fail_cleanly() {
+    let d = tempfile::tempdir().unwrap();
+    let survey = d.path().join("survey.json");
+    let demo = root().join("demo-terrain/farside-patch.tif");
+    let st = Command::new(env!("CARGO_BIN_EXE_quietbowl"))
+        .args(["survey", demo.to_str().unwrap(), "--diameter", "1500..3000", "--no-checkpoint", "--out", survey.to_str().unwrap()])
+        .status()
+        .unwrap();
+    assert!(st.success());
+    let s = survey.to_str().unwrap();
+    let out = d.path().join("shortlist.geojson");
+    let o = out.to_str().unwrap();
+    for (file, expect) in [
+        ("unknown-metric.toml", "line 6: unknown metric \"crater_beauty\""),
+        ("min-above-max.toml", "line 7: requirement on diameter_m: min 2000 is greater than max 800"),
+        ("negative-weight.toml", "line 9: criterion on diameter_m: weight -2 is negative"),
+        ("all-zero-weights.toml", "every soft criterion has weight 0"),
+        ("syntax-error.toml", "line 5"),
+        ("future-version.toml", "version 9 is not supported"),
+    ] {
+        let c = corpus("criteria").join(file);
+        fails_cleanly(&["rank", s, "--criteria", c.to_str().unwrap(), "--geojson", o], expect, Some(&out));
+    }
+    fails_cleanly(&["rank", corpus("future-schema-survey.json").to_str().unwrap(), "--geojson", o], "newer", Some(&out));
+    std::fs::write(d.path().join("a-file"), b"x").unwrap();
+    let blocked = d.path().join("a-file").join("x.gpkg");
+    fails_cleanly(&["rank", s, "--gpkg", blocked.to_str().unwrap()], "cannot write", Some(&blocked));
+}

@@ -1,1 +1,34 @@
-//! stub
+//! Turns a survey into a defensible, reproducible shortlist: hard requirements, weighted soft
+//! criteria, Pareto flags, a robustness analysis over uncertain weights, exports (GeoJSON,
+//! CSV, GeoPackage) with provenance, and the study file that keeps it all together.
+//!
+//! The ranking API is built for interactive use: [`PreparedTable::new`] does the per-candidate
+//! work once (metric look-up, utilities, requirements, Pareto); [`rank`] then only forms a
+//! weighted sum over contiguous columns and sorts, so it can run each time a weight moves.
+//! Methods and their sources: docs/siting.md.
+
+pub mod atomic;
+pub mod criteria;
+mod error;
+pub mod export;
+mod order;
+pub mod pareto;
+pub mod ranking;
+pub mod requirements;
+pub mod smaa;
+pub mod study;
+pub mod table;
+pub mod utility;
+
+pub use criteria::{Criteria, CriteriaError, Requirement, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling};
+pub use error::SitingError;
+pub use export::Provenance;
+pub use ranking::{rank, FailedRequirement, PreparedTable, RankedEntry, Ranking};
+pub use smaa::{smaa, SmaaResult};
+pub use study::Study;
+
+/// Shown with every ranking the tool presents (DEVELOPERS.md; domain notes section 8).
+pub const SCREENING_CAUTION: &str = "Screening estimates from orbital data; real site decisions rest on mission-grade analysis and the responsible engineering authority's review.";
+
+/// Tool name and version recorded in every export and study file.
+pub const TOOL_VERSION: &str = concat!("quietbowl ", env!("CARGO_PKG_VERSION"));

@@ -1,4 +1,5 @@
 pub mod describe;
+pub mod rank;
 pub mod site;
 pub mod survey;
 

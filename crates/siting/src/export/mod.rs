@@ -1,0 +1,190 @@
+//! Exports of a ranked survey: GeoJSON (RFC 7946), CSV, GeoPackage (OGC 12-128 via GDAL).
+//! Each carries the same columns (see [`columns`]) and the same [`Provenance`], and each is
+//! written atomically; the same inputs give byte-identical files.
+
+pub mod csv;
+pub mod geojson;
+pub mod gpkg;
+pub mod rim;
+
+use serde::{Deserialize, Serialize};
+use survey::{SurveyFile, SurveyParameters};
+
+use crate::criteria::Criteria;
+use crate::ranking::{PreparedTable, RankedEntry, Ranking};
+use crate::smaa::SmaaResult;
+use crate::SitingError;
+
+/// The geographic CRS every export is in: IAU 2015 Moon, sphere of 1737.4 km (domain notes 2).
+pub const MOON_CRS: &str = "IAU_2015:30100";
+
+/// Where an export's numbers come from, recorded inside it.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct Provenance {
+    /// quietbowl version that wrote the export.
+    pub tool_version: String,
+    /// quietbowl version that ran the survey.
+    pub survey_tool_version: String,
+    pub dem_path: String,
+    pub dem_sha256: String,
+    pub dem_size_bytes: u64,
+    pub body_radius_m: f64,
+    pub survey_parameters: SurveyParameters,
+    /// Set when the survey is one shard of a split run.
+    pub survey_shard: Option<survey::model::Shard>,
+    /// The criteria in force, as TOML text.
+    pub criteria_toml: String,
+    /// Supplied by the caller (ISO 8601), so reruns can be byte-identical.
+    pub date: String,
+}
+
+impl Provenance {
+    /// `criteria_toml`: the criteria file's text when one was read, else
+    /// [`Criteria::to_toml`] of the criteria in force.
+    pub fn new(survey: &SurveyFile, criteria_toml: impl Into<String>, date: impl Into<String>) -> Provenance {
+        Provenance {
+            tool_version: crate::TOOL_VERSION.to_string(),
+            survey_tool_version: survey.tool_version.clone(),
+            dem_path: survey.input.path.clone(),
+            dem_sha256: survey.input.sha256.clone(),
+            dem_size_bytes: survey.input.size_bytes,
+            body_radius_m: survey.input.body_radius_m,
+            survey_parameters: survey.parameters.clone(),
+            survey_shard: survey.shard,
+            criteria_toml: criteria_toml.into(),
+            date: date.into(),
+        }
+    }
+
+    /// (key, value) pairs in a fixed order, for formats that hold flat text.
+    pub fn pairs(&self) -> Vec<(&'static str, String)> {
+        let p = &self.survey_parameters;
+        vec![
+            ("tool_version", self.tool_version.clone()),
+            ("survey_tool_version", self.survey_tool_version.clone()),
+            ("date", self.date.clone()),
+            ("dem_path", self.dem_path.clone()),
+            ("dem_sha256", self.dem_sha256.clone()),
+            ("dem_size_bytes", self.dem_size_bytes.to_string()),
+            ("body_radius_m", self.body_radius_m.to_string()),
+            ("survey_diameter_min_m", p.diameter_min_m.to_string()),
+            ("survey_diameter_max_m", p.diameter_max_m.to_string()),
+            ("survey_tile_px", p.tile_px.to_string()),
+            ("survey_catalogue", p.catalogue.clone().unwrap_or_default()),
+            ("survey_detect", p.detect.to_string()),
+            ("survey_shard", self.survey_shard.map(|s| format!("{}/{}", s.index, s.count)).unwrap_or_default()),
+            ("crs", MOON_CRS.to_string()),
+            ("screening_caution", crate::SCREENING_CAUTION.to_string()),
+        ]
+    }
+}
+
+/// Everything an export needs.
+#[derive(Clone, Copy)]
+pub struct ExportSet<'a> {
+    pub survey: &'a SurveyFile,
+    pub criteria: &'a Criteria,
+    pub table: &'a PreparedTable,
+    pub ranking: &'a Ranking,
+    pub smaa: Option<&'a SmaaResult>,
+    pub provenance: &'a Provenance,
+    /// Export only the best N candidates (None: all).
+    pub limit: Option<usize>,
+}
+
+impl<'a> ExportSet<'a> {
+    fn check(&self) -> Result<(), SitingError> {
+        let (s, t) = (self.survey.candidates.len(), self.table.len());
+        if s != t || self.ranking.scores.len() != t {
+            return Err(SitingError::SurveyMismatch { survey: s, table: t });
+        }
+        Ok(())
+    }
+
+    pub(crate) fn entries(&self) -> impl Iterator<Item = RankedEntry<'a>> + 'a {
+        self.ranking.entries(self.table).take(self.limit.unwrap_or(usize::MAX))
+    }
+
+    /// Sphere radius for drawing rims: the survey's, else the IAU Moon radius.
+    pub(crate) fn radius_m(&self) -> f64 {
+        let r = self.survey.input.body_radius_m;
+        if r.is_finite() && r > 0.0 {
+            r
+        } else {
+            terrain::MOON_RADIUS_M
+        }
+    }
+}
+
+/// A cell of an export row.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Cell {
+    Int(i64),
+    Real(Option<f64>),
+    Bool(bool),
+    Text(String),
+}
+
+/// An export column: a name (units in it where the metric name carries them) and a unit
+/// ("1" for dimensionless).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Column {
+    pub name: String,
+    pub unit: &'static str,
+}
+
+/// The columns of every export, in order.
+pub fn columns(criteria: &Criteria) -> Vec<Column> {
+    let col = |name: &str, unit: &'static str| Column { name: name.to_string(), unit };
+    let mut cols = vec![
+        col("rank", "1"),
+        col("id", "1"),
+        col("source", ""),
+        col("centre_lon_deg", "deg"),
+        col("centre_lat_deg", "deg"),
+        col("score", "1"),
+        col("passed", ""),
+        col("pareto", ""),
+        col("failed_requirements", ""),
+    ];
+    for m in survey::METRICS {
+        cols.push(col(m.name, if m.unit.is_empty() { "1" } else { m.unit }));
+    }
+    cols.push(col("edge_cut", ""));
+    for c in &criteria.criteria {
+        cols.push(Column { name: format!("utility_{}", c.metric), unit: "1" });
+    }
+    cols.push(col("smaa_p_rank1", "1"));
+    cols.push(col("smaa_p_top_n", "1"));
+    cols
+}
+
+/// One row's cells, matching [`columns`].
+pub(crate) fn row(set: &ExportSet<'_>, e: &RankedEntry<'_>) -> Vec<Cell> {
+    let cand = &set.survey.candidates[e.index];
+    let source = match cand.source {
+        survey::CandidateSource::Detected => "detected".to_string(),
+        survey::CandidateSource::Catalogue { row } => format!("catalogue row {row}"),
+    };
+    let fails: Vec<String> = e.failures().iter().map(|f| f.describe()).collect();
+    let mut cells = vec![
+        Cell::Int(i64::from(e.rank)),
+        Cell::Int(i64::from(e.id())),
+        Cell::Text(source),
+        Cell::Real(Some(terrain::projection::wrap_deg_180(cand.crater.centre_lon_deg))),
+        Cell::Real(Some(cand.crater.centre_lat_deg)),
+        Cell::Real(Some(e.score)),
+        Cell::Bool(e.passed()),
+        Cell::Bool(e.pareto()),
+        Cell::Text(fails.join("; ")),
+    ];
+    for m in survey::METRICS {
+        cells.push(Cell::Real((m.get)(cand).filter(|v| v.is_finite())));
+    }
+    cells.push(Cell::Bool(cand.crater.edge_cut));
+    cells.extend(e.utilities().into_iter().map(|u| Cell::Real(Some(u))));
+    let p = set.smaa.and_then(|s| s.probabilities(e.index));
+    cells.push(Cell::Real(p.map(|p| p.0)));
+    cells.push(Cell::Real(p.map(|p| p.1)));
+    cells
+}
