@@ -1,9 +1,10 @@
 #!/usr/bin/env bash
 # Install what quietbowl needs on Debian/Ubuntu, only what is missing: GDAL and PROJ development
-# files (the gdal and proj crates link the system libraries), GDAL's command-line tools (tests
+# files (the gdal and proj crates link the system libraries; proj-sys generates its bindings with
+# libclang), GDAL's command-line tools (tests
 # compare with gdaldem and ogrinfo), Xvfb and ImageMagick (screenshots). Safe to run again.
 set -euo pipefail
-packages=(libgdal-dev libproj-dev gdal-bin pkg-config xvfb imagemagick time)
+packages=(libgdal-dev libproj-dev gdal-bin pkg-config libclang-dev xvfb imagemagick time)
 missing=()
 for p in "${packages[@]}"; do
   dpkg -s "$p" >/dev/null 2>&1 || missing+=("$p")
