@@ -1,8 +1,8 @@
 #!/usr/bin/env bash
 # Install what quietbowl needs on Debian/Ubuntu, only what is missing: GDAL and PROJ development
 # files (the gdal and proj crates link the system libraries; proj-sys generates its bindings with
-# libclang), GDAL's command-line tools (tests
-# compare with gdaldem and ogrinfo), Xvfb and ImageMagick (screenshots). Safe to run again.
+# libclang), GDAL's command-line tools (tests compare with gdaldem and ogrinfo), Xvfb and
+# ImageMagick (screenshots), GNU time (benchmarks). Safe to run again.
 set -euo pipefail
 packages=(libgdal-dev libproj-dev gdal-bin pkg-config libclang-dev xvfb imagemagick time)
 missing=()
