@@ -50,6 +50,19 @@ fn bench(c: &mut Criterion) {
     let opts = MeasureOptions::default();
     let ok = craters.iter().filter(|k| measure(&grid, k.0, k.1, 1.1 * k.2, &opts).is_ok()).count();
     println!("{ok} of {} synthetic craters measured", craters.len());
+    // On-CPU time of this thread (Linux scheduler statistics, ns): unlike the wall clock it
+    // does not grow when other processes share the cores.
+    let on_cpu_ns = || std::fs::read_to_string("/proc/thread-self/schedstat").ok().and_then(|s| s.split_whitespace().next()?.parse::<f64>().ok());
+    if let Some(t0) = on_cpu_ns() {
+        let rounds = 20;
+        for _ in 0..rounds {
+            std::hint::black_box(craters.iter().filter_map(|k| measure(&grid, k.0, k.1, 1.1 * k.2, &opts).ok()).count());
+        }
+        if let Some(t1) = on_cpu_ns() {
+            let per = (t1 - t0) / (rounds * craters.len()) as f64;
+            println!("on-CPU time {:.1} us per crater, {:.0} craters per CPU-second (one thread)", per / 1e3, 1e9 / per);
+        }
+    }
     let mut g = c.benchmark_group("measure");
     g.throughput(Throughput::Elements(craters.len() as u64));
     g.bench_function("one_thread", |b| {

@@ -19,8 +19,17 @@ fn bench(c: &mut Criterion) {
     let grid = dem.read_all().expect("read the demo terrain");
     println!("read {} x {} px in {:?}", grid.width, grid.height, read.elapsed());
     let opts = DetectOptions::for_grid(&grid).expect("options");
+    // Process CPU time (user + system, clock ticks of 10 ms, Linux): a load-independent
+    // companion to the wall clock on a shared machine.
+    let cpu_s = || {
+        let s = std::fs::read_to_string("/proc/self/stat").ok()?;
+        let f: Vec<&str> = s.rsplit(')').next()?.split_whitespace().collect();
+        Some((f.get(11)?.parse::<f64>().ok()? + f.get(12)?.parse::<f64>().ok()?) / 100.0)
+    };
+    let (t0, c0) = (std::time::Instant::now(), cpu_s());
     let n = survey_grid(&grid, &opts, &MeasureOptions::default()).map(|v| v.len()).unwrap_or(0);
-    println!("{n} craters from {:.0} m to {:.0} m", opts.diameter_min_m, opts.diameter_max_m);
+    let cpu = cpu_s().zip(c0).map_or(f64::NAN, |(a, b)| a - b);
+    println!("{n} craters from {:.0} m to {:.0} m in {:?} wall, {cpu:.2} s CPU", opts.diameter_min_m, opts.diameter_max_m, t0.elapsed());
     let mut g = c.benchmark_group("survey_demo");
     g.sample_size(10);
     g.bench_function("survey_grid_whole_patch", |b| b.iter(|| survey_grid(&grid, &opts, &MeasureOptions::default()).map(|v| v.len())));

@@ -42,6 +42,10 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                     let why = if ms.rim_completeness < 0.35 { "completeness" } else if ms.rim_fit_rms_m > 0.06 * ms.diameter_m { "rms" } else if ms.depth_to_diameter < 0.2 * craters::fresh_depth_to_diameter(ms.diameter_m) { "shallow" } else { "other" };
                     *reasons.entry(format!("gate {why}")).or_insert(0) += 1;
                 }
+                // Measured over planted rim-crest diameter by degradation (QB_RATIO=1).
+                if std::env::var_os("QB_RATIO").is_some() {
+                    println!("ratio {} {:.4} {:.4} {:.4} {:.3} {:.3}", c["degradation"].as_str().unwrap_or("?"), c["kappa_t_m2"].as_f64().unwrap_or(0.0) / (c["diameter_m"].as_f64().unwrap_or(1.0) / 2.0).powi(2), ms.diameter_m / d, d / c["diameter_m"].as_f64().unwrap_or(1.0), ms.rim_completeness, ms.depth_to_diameter);
+                }
                 if std::env::var_os("QB_VERBOSE").is_some() && !(ok && gate) {
                     println!("  id {} D {:.0} kappa/R2 {:.3}: got D {:.0} off {:.0} compl {:.2} rms/D {:.3} d/D {:.3} (true {:.3})", c["id"], d, c["kappa_t_m2"].as_f64().unwrap_or(0.0) / (c["diameter_m"].as_f64().unwrap_or(1.0) / 2.0).powi(2), ms.diameter_m, terrain::geodesy::distance_m(r, (ms.centre_lon_deg, ms.centre_lat_deg), (lon, lat)), ms.rim_completeness, ms.rim_fit_rms_m / ms.diameter_m, ms.depth_to_diameter, c["depth_m"].as_f64().unwrap_or(0.0) / d);
                 }

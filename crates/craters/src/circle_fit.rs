@@ -42,18 +42,6 @@ pub fn kasa(pts: &[(f64, f64)], w: Option<&[f64]>) -> Option<Circle> {
     (r2 > 0.0 && r2.is_finite()).then(|| Circle { cx: cx + mx, cy: cy + my, r: r2.sqrt() })
 }
 
-fn median(v: &mut [f64]) -> f64 {
-    v.sort_by(|a, b| a.total_cmp(b));
-    let n = v.len();
-    if n == 0 {
-        f64::NAN
-    } else if n % 2 == 1 {
-        v[n / 2]
-    } else {
-        0.5 * (v[n / 2 - 1] + v[n / 2])
-    }
-}
-
 /// Robust geometric fit starting from the Kåsa circle. Returns the circle and the final
 /// per-point weights (0 for rejected points).
 pub fn robust_geometric(pts: &[(f64, f64)]) -> Option<(Circle, Vec<f64>)> {
@@ -61,10 +49,10 @@ pub fn robust_geometric(pts: &[(f64, f64)]) -> Option<(Circle, Vec<f64>)> {
     let mut w = vec![1.0; pts.len()];
     for _ in 0..8 {
         // Tukey weights from the current residuals, scale from the median absolute deviation.
-        let res: Vec<f64> = pts.iter().map(|p| (p.0 - c.cx).hypot(p.1 - c.cy) - c.r).collect();
+        let res: Vec<f64> = pts.iter().map(|p| ((p.0 - c.cx).powi(2) + (p.1 - c.cy).powi(2)).sqrt() - c.r).collect();
         let mut abs: Vec<f64> = res.iter().map(|r| r.abs()).collect();
         // Floor on the scale: a perfect circle must not make every point an outlier.
-        let scale = (1.4826 * median(&mut abs)).max(1e-3 * c.r);
+        let scale = (1.4826 * crate::stats::median(&mut abs)).max(1e-3 * c.r);
         let k = 4.685 * scale;
         for (wi, r) in w.iter_mut().zip(&res) {
             let u = r / k;
@@ -78,7 +66,7 @@ pub fn robust_geometric(pts: &[(f64, f64)]) -> Option<(Circle, Vec<f64>)> {
                 continue;
             }
             let (dx, dy) = (p.0 - c.cx, p.1 - c.cy);
-            let d = dx.hypot(dy).max(1e-12);
+            let d = (dx * dx + dy * dy).sqrt().max(1e-12);
             let j = Vector3::new(-dx / d, -dy / d, -1.0);
             let r = d - c.r;
             m += wi * j * j.transpose();

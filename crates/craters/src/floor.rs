@@ -51,7 +51,7 @@ fn horn_slope_deg(s: &LocalSampler, c: usize, r: usize, dx: f64, dy: f64) -> Opt
     }
     let gx = ((z[2] + 2.0 * z[5] + z[8]) - (z[0] + 2.0 * z[3] + z[6])) / (8.0 * dx);
     let gy = ((z[0] + 2.0 * z[1] + z[2]) - (z[6] + 2.0 * z[7] + z[8])) / (8.0 * dy);
-    Some(gx.hypot(gy).atan().to_degrees())
+    Some((gx * gx + gy * gy).sqrt().atan().to_degrees())
 }
 
 /// Measure the floor and wall of the crater centred at frame (cx, cy). `plane` is the regional
@@ -84,7 +84,7 @@ pub fn measure(s: &LocalSampler, cx: f64, cy: f64, spec: &FloorSpec, plane: &Sur
         for c in (cmin..=cmax).step_by(stride) {
             let Some((x, y)) = s.local_of(c, r) else { continue };
             let (x, y) = (x - cx, y - cy);
-            let rho = x.hypot(y);
+            let rho = (x * x + y * y).sqrt();
             if rho > reach {
                 continue;
             }

@@ -11,6 +11,7 @@
 //! - [`catalogue::read`]: seeds from a crater list.
 
 pub mod catalogue;
+mod bootstrap;
 mod circle_fit;
 mod detect;
 mod depressions;

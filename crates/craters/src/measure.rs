@@ -7,7 +7,6 @@ use crate::floor::{self, FloorSpec};
 use crate::profiles::{Crest, Profiles, Surface};
 use crate::sampler::LocalSampler;
 use crate::{ellipse_fit, stats, CraterMeasurement};
-use rand::{Rng, SeedableRng};
 use terrain::ElevationGrid;
 
 /// Choices of the measurement; the defaults are what docs/metrics.md describes.
@@ -59,7 +58,6 @@ const SAMPLES_PER_PROFILE: f64 = 72.0;
 const PROFILE_REACH: f64 = 2.5;
 
 struct Round {
-    profiles: Profiles,
     /// Regional plane: depth, relief and floor level are reported against it.
     plane: Surface,
     /// Crest heights relative to the plane.
@@ -67,6 +65,15 @@ struct Round {
     circle: Circle,
     /// Index of each fitted point's azimuth, with its frame position.
     pts: Vec<(usize, (f64, f64))>,
+}
+
+/// Profile buffers reused from round to round of one measurement.
+struct Scratch {
+    raw: Profiles,
+    /// `raw` less the regional plane (after a round: the profiles the round's numbers use).
+    det: Profiles,
+    /// `raw` less the quadratic surface, when the plane leaves too few crests.
+    alt: Profiles,
 }
 
 fn not_measurable(lon: f64, lat: f64, d: f64, reason: impl Into<String>) -> CraterError {
@@ -89,21 +96,23 @@ fn accept(crests: &[Option<Crest>]) -> Vec<bool> {
         .collect()
 }
 
-/// Crests on the profiles detrended by `surface`, their heights relative to `plane`, and the
-/// accepted ones as frame points.
-#[allow(clippy::too_many_arguments, clippy::type_complexity)]
-fn crests_over(
-    raw: &Profiles,
-    surface: &Surface,
-    plane: &Surface,
-    centre: (f64, f64),
-    r: f64,
-    band: (f64, f64),
-    pixel_m: f64,
-    opts: &MeasureOptions,
-) -> (Vec<Option<Crest>>, Vec<f64>, Vec<(usize, (f64, f64))>) {
-    let profiles = raw.detrended(surface);
-    let crests: Vec<Option<Crest>> = (0..opts.azimuths).map(|i| profiles.crest(i, band.0 * r, band.1 * r, 0.4 * r, pixel_m)).collect();
+/// Crests on `profiles` (raw profiles less `surface`), their heights relative to `plane`,
+/// and the accepted ones as frame points.
+#[allow(clippy::type_complexity)]
+fn crests_over(profiles: &Profiles, surface: &Surface, plane: &Surface, r: f64, band: (f64, f64), pixel_m: f64) -> (Vec<f64>, Vec<(usize, (f64, f64))>) {
+    let centre = (profiles.cx, profiles.cy);
+    let mut crests: Vec<Option<Crest>> = (0..profiles.n_az).map(|i| profiles.crest(i, band.0 * r, band.1 * r, 0.4 * r, pixel_m, true)).collect();
+    // A sharp rim shows in at least half the profiles' own corners (the rest miss by the
+    // phase of the pixel grid), or in the mean profile of the rim's azimuths; a diffused one
+    // in neither. Ours, set on the demo terrain and the analytic craters.
+    let ok = accept(&crests);
+    let (met, found) = crests.iter().zip(&ok).filter(|(_, ok)| **ok).flat_map(|(c, _)| c).fold((0usize, 0usize), |a, c| (a.0 + c.flank_met as usize, a.1 + 1));
+    let sharp = 2 * met >= found || profiles.rim_is_sharp(band.0 * r, band.1 * r, pixel_m, &ok);
+    if !sharp {
+        for c in crests.iter_mut().flatten() {
+            c.r = c.r_top;
+        }
+    }
     let at = |i: usize, c: &Crest| (centre.0 + profiles.dir[i].0 * c.r, centre.1 + profiles.dir[i].1 * c.r);
     let crest_z: Vec<f64> = crests
         .iter()
@@ -115,34 +124,34 @@ fn crests_over(
             })
         })
         .collect();
-    let ok = accept(&crests);
     let pts = crests.iter().enumerate().filter(|(i, _)| ok[*i]).filter_map(|(i, c)| c.map(|c| (i, at(i, &c)))).collect();
-    (crests, crest_z, pts)
+    (crest_z, pts)
 }
 
-fn round(s: &LocalSampler, centre: (f64, f64), r: f64, band: (f64, f64), opts: &MeasureOptions, pixel_m: f64) -> Option<Round> {
+fn round(s: &LocalSampler, sc: &mut Scratch, centre: (f64, f64), r: f64, band: (f64, f64), opts: &MeasureOptions, pixel_m: f64) -> Option<Round> {
     let r_max = PROFILE_REACH * r;
     let dr = (0.5 * pixel_m).max(r_max / SAMPLES_PER_PROFILE);
-    let raw = Profiles::sample(s, centre.0, centre.1, opts.azimuths, r_max, dr);
-    let plane = raw.regional(1.6 * r, 2.4 * r, false)?;
+    sc.raw.resample(s, centre.0, centre.1, opts.azimuths, r_max, dr);
+    let plane = sc.raw.regional(1.6 * r, 2.4 * r, false)?;
+    sc.det.detrend_from(&sc.raw, &plane);
     let need = (opts.azimuths / 8).max(6);
-    let mut found = crests_over(&raw, &plane, &plane, centre, r, band, pixel_m, opts);
-    if found.2.len() < need {
+    let mut found = crests_over(&sc.det, &plane, &plane, r, band, pixel_m);
+    if found.1.len() < need {
         // A small crater on a larger crater's curved floor sits in ground that rises in every
         // direction, and a plane leaves that rise to swamp its rim: retry over a quadratic
         // regional surface. Not the first choice: on an isolated crater the quadratic takes
         // the ejecta's outward fall for curvature and pulls broad rims outwards.
-        let quad = raw.regional(1.6 * r, 2.4 * r, true)?;
-        found = crests_over(&raw, &quad, &plane, centre, r, band, pixel_m, opts);
+        let quad = sc.raw.regional(1.6 * r, 2.4 * r, true)?;
+        sc.alt.detrend_from(&sc.raw, &quad);
+        found = crests_over(&sc.alt, &quad, &plane, r, band, pixel_m);
     }
-    let (_, crest_z, pts) = found;
-    let profiles = raw.detrended(&plane);
+    let (crest_z, pts) = found;
     if pts.len() < need {
         return None;
     }
     let xy: Vec<(f64, f64)> = pts.iter().map(|p| p.1).collect();
     let (circle, _) = circle_fit::robust_geometric(&xy)?;
-    Some(Round { profiles, plane, crest_z, circle, pts })
+    Some(Round { plane, crest_z, circle, pts })
 }
 
 /// Measure the crater near (lon, lat) with provisional diameter `diameter_guess_m`.
@@ -150,6 +159,15 @@ fn round(s: &LocalSampler, centre: (f64, f64), r: f64, band: (f64, f64), opts: &
 /// Fails with [`CraterError::NotMeasurable`] when the rim cannot be traced (too few crests, no
 /// data, centre wandering off to another feature) rather than returning made-up numbers.
 pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_m: f64, opts: &MeasureOptions) -> Result<CraterMeasurement, CraterError> {
+    measure_screened(grid, lon_deg, lat_deg, diameter_guess_m, opts, 0.0)
+}
+
+/// [`measure`], giving up after the first round when the bowl is clearly shallower than
+/// `min_depth_to_diameter`: the median crest height over the lowest detrended sample within
+/// 0.3 R, over 2 R, below 0.35 of it. That rough depth is never smaller than the final one by
+/// much (the lowest sample lies at or below the floor fit), so the screen only saves the
+/// survey from fully measuring hollows its shape gates would reject (ours).
+pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_m: f64, opts: &MeasureOptions, min_depth_to_diameter: f64) -> Result<CraterMeasurement, CraterError> {
     let nm = |reason: &str| not_measurable(lon_deg, lat_deg, diameter_guess_m, reason);
     if opts.azimuths < 16 || !(diameter_guess_m > 0.0) || !lon_deg.is_finite() || !lat_deg.is_finite() {
         return Err(CraterError::Options(format!("measure needs >= 16 azimuths and a positive diameter (got {} and {diameter_guess_m})", opts.azimuths)));
@@ -161,10 +179,20 @@ pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_
     let pixel_m = px_x.min(px_y);
     // Room for the centre to move by R/2 and the radius to grow by half while profiles reach 2.5 R.
     let s = LocalSampler::new(grid, lon_deg, lat_deg, r0 * (PROFILE_REACH * 1.5 + 0.6)).ok_or_else(|| nm("position is outside the map projection"))?;
+    let mut sc = Scratch { raw: Profiles::default(), det: Profiles::default(), alt: Profiles::default() };
     let (mut centre, mut r) = ((0.0, 0.0), r0);
+    let mut last = None;
     for it in 0..opts.iterations.max(1) {
         let band = if it == 0 { (0.5, 1.5) } else { (0.7, 1.35) };
-        let rd = round(&s, centre, r, band, opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?;
+        let rd = round(&s, &mut sc, centre, r, band, opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?;
+        if it == 0 && min_depth_to_diameter > 0.0 {
+            let mut zs: Vec<f64> = rd.pts.iter().map(|&(i, _)| rd.crest_z[i]).collect();
+            let k_floor = ((0.3 * r / sc.det.dr) as usize).min(sc.det.n_r - 1);
+            let low = (0..sc.det.n_az).flat_map(|i| (0..=k_floor).map(move |k| (i, k))).map(|(i, k)| sc.det.at(i, k)).filter(|z| z.is_finite()).fold(f64::INFINITY, f64::min);
+            if (stats::median(&mut zs) - low) / (2.0 * r) < 0.35 * min_depth_to_diameter {
+                return Err(nm("far too shallow for a crater"));
+            }
+        }
         let moved = (rd.circle.cx - centre.0).hypot(rd.circle.cy - centre.1) + (rd.circle.r - r).abs();
         centre = (rd.circle.cx, rd.circle.cy);
         r = rd.circle.r;
@@ -173,16 +201,21 @@ pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_
             return Err(nm("the rim fit drifted to another feature"));
         }
         if converged {
+            // Profiles centred within 0.5% of R of the circle they gave: another round would
+            // move nothing that matters, so this one is the final one.
+            last = Some(rd);
             break;
         }
     }
-    let rd = round(&s, centre, r, (0.7, 1.35), opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?;
-    let prof_centre = centre;
+    let rd = match last {
+        Some(rd) => rd,
+        None => round(&s, &mut sc, centre, r, (0.7, 1.35), opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?,
+    };
     let circle = rd.circle;
     let (cx, cy, r) = (circle.cx, circle.cy, circle.r);
 
     // Coverage over the disc out to 1.5 R, area-weighted (each sample stands for r dr dtheta).
-    let p = &rd.profiles;
+    let p = &sc.det;
     // A raster spanning the whole circle of longitude has no east or west edge.
     let wraps = geom
         .projection
@@ -213,6 +246,18 @@ pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_
         return Err(nm(&format!("only {:.0}% of the crater has data", 100.0 * valid_fraction)));
     }
 
+    // Plain: detrended heights 2.0-2.5 R around the profile centre.
+    let mut plain = Vec::new();
+    for i in 0..p.n_az {
+        for k in ((2.0 * r / p.dr).ceil() as usize)..p.n_r {
+            let z = p.at(i, k);
+            if z.is_finite() && k as f64 * p.dr <= 2.5 * r {
+                plain.push(z);
+            }
+        }
+    }
+    let plain_level = if plain.is_empty() { 0.0 } else { stats::median(&mut plain) };
+
     // Rim crests near the fitted circle: completeness, the widest gap, heights.
     let n = opts.azimuths;
     let mut rim_r = vec![f32::NAN; n];
@@ -239,18 +284,6 @@ pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_
     let rim_heights: Vec<f64> = rim_h.iter().filter(|v| v.is_finite()).map(|&v| v as f64).collect();
     let rim_det_median = stats::median(&mut crest_det.clone());
 
-    // Plain: detrended heights 2.0-2.5 R around the profile centre.
-    let mut plain = Vec::new();
-    for i in 0..p.n_az {
-        for k in ((2.0 * r / p.dr).ceil() as usize)..p.n_r {
-            let z = p.at(i, k);
-            if z.is_finite() && k as f64 * p.dr <= 2.5 * r {
-                plain.push(z);
-            }
-        }
-    }
-    let plain_level = if plain.is_empty() { 0.0 } else { stats::median(&mut plain) };
-
     let spec = FloorSpec {
         floor_radius_m: (opts.floor_radius_frac * r).max(1.5 * pixel_m),
         wall_inner_m: opts.wall_inner_frac * r,
@@ -268,9 +301,8 @@ pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_
         Some(e) if e.semi_major < 2.0 * r && e.semi_minor > 0.5 * r => (2.0 * e.semi_major, 2.0 * e.semi_minor, e.azimuth_deg),
         _ => (2.0 * r, 2.0 * r, 0.0),
     };
-    let (d_sd, depth_sd) = bootstrap(&rim_pts, &crest_det, fl.floor_level_m, opts);
+    let (d_sd, depth_sd) = crate::bootstrap::spreads(&rim_pts, &crest_det, fl.floor_level_m, opts);
     let fit_rms = (rim_pts.iter().map(|p| ((p.0 - cx).hypot(p.1 - cy) - r).powi(2)).sum::<f64>() / rim_pts.len() as f64).sqrt();
-    let _ = prof_centre;
     let (lon, lat) = s.lonlat(cx, cy);
     let diameter = 2.0 * r;
     Ok(CraterMeasurement {
@@ -329,34 +361,6 @@ fn widest_gap(has: &[bool]) -> (usize, f64) {
         }
     }
     (best, best_mid.rem_euclid(n as f64))
-}
-
-/// Bootstrap over azimuths (Efron 1979, Ann. Statist. 7:1): resample the rim-crest points with
-/// replacement, refit the circle (Kåsa) and the rim median, and report the standard deviations
-/// of the diameter and the depth. Seeded, so the output is reproducible.
-fn bootstrap(pts: &[(f64, f64)], crest_z: &[f64], floor_level: f64, opts: &MeasureOptions) -> (f64, f64) {
-    if opts.bootstrap_resamples < 2 || pts.len() < 3 {
-        return (0.0, 0.0);
-    }
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(opts.seed);
-    let n = pts.len();
-    let (mut ds, mut hs) = (Vec::with_capacity(opts.bootstrap_resamples), Vec::with_capacity(opts.bootstrap_resamples));
-    let mut sample = Vec::with_capacity(n);
-    let mut z = Vec::with_capacity(n);
-    for _ in 0..opts.bootstrap_resamples {
-        sample.clear();
-        z.clear();
-        for _ in 0..n {
-            let j = rng.gen_range(0..n);
-            sample.push(pts[j]);
-            z.push(crest_z[j]);
-        }
-        if let Some(c) = circle_fit::kasa(&sample, None) {
-            ds.push(2.0 * c.r);
-        }
-        hs.push(stats::median(&mut z) - floor_level);
-    }
-    (stats::sd(&ds), stats::sd(&hs))
 }
 
 #[cfg(test)]

@@ -24,32 +24,33 @@ fn k_n(n: f64) -> f64 {
 const ALPHA: i32 = 2;
 
 fn gaussian_blur(v: &mut [f32], w: usize, h: usize, sigma: f64) {
-    let rad = (2.0 * sigma).ceil() as isize;
-    let k: Vec<f32> = (-rad..=rad).map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32).collect();
+    let rad = (2.0 * sigma).ceil() as usize;
+    let k: Vec<f32> = (-(rad as isize)..=rad as isize).map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32).collect();
     let ks: f32 = k.iter().sum();
+    let k: Vec<f32> = k.iter().map(|kv| kv / ks).collect();
+    // Taps falling outside the window count as zero (the kernel is not renormalised there).
     let mut tmp = vec![0f32; w * h];
-    for j in 0..h {
-        for i in 0..w {
-            let mut s = 0.0;
-            for (t, kv) in k.iter().enumerate() {
-                let ii = i as isize + t as isize - rad;
-                if ii >= 0 && (ii as usize) < w {
-                    s += kv * v[j * w + ii as usize];
-                }
+    for (src, dst) in v.chunks_exact(w).zip(tmp.chunks_exact_mut(w)) {
+        for (t, &kv) in k.iter().enumerate() {
+            // dst[i] += kv * src[i + t - rad] wherever that index exists.
+            let (d0, s0) = if t < rad { (rad - t, 0) } else { (0, t - rad) };
+            let len = w.saturating_sub(d0.max(s0));
+            for (d, s) in dst[d0..d0 + len].iter_mut().zip(&src[s0..s0 + len]) {
+                *d += kv * s;
             }
-            tmp[j * w + i] = s / ks;
         }
     }
+    v.fill(0.0);
     for j in 0..h {
-        for i in 0..w {
-            let mut s = 0.0;
-            for (t, kv) in k.iter().enumerate() {
-                let jj = j as isize + t as isize - rad;
-                if jj >= 0 && (jj as usize) < h {
-                    s += kv * tmp[jj as usize * w + i];
-                }
+        let dst = &mut v[j * w..(j + 1) * w];
+        for (t, &kv) in k.iter().enumerate() {
+            let jj = j as isize + t as isize - rad as isize;
+            if jj < 0 || jj as usize >= h {
+                continue;
             }
-            v[j * w + i] = s / ks;
+            for (d, s) in dst.iter_mut().zip(&tmp[jj as usize * w..(jj as usize + 1) * w]) {
+                *d += kv * s;
+            }
         }
     }
 }
@@ -77,34 +78,45 @@ pub fn peaks(z: &[f32], w: usize, h: usize, radii: &[f64], min_score: f64) -> Ve
         return Vec::new();
     }
     let med = crate::stats::median(&mut mags).max(1e-12) as f32;
-    let mut total = vec![0f32; w * h];
-    let mut per_radius: Vec<Vec<f32>> = Vec::with_capacity(radii.len());
-    for &n in radii {
-        let mut o = vec![0f32; w * h];
-        let mut m = vec![0f32; w * h];
-        for j in 1..h - 1 {
-            for i in 1..w - 1 {
-                let (ux, uy, g) = grad[j * w + i];
-                // Flatter than the median slope: background, no vote.
-                if g <= med {
-                    continue;
-                }
+    // Radii vote independently: one task per radius (rayon), summed afterwards.
+    use rayon::prelude::*;
+    // Cells flatter than the median slope are background and cast no vote.
+    let voters: Vec<(u32, u32, f32, f32, f32)> = (1..h - 1)
+        .flat_map(|j| (1..w - 1).map(move |i| (i, j)))
+        .filter_map(|(i, j)| {
+            let (ux, uy, g) = grad[j * w + i];
+            (g > med).then_some((i as u32, j as u32, ux, uy, g / med))
+        })
+        .collect();
+    let per_radius: Vec<Vec<f32>> = radii
+        .par_iter()
+        .map(|&n| {
+            let mut o = vec![0f32; w * h];
+            let mut m = vec![0f32; w * h];
+            for &(i, j, ux, uy, wt) in &voters {
                 let ti = i as isize - (ux as f64 * n).round() as isize;
                 let tj = j as isize - (uy as f64 * n).round() as isize;
                 if ti >= 0 && tj >= 0 && (ti as usize) < w && (tj as usize) < h {
                     let t = tj as usize * w + ti as usize;
                     o[t] += 1.0;
-                    m[t] += g / med;
+                    m[t] += wt;
                 }
             }
-        }
-        let kn = k_n(n) as f32;
-        let mut f: Vec<f32> = o.iter().zip(&m).map(|(&o, &m)| (m / kn) * (o.min(kn) / kn).powi(ALPHA)).collect();
-        gaussian_blur(&mut f, w, h, (0.25 * n).max(0.5));
-        for (t, v) in total.iter_mut().zip(&f) {
+            let kn = k_n(n) as f32;
+            // Reuse the vote buffer for the transform.
+            for (ov, &mv) in o.iter_mut().zip(&m) {
+                *ov = (mv / kn) * (ov.min(kn) / kn).powi(ALPHA);
+            }
+            drop(m);
+            gaussian_blur(&mut o, w, h, (0.25 * n).max(0.5));
+            o
+        })
+        .collect();
+    let mut total = vec![0f32; w * h];
+    for f in &per_radius {
+        for (t, v) in total.iter_mut().zip(f) {
             *t += v;
         }
-        per_radius.push(f);
     }
     let sup = (radii[0].round() as isize).max(2);
     let mut out = Vec::new();

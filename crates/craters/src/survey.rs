@@ -3,7 +3,7 @@
 
 use crate::detect::{detect, DetectOptions};
 use crate::error::CraterError;
-use crate::measure::{measure, MeasureOptions};
+use crate::measure::{measure_screened, MeasureOptions};
 use crate::merge::merge_duplicates_on;
 use crate::CraterMeasurement;
 use rayon::prelude::*;
@@ -54,7 +54,9 @@ pub fn survey_grid(grid: &ElevationGrid, detect_opts: &DetectOptions, measure_op
             // A proposal's size is rough (a voting radius, a filled area); when the rim is not
             // found from it, look once more on either side.
             GUESS_FACTORS.iter().find_map(|f| {
-                measure(grid, d.lon_deg, d.lat_deg, f * d.diameter_m, measure_opts).ok().filter(|m| looks_like_crater(m, detect_opts))
+                let dia = f * d.diameter_m;
+                let least = detect_opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(dia);
+                measure_screened(grid, d.lon_deg, d.lat_deg, dia, measure_opts, least).ok().filter(|m| looks_like_crater(m, detect_opts))
             })
         })
         .collect();
