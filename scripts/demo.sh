@@ -1,15 +1,19 @@
 #!/usr/bin/env bash
-# `make demo`: the workbench on the demo terrain, or the headless path when there is no display.
+# `make demo`: survey the demo terrain (a few seconds in release; redone whenever the binary is
+# newer than the stored survey), then open the workbench on it, or run the headless path when
+# there is no display.
 set -euo pipefail
+cd "$(dirname "$0")/.."
 qb=target/release/quietbowl
 dem=demo-terrain/farside-patch.tif
-mkdir -p out
-if [ -n "${DISPLAY:-}" ] && "$qb" --help | grep -q '^  workbench'; then
-  exec "$qb" workbench "$dem"
+survey=demo-terrain/farside-patch.survey.json
+if [ ! -f "$survey" ] || [ "$qb" -nt "$survey" ]; then
+  "$qb" survey "$dem" --no-checkpoint --out "$survey"
 fi
-echo "No display (or no workbench in this build): running the headless path on the demo terrain."
+if [ -n "${DISPLAY:-}" ]; then
+  exec "$qb" workbench "$survey"
+fi
+echo "No display found: running the headless path on the demo terrain instead of the workbench."
 "$qb" describe "$dem"
-"$qb" survey "$dem" --out out/demo-survey.json
-if "$qb" --help | grep -q '^  rank'; then
-  "$qb" rank out/demo-survey.json --top 15 --geojson out/demo-shortlist.geojson --csv out/demo-shortlist.csv
-fi
+mkdir -p out
+"$qb" rank "$survey" --top 15 --geojson out/demo-shortlist.geojson --csv out/demo-shortlist.csv --gpkg out/demo-shortlist.gpkg

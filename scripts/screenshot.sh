@@ -27,12 +27,24 @@ xvfb=$!
 trap 'kill "$xvfb" 2>/dev/null || true' EXIT
 sleep 1
 
+# A fresh settings folder, so a remembered window layout does not change the pictures.
+settings=$(mktemp -d)
+trap 'kill "$xvfb" 2>/dev/null || true; rm -rf "$settings"' EXIT
+
 # The window writes its own picture once the survey is ranked and the terrain shaded, then
-# closes; a full-screen grab of the display is kept too, for comparison.
-DISPLAY=$display LIBGL_ALWAYS_SOFTWARE=1 timeout 120 "$bin" "$file" --select-rank 1 --size 1600x1000 --timing \
-  --screenshot "$out/workbench.png" &
-app=$!
-sleep "${SCREENSHOT_GRAB_AFTER_S:-8}"
-import -display "$display" -window root "$out/workbench-display.png" || true
-wait "$app"
-echo "wrote $out/workbench.png and $out/workbench-display.png"
+# closes. One picture per crater-sheet page worth showing; the first also gets a grab of the
+# whole virtual display, for comparison.
+shot() {
+  local name=$1 sheet=$2 grab=${3:-}
+  XDG_DATA_HOME=$settings DISPLAY=$display LIBGL_ALWAYS_SOFTWARE=1 timeout 300 "$bin" "$file" \
+    --select-rank 1 --sheet "$sheet" --size 1600x1000 --timing --screenshot "$out/$name.png" &
+  local app=$!
+  if [[ -n "$grab" ]]; then
+    sleep "${SCREENSHOT_GRAB_AFTER_S:-8}"
+    import -display "$display" -window root "$out/$grab.png" || true
+  fi
+  wait "$app"
+}
+shot workbench shape workbench-display
+shot workbench-sky sky
+echo "wrote $out/workbench.png, workbench-sky.png and workbench-display.png"

@@ -37,6 +37,17 @@ enum Command {
     /// Apply criteria to a survey: requirements, weighted ranking, robustness, and exports
     /// (GeoJSON, CSV, GeoPackage).
     Rank(commands::rank::Args),
+    /// Open the desktop workbench: a DEM, survey, study or criteria file, or the demo terrain.
+    Workbench {
+        /// File to open; default: the demo terrain (its stored survey if present).
+        file: Option<PathBuf>,
+        /// Select the candidate of this rank once ranked.
+        #[arg(long, value_name = "N")]
+        select_rank: Option<u32>,
+        /// Write a PNG of the window once it is ready, then close.
+        #[arg(long, value_name = "PNG")]
+        screenshot: Option<PathBuf>,
+    },
     /// Combine the outputs of `survey --shard K/N` into one survey file.
     Merge {
         /// Every shard's survey file, in any order.
@@ -58,6 +69,7 @@ fn main() -> ExitCode {
         Command::Survey(a) => commands::survey::run(a),
         Command::Site(a) => commands::site::run(a),
         Command::Rank(a) => commands::rank::run(a),
+        Command::Workbench { file, select_rank, screenshot } => commands::workbench(file, select_rank, screenshot),
         Command::Merge { parts, out } => commands::merge(&parts, &out),
     };
     match result {

@@ -25,9 +25,9 @@ use visibility::{SiteVisibility, VisibilityOptions};
 /// Measurement reaches 2.5 crater radii from the centre (profiles and the plain around the rim).
 const MEASURE_REACH_RADII: f64 = 2.5;
 /// Working memory per pixel of a tile window in flight: heights, filled copy, pyramid levels,
-/// symmetry votes and per-crater patches, with room to spare (measured peak over the demo
-/// survey divided by window pixels, rounded up).
-const BYTES_PER_WINDOW_PX: usize = 48;
+/// symmetry votes and per-crater patches. Measured: the default demo survey (one 3670 px
+/// window with its halo) peaks at 787 MB resident, 58 bytes per window pixel; rounded up.
+const BYTES_PER_WINDOW_PX: usize = 64;
 
 /// What to survey and how.
 #[derive(Clone, Debug)]

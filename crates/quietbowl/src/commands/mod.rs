@@ -28,6 +28,30 @@ pub fn merge(parts: &[std::path::PathBuf], out: &Path) -> anyhow::Result<()> {
     Ok(())
 }
 
+/// The bundled demo: its stored survey when present (opens at once), else the terrain.
+fn demo_file() -> std::path::PathBuf {
+    let survey = Path::new("demo-terrain/farside-patch.survey.json");
+    if survey.exists() {
+        survey.to_path_buf()
+    } else {
+        Path::new("demo-terrain/farside-patch.tif").to_path_buf()
+    }
+}
+
+pub fn workbench(file: Option<std::path::PathBuf>, select_rank: Option<u32>, screenshot: Option<std::path::PathBuf>) -> anyhow::Result<()> {
+    let open = file.unwrap_or_else(demo_file);
+    if !open.exists() {
+        anyhow::bail!("{} does not exist (run from the repository root for the demo, or name a file)", open.display());
+    }
+    workbench::run(workbench::WorkbenchOptions {
+        open: Some(open),
+        select_rank: select_rank.or(Some(1)),
+        screenshot_to: screenshot,
+        ..Default::default()
+    })
+    .context("running the workbench (it needs a display; under no display use `quietbowl survey` and `rank`)")
+}
+
 /// Fail before long work if `out` cannot be written: create and remove a probe file beside it.
 pub fn ensure_writable(out: &Path) -> anyhow::Result<()> {
     let dir = match out.parent() {

@@ -1,0 +1,44 @@
+//! Open the workbench without the main binary (screenshots, development):
+//! `workbench [FILE] [--select-rank N] [--sheet shape|sky|robustness|numbers|notes] [--screenshot OUT.png] [--size WxH] [--timing]`
+
+use quietbowl_workbench::{run, WorkbenchOptions};
+use std::path::PathBuf;
+
+fn main() {
+    let mut options = WorkbenchOptions::default();
+    let mut args = std::env::args().skip(1);
+    while let Some(a) = args.next() {
+        match a.as_str() {
+            "--select-rank" => options.select_rank = args.next().and_then(|v| v.parse().ok()),
+            "--screenshot" => options.screenshot_to = args.next().map(PathBuf::from),
+            "--timing" => options.report_first_frame = true,
+            "--sheet" => {
+                use quietbowl_workbench::crater_sheet::SheetTab;
+                options.sheet_tab = match args.next().as_deref() {
+                    Some("sky") => Some(SheetTab::Sky),
+                    Some("robustness") => Some(SheetTab::Robustness),
+                    Some("numbers") => Some(SheetTab::Numbers),
+                    Some("notes") => Some(SheetTab::Notes),
+                    _ => Some(SheetTab::Shape),
+                }
+            }
+            "--size" => {
+                options.window_size = args.next().and_then(|v| {
+                    let (w, h) = v.split_once('x')?;
+                    Some([w.parse().ok()?, h.parse().ok()?])
+                })
+            }
+            _ => options.open = Some(PathBuf::from(a)),
+        }
+    }
+    if options.open.is_none() {
+        options.demo_dem = Some(PathBuf::from(concat!(
+            env!("CARGO_MANIFEST_DIR"),
+            "/../../demo-terrain/farside-patch.tif"
+        )));
+    }
+    if let Err(e) = run(options) {
+        eprintln!("workbench: {e}");
+        std::process::exit(1);
+    }
+}

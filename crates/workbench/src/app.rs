@@ -1,0 +1,446 @@
+//! The workbench window: menus, panels, background work and file handling around a [`Session`].
+
+use crate::crater_sheet::CraterSheet;
+use crate::criteria_panel::{CriteriaPanel, CriteriaRequest};
+use crate::export_dialog::{ExportDialog, ExportFormat, ExportRequest};
+use crate::job::{self, Job, JobOutcome};
+use crate::map::MapView;
+use crate::open_dialog::{PathPrompt, PromptPurpose};
+use crate::pyramid::TerrainLayer;
+use crate::session::Session;
+use crate::table::CandidateTable;
+use crate::SCREENING_CAUTION;
+use egui::{Color32, RichText};
+use std::path::{Path, PathBuf};
+use std::sync::Arc;
+use terrain::{Dem, GridGeometry, MapProjection};
+
+/// Key under which the app keeps its own settings in eframe's storage.
+const STORAGE_KEY: &str = "quietbowl-workbench";
+
+#[derive(Default, serde::Serialize, serde::Deserialize)]
+struct Remembered {
+    last_dir: Option<PathBuf>,
+}
+
+pub struct WorkbenchApp {
+    pub session: Session,
+    pub map: MapView,
+    pub table: CandidateTable,
+    pub criteria: CriteriaPanel,
+    pub sheet: CraterSheet,
+    pub export: ExportDialog,
+    pub terrain: Option<TerrainLayer>,
+    /// Frame of reference for candidates when no DEM is open, with the survey it was made for.
+    fallback_frame: Option<(usize, Arc<GridGeometry>)>,
+    pub job: Option<Job>,
+    prompt: Option<PathPrompt>,
+    pub status: String,
+    remembered: Remembered,
+    /// Select this rank once a survey is ranked (start-up option).
+    pub select_rank_on_load: Option<u32>,
+    /// A study read from disk, adopted at the start of the next frame (needs the context).
+    pending_study: Option<(siting::Study, PathBuf)>,
+    /// Runs a survey when a DEM without one is opened (wired in by the binary).
+    pub survey_runner: Option<job::SurveyRunner>,
+}
+
+impl WorkbenchApp {
+    pub fn new(session: Session) -> Self {
+        WorkbenchApp {
+            session,
+            map: MapView::default(),
+            table: CandidateTable::default(),
+            criteria: CriteriaPanel::default(),
+            sheet: CraterSheet::default(),
+            export: ExportDialog::default(),
+            terrain: None,
+            fallback_frame: None,
+            job: None,
+            prompt: None,
+            status: String::new(),
+            remembered: Remembered::default(),
+            select_rank_on_load: None,
+            pending_study: None,
+            survey_runner: None,
+        }
+    }
+
+    pub fn restore(&mut self, storage: Option<&dyn eframe::Storage>) {
+        if let Some(r) = storage.and_then(|s| eframe::get_value::<Remembered>(s, STORAGE_KEY)) {
+            self.remembered = r;
+        }
+    }
+
+    /// Open any file the workbench understands, judged by its extension.
+    pub fn open_path(&mut self, ctx: &egui::Context, path: &Path) {
+        self.remembered.last_dir = path.parent().map(Path::to_path_buf);
+        let ext = path
+            .extension()
+            .and_then(|e| e.to_str())
+            .unwrap_or("")
+            .to_lowercase();
+        match ext.as_str() {
+            "json" if looks_like_study(path) => self.open_study(path),
+            "json" => {
+                self.job = Some(job::load_survey(path.to_path_buf(), ctx));
+            }
+            "toml" => self.load_criteria(path),
+            _ => {
+                // A new terrain starts a new survey; criteria and decisions stay.
+                self.session.survey = None;
+                self.session.prepared = None;
+                self.session.ranking = Default::default();
+                self.session.selected = None;
+                self.terrain = None;
+                self.open_dem(ctx, path, true);
+            }
+        }
+    }
+
+    /// Open a DEM for the terrain view; with `survey_it`, also read the survey saved beside it
+    /// or, failing that, run one in the background.
+    pub fn open_dem(&mut self, ctx: &egui::Context, path: &Path, survey_it: bool) {
+        match Dem::open(path, &Default::default()) {
+            Ok(dem) => {
+                self.terrain = Some(TerrainLayer::new(Arc::new(dem), ctx));
+                self.map.refit();
+                self.status = format!("Opened {}", path.display());
+                // A survey saved beside the DEM is read with it.
+                let beside = path.with_extension("survey.json");
+                if survey_it {
+                    if beside.exists() {
+                        self.job = Some(job::load_survey(beside, ctx));
+                    } else if let Some(runner) = self.survey_runner.clone() {
+                        self.job = Some(job::run_survey(runner, path.to_path_buf(), ctx));
+                    } else {
+                        self.status = format!(
+                            "Opened {}; no survey of it yet (open one from File).",
+                            path.display()
+                        );
+                    }
+                }
+            }
+            Err(e) => self.status = format!("Could not open {}: {e}", path.display()),
+        }
+    }
+
+    fn open_study(&mut self, path: &Path) {
+        match siting::Study::open(path) {
+            Ok(study) => {
+                self.pending_study = Some((study, path.to_path_buf()));
+                self.status = format!("Opened study {}", path.display());
+            }
+            Err(e) => self.status = format!("Could not open the study {}: {e}", path.display()),
+        }
+    }
+
+    fn load_criteria(&mut self, path: &Path) {
+        match std::fs::read_to_string(path)
+            .map_err(|e| e.to_string())
+            .and_then(|t| crate::engine::Criteria::parse(&t).map_err(|e| e.to_string()))
+        {
+            Ok(c) => {
+                self.session.criteria_baseline = c;
+                let baseline = self.session.criteria_baseline.clone();
+                crate::criteria_panel::apply(&mut self.session, baseline);
+                self.status = format!("Criteria read from {}", path.display());
+            }
+            Err(e) => self.status = format!("Could not read criteria from {}: {e}", path.display()),
+        }
+    }
+
+    /// Adopt a survey: rank it, find its DEM if none is open, select the requested rank.
+    pub fn adopt_survey(
+        &mut self,
+        ctx: &egui::Context,
+        survey: survey::SurveyFile,
+        path: Option<PathBuf>,
+    ) {
+        let dem_path = PathBuf::from(&survey.input.path);
+        self.status = format!("{} candidates", survey.candidates.len());
+        self.session.set_survey(survey, path);
+        self.after_survey(ctx, Some(dem_path));
+    }
+
+    /// Find the survey's DEM if none is open, frame the map, select the requested rank.
+    fn after_survey(&mut self, ctx: &egui::Context, dem_path: Option<PathBuf>) {
+        let base = self
+            .session
+            .survey_path
+            .as_ref()
+            .and_then(|p| p.parent())
+            .map(Path::to_path_buf);
+        let dem_path = dem_path.map(|d| {
+            if d.is_relative() {
+                base.map(|b| b.join(&d)).unwrap_or(d)
+            } else {
+                d
+            }
+        });
+        if let Some(dem_path) = dem_path.filter(|d| self.terrain.is_none() && d.exists()) {
+            self.open_dem(ctx, &dem_path, false);
+        }
+        self.map.refit();
+        if let Some(rank) = self.select_rank_on_load.take() {
+            let idx = self.session.index_of_rank(rank);
+            self.session.select(idx, false);
+        }
+    }
+
+    fn poll_job(&mut self, ctx: &egui::Context) {
+        let Some(outcome) = self.job.as_ref().and_then(Job::try_finish) else {
+            return;
+        };
+        self.job = None;
+        match outcome {
+            JobOutcome::Survey { survey, path } => self.adopt_survey(ctx, survey, path),
+            JobOutcome::Failed(e) => self.status = e,
+            JobOutcome::Cancelled => self.status = "Cancelled.".into(),
+        }
+    }
+
+    fn frame(&mut self) -> Option<Arc<GridGeometry>> {
+        if let Some(t) = &self.terrain {
+            return Some(t.geometry());
+        }
+        let survey = self.session.survey.as_ref()?;
+        let key = Arc::as_ptr(survey) as usize;
+        if self.fallback_frame.as_ref().map(|f| f.0) != Some(key) {
+            self.fallback_frame = frame_around_candidates(survey).map(|g| (key, g));
+        }
+        self.fallback_frame.as_ref().map(|f| f.1.clone())
+    }
+
+    fn handle_prompt(&mut self, ctx: &egui::Context) {
+        let Some(prompt) = &mut self.prompt else {
+            return;
+        };
+        let Some(answer) = prompt.ui(ctx) else { return };
+        let purpose = prompt.purpose;
+        self.prompt = None;
+        let Some(path) = answer else { return };
+        match purpose {
+            PromptPurpose::Open => self.open_path(ctx, &path),
+            PromptPurpose::LoadCriteria => self.load_criteria(&path),
+            PromptPurpose::SaveCriteria => {
+                self.status =
+                    match crate::write_atomically(&path, self.session.criteria.to_toml().as_bytes())
+                    {
+                        Ok(()) => format!("Criteria saved to {}", path.display()),
+                        Err(e) => format!("Could not save criteria: {e}"),
+                    }
+            }
+            PromptPurpose::SaveStudy => {
+                self.status = match self.session.to_study().map(|s| s.save(&path)) {
+                    Some(Ok(())) => format!("Study saved to {}", path.display()),
+                    Some(Err(e)) => format!("Could not save the study: {e}"),
+                    None => "Nothing to save yet: no survey.".into(),
+                }
+            }
+        }
+    }
+
+    fn start_dir(&self) -> PathBuf {
+        self.remembered
+            .last_dir
+            .clone()
+            .or_else(|| std::env::current_dir().ok())
+            .unwrap_or_default()
+    }
+
+    fn handle_export(&mut self, ctx: &egui::Context, req: ExportRequest) {
+        match req.format {
+            ExportFormat::MapPicture => {
+                let Some(rect) = self.map.last_rect else {
+                    return;
+                };
+                let path = req.path.clone();
+                let ppp = ctx.pixels_per_point();
+                ctx.request_screenshot(move |image| {
+                    let region = image.region(&rect, Some(ppp));
+                    let _ = crate::save_png(&path, &region);
+                });
+                self.export.status = Some(Ok(format!("Picture written to {}", req.path.display())));
+            }
+            _ => {
+                self.export.status = Some(crate::engine::export(&self.session, &req));
+            }
+        }
+    }
+
+    /// The whole window. Panels are laid out outside-in; the criteria panel comes first so a
+    /// weight change re-ranks before the list and the map are drawn in the same frame.
+    pub fn ui(&mut self, ui: &mut egui::Ui) {
+        let ctx = ui.ctx().clone();
+        self.poll_job(&ctx);
+        if let Some((study, path)) = self.pending_study.take() {
+            let dem = PathBuf::from(&study.dem_path);
+            self.session.adopt_study(study, Some(path));
+            self.after_survey(&ctx, Some(dem));
+        }
+        if let Some(t) = &mut self.terrain {
+            t.poll(&ctx);
+        }
+        let dropped: Vec<PathBuf> = ctx.input(|i| {
+            i.raw
+                .dropped_files
+                .iter()
+                .map(|f| f.path().to_path_buf())
+                .filter(|p| !p.as_os_str().is_empty())
+                .collect()
+        });
+        for p in dropped {
+            self.open_path(&ctx, &p);
+        }
+
+        egui::Panel::top("menu").show(ui, |ui| {
+            egui::MenuBar::new().ui(ui, |ui| {
+                ui.menu_button("File", |ui| {
+                    if ui.button("Open…").clicked() {
+                        self.prompt = Some(PathPrompt::new(PromptPurpose::Open, &self.start_dir()));
+                    }
+                    if ui.button("Save study…").clicked() {
+                        self.prompt = Some(PathPrompt::new(
+                            PromptPurpose::SaveStudy,
+                            &self.start_dir().join("study.json"),
+                        ));
+                    }
+                    if ui.button("Export shortlist…").clicked() {
+                        self.export.open = true;
+                    }
+                    ui.separator();
+                    if ui.button("Quit").clicked() {
+                        ctx.send_viewport_cmd(egui::ViewportCommand::Close);
+                    }
+                });
+                ui.menu_button("View", |ui| {
+                    if ui.button("Fit terrain to window").clicked() {
+                        self.map.refit();
+                    }
+                });
+            });
+        });
+        egui::Panel::bottom("status").show(ui, |ui| {
+            ui.horizontal(|ui| {
+                if let Some(job) = &self.job {
+                    ui.add(
+                        egui::ProgressBar::new(job.progress())
+                            .desired_width(200.0)
+                            .text(job.title.clone()),
+                    );
+                    if ui.button("Cancel").clicked() {
+                        job.cancel();
+                    }
+                } else if self.terrain.as_ref().is_some_and(TerrainLayer::is_loading) {
+                    ui.spinner();
+                    ui.label("Shading terrain…");
+                }
+                ui.label(&self.status);
+            });
+            ui.label(
+                RichText::new(SCREENING_CAUTION)
+                    .small()
+                    .color(Color32::from_rgb(230, 200, 120)),
+            );
+        });
+        egui::Panel::left("criteria")
+            .resizable(true)
+            .default_size(320.0)
+            .show(ui, |ui| {
+                self.criteria.ui(ui, &mut self.session);
+            });
+        match self.criteria.request.take() {
+            Some(CriteriaRequest::Save) => {
+                self.prompt = Some(PathPrompt::new(
+                    PromptPurpose::SaveCriteria,
+                    &self.start_dir().join("criteria.toml"),
+                ))
+            }
+            Some(CriteriaRequest::Load) => {
+                self.prompt = Some(PathPrompt::new(
+                    PromptPurpose::LoadCriteria,
+                    &self.start_dir(),
+                ))
+            }
+            None => {}
+        }
+        egui::Panel::right("sheet")
+            .resizable(true)
+            .default_size(440.0)
+            .show(ui, |ui| {
+                let dem = self.terrain.as_ref().map(|t| t.dem.clone());
+                self.sheet.ui(ui, &mut self.session, dem.as_ref());
+            });
+        egui::Panel::bottom("table")
+            .resizable(true)
+            .default_size(300.0)
+            .min_size(120.0)
+            .show(ui, |ui| {
+                // Fill the panel so it keeps its size instead of shrinking to the rows it shows.
+                ui.set_min_height(ui.available_height());
+                self.table.ui(ui, &mut self.session);
+            });
+        egui::CentralPanel::default().show(ui, |ui| {
+            let frame = self.frame();
+            self.map
+                .ui(ui, &mut self.session, self.terrain.as_mut(), frame);
+        });
+        self.handle_prompt(&ctx);
+        if let Some(req) = self.export.ui(&ctx) {
+            self.handle_export(&ctx, req);
+        }
+    }
+}
+
+impl eframe::App for WorkbenchApp {
+    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
+        WorkbenchApp::ui(self, ui);
+    }
+
+    fn save(&mut self, storage: &mut dyn eframe::Storage) {
+        eframe::set_value(storage, STORAGE_KEY, &self.remembered);
+    }
+}
+
+/// A study file names its format near the top; a survey file does not.
+fn looks_like_study(path: &Path) -> bool {
+    use std::io::Read;
+    let mut head = [0u8; 512];
+    let n = std::fs::File::open(path)
+        .and_then(|mut f| f.read(&mut head))
+        .unwrap_or(0);
+    String::from_utf8_lossy(&head[..n]).contains(siting::study::STUDY_FORMAT)
+}
+
+/// A geographic frame a little larger than the candidates' extent, for surveys opened
+/// without their DEM.
+fn frame_around_candidates(survey: &survey::SurveyFile) -> Option<Arc<GridGeometry>> {
+    let c = &survey.candidates;
+    if c.is_empty() {
+        return None;
+    }
+    let (mut lo_lon, mut hi_lon, mut lo_lat, mut hi_lat) = (
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+    );
+    for m in c.iter().map(|c| &c.crater) {
+        lo_lon = lo_lon.min(m.centre_lon_deg);
+        hi_lon = hi_lon.max(m.centre_lon_deg);
+        lo_lat = lo_lat.min(m.centre_lat_deg);
+        hi_lat = hi_lat.max(m.centre_lat_deg);
+    }
+    let pad = 0.05 * (hi_lon - lo_lon).max(hi_lat - lo_lat).max(0.1);
+    let step = ((hi_lon - lo_lon).max(hi_lat - lo_lat) + 2.0 * pad) / 4000.0;
+    let width = ((hi_lon - lo_lon + 2.0 * pad) / step).ceil() as usize;
+    let height = ((hi_lat - lo_lat + 2.0 * pad) / step).ceil() as usize;
+    Some(Arc::new(GridGeometry {
+        width,
+        height,
+        geotransform: [lo_lon - pad, step, 0.0, hi_lat + pad, 0.0, -step],
+        projection: MapProjection::Geographic,
+        body_radius_m: survey.input.body_radius_m,
+    }))
+}
