@@ -37,31 +37,6 @@ pub struct Args {
     date: Option<String>,
 }
 
-/// Civil date (UTC) of a Unix time, by Hinnant's days-from-civil inverse
-/// (H. Hinnant, "chrono-Compatible Low-Level Date Algorithms", 2013).
-fn civil_date(unix_s: i64) -> String {
-    let z = unix_s.div_euclid(86_400) + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02}")
-}
-
-fn export_date(given: Option<String>) -> String {
-    if let Some(d) = given {
-        return d;
-    }
-    let now = std::env::var("SOURCE_DATE_EPOCH").ok().and_then(|s| s.parse::<i64>().ok()).unwrap_or_else(|| {
-        std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_secs() as i64).unwrap_or(0)
-    });
-    civil_date(now)
-}
-
 pub fn run(a: Args) -> anyhow::Result<()> {
     for out in [&a.geojson, &a.csv, &a.gpkg].into_iter().flatten() {
         super::ensure_writable(out).context("writing the exports")?;
@@ -83,7 +58,7 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     let ranking = siting::rank(&table, &criteria).context("ranking")?;
     let smaa = if a.no_robustness { None } else { Some(siting::smaa(&table, &criteria).context("robustness analysis")?) };
     println!("{}", siting::table::render_table(&survey, &table, &ranking, smaa.as_ref(), a.top).trim_end());
-    let provenance = Provenance::new(&survey, criteria_text, export_date(a.date));
+    let provenance = Provenance::new(&survey, criteria_text, a.date.unwrap_or_else(siting::export::date::today));
     let set = ExportSet {
         survey: &survey,
         criteria: &criteria,
@@ -106,15 +81,4 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         eprintln!("wrote {}", p.display());
     }
     Ok(())
-}
-
-#[cfg(test)]
-mod tests {
-    #[test]
-    fn civil_date_matches_known_days() {
-        // 2000-03-01 is day 11017 of the Unix epoch; 1970-01-01 is 0 (proleptic Gregorian).
-        assert_eq!(super::civil_date(0), "1970-01-01");
-        assert_eq!(super::civil_date(11_017 * 86_400), "2000-03-01");
-        assert_eq!(super::civil_date(951_782_400), "2000-02-29");
-    }
 }

@@ -3,6 +3,7 @@
 //! written atomically; the same inputs give byte-identical files.
 
 pub mod csv;
+pub mod date;
 pub mod geojson;
 pub mod gpkg;
 pub mod rim;
