@@ -92,10 +92,11 @@ pub struct DemInfo {
     pub crosses_180: bool,
 }
 
-/// An open DEM: read windows of heights from it. Safe to share between threads; reads are
-/// serialised on one GDAL handle.
+/// An open DEM: read windows of heights from it. Safe to share between threads: a GDAL handle
+/// serves one reader at a time, so each concurrent reader takes an idle handle from a small pool
+/// (opening another when none is idle), and reads of different tiles decode in parallel.
 pub struct Dem {
-    dataset: Mutex<Dataset>,
+    idle_handles: Mutex<Vec<Dataset>>,
     info: DemInfo,
     geometry: Arc<GridGeometry>,
 }
@@ -214,7 +215,7 @@ impl Dem {
             lat_range_deg,
             crosses_180,
         };
-        Ok(Dem { dataset: Mutex::new(ds), info, geometry: Arc::new(geometry) })
+        Ok(Dem { idle_handles: Mutex::new(vec![ds]), info, geometry: Arc::new(geometry) })
     }
 
     pub fn info(&self) -> &DemInfo {
@@ -252,10 +253,11 @@ impl Dem {
         let (iw, ih) = ((c1 - c0) as usize, (r1 - r0) as usize);
         let mut raw = vec![0f64; iw * ih];
         {
-            let ds = self.dataset.lock().unwrap_or_else(|p| p.into_inner());
-            let band = ds.rasterband(1).map_err(|e| self.read_err(c0, r0, iw, ih, e))?;
-            band.read_into_slice::<f64>((c0, r0), (iw, ih), (iw, ih), &mut raw, None)
-                .map_err(|e| self.read_err(c0, r0, iw, ih, e))?;
+            self.with_handle(|ds| {
+                let band = ds.rasterband(1)?;
+                band.read_into_slice::<f64>((c0, r0), (iw, ih), (iw, ih), &mut raw, None)
+            })
+            .map_err(|e| self.read_err(c0, r0, iw, ih, e))?;
         }
         let mut heights_m = vec![f32::NAN; width * height];
         let nodata = self.info.nodata;
@@ -291,10 +293,11 @@ impl Dem {
         let (ow, oh) = (iw.div_ceil(factor), ih.div_ceil(factor));
         let mut raw = vec![0f64; ow * oh];
         {
-            let ds = self.dataset.lock().unwrap_or_else(|p| p.into_inner());
-            let band = ds.rasterband(1).map_err(|e| self.read_err(col as isize, row as isize, iw, ih, e))?;
-            band.read_into_slice::<f64>((col as isize, row as isize), (iw, ih), (ow, oh), &mut raw, Some(gdal::raster::ResampleAlg::Average))
-                .map_err(|e| self.read_err(col as isize, row as isize, iw, ih, e))?;
+            self.with_handle(|ds| {
+                let band = ds.rasterband(1)?;
+                band.read_into_slice::<f64>((col as isize, row as isize), (iw, ih), (ow, oh), &mut raw, Some(gdal::raster::ResampleAlg::Average))
+            })
+            .map_err(|e| self.read_err(col as isize, row as isize, iw, ih, e))?;
         }
         let nodata = self.info.nodata;
         let conv = &self.info.height_convention;
@@ -325,6 +328,18 @@ impl Dem {
     /// Read the whole raster. Only for rasters known to be small (demo terrain, tests).
     pub fn read_all(&self) -> Result<ElevationGrid, TerrainError> {
         self.read_window(0, 0, self.info.width, self.info.height)
+    }
+
+    /// Run `f` on an idle GDAL handle of this file, opening one more if all are busy.
+    fn with_handle<T>(&self, f: impl FnOnce(&Dataset) -> gdal::errors::Result<T>) -> gdal::errors::Result<T> {
+        let idle = self.idle_handles.lock().unwrap_or_else(|p| p.into_inner()).pop();
+        let ds = match idle {
+            Some(ds) => ds,
+            None => Dataset::open(&self.info.path)?,
+        };
+        let result = f(&ds);
+        self.idle_handles.lock().unwrap_or_else(|p| p.into_inner()).push(ds);
+        result
     }
 
     fn read_err(&self, col: isize, row: isize, width: usize, height: usize, e: gdal::errors::GdalError) -> TerrainError {
