@@ -47,4 +47,5 @@ shot() {
 }
 shot workbench shape workbench-display
 shot workbench-sky sky
-echo "wrote $out/workbench.png, workbench-sky.png and workbench-display.png"
+shot workbench-fit reflector
+echo "wrote $out/workbench.png, workbench-sky.png, workbench-fit.png and workbench-display.png"

@@ -1,5 +1,5 @@
 //! Open the workbench without the main binary (screenshots, development):
-//! `workbench [FILE] [--select-rank N] [--sheet shape|sky|robustness|numbers|notes] [--screenshot OUT.png] [--size WxH] [--timing]`
+//! `workbench [FILE] [--select-rank N] [--sheet shape|sky|reflector|robustness|numbers|notes] [--screenshot OUT.png] [--size WxH] [--timing]`
 
 use quietbowl_workbench::{run, WorkbenchOptions};
 use std::path::PathBuf;
@@ -16,6 +16,7 @@ fn main() {
                 use quietbowl_workbench::crater_sheet::SheetTab;
                 options.sheet_tab = match args.next().as_deref() {
                     Some("sky") => Some(SheetTab::Sky),
+                    Some("reflector") => Some(SheetTab::Fit),
                     Some("robustness") => Some(SheetTab::Robustness),
                     Some("numbers") => Some(SheetTab::Numbers),
                     Some("notes") => Some(SheetTab::Notes),

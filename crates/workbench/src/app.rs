@@ -171,12 +171,21 @@ impl WorkbenchApp {
             .as_ref()
             .and_then(|p| p.parent())
             .map(Path::to_path_buf);
-        let dem_path = dem_path.map(|d| {
-            if d.is_relative() {
-                base.map(|b| b.join(&d)).unwrap_or(d)
-            } else {
-                d
+        // A relative DEM path is tried beside the survey, then from the working folder (where
+        // the survey was run), then by its file name beside the survey.
+        let dem_path = dem_path.and_then(|d| {
+            if d.is_absolute() {
+                return Some(d);
             }
+            let mut tries = vec![];
+            if let Some(b) = &base {
+                tries.push(b.join(&d));
+            }
+            tries.push(d.clone());
+            if let (Some(b), Some(name)) = (&base, d.file_name()) {
+                tries.push(b.join(name));
+            }
+            tries.into_iter().find(|p| p.exists())
         });
         if let Some(dem_path) = dem_path.filter(|d| self.terrain.is_none() && d.exists()) {
             self.open_dem(ctx, &dem_path, false);
@@ -317,6 +326,13 @@ impl WorkbenchApp {
                 ui.menu_button("View", |ui| {
                     if ui.button("Fit terrain to window").clicked() {
                         self.map.refit();
+                    }
+                    let mut show = !self.map.hide_placed_reflector;
+                    if ui
+                        .checkbox(&mut show, "Placed reflector of the selected crater")
+                        .changed()
+                    {
+                        self.map.hide_placed_reflector = !show;
                     }
                 });
             });

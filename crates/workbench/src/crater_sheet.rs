@@ -19,6 +19,7 @@ pub enum SheetTab {
     #[default]
     Shape,
     Sky,
+    Fit,
     Robustness,
     Numbers,
     Notes,
@@ -31,6 +32,7 @@ pub struct CraterSheet {
     smaa_run: Option<SmaaRun>,
     smaa_error: Option<String>,
     sky: crate::sky_view::SkyView,
+    fit: crate::fit_view::FitView,
 }
 
 impl CraterSheet {
@@ -101,6 +103,7 @@ impl CraterSheet {
             for (tab, name) in [
                 (SheetTab::Shape, "Shape"),
                 (SheetTab::Sky, "Earth and sky"),
+                (SheetTab::Fit, "Reflector"),
                 (SheetTab::Robustness, "Robustness"),
                 (SheetTab::Numbers, "All numbers"),
                 (SheetTab::Notes, "Notes"),
@@ -136,6 +139,13 @@ impl CraterSheet {
                     None => { ui.label("No visibility figures in this survey."); }
                 }
                 self.sky.ui(ui, index, m.centre_lon_deg, m.centre_lat_deg, dem);
+            }
+            SheetTab::Fit => {
+                let survey = session.survey.clone();
+                let spec = survey.as_ref().and_then(|s| s.parameters.structure.as_ref());
+                let radius_m = survey.as_ref().map_or(terrain::MOON_RADIUS_M, |s| s.input.body_radius_m);
+                let key = survey.as_ref().map_or(0, |s| Arc::as_ptr(s) as usize);
+                self.fit.ui(ui, &c, spec, radius_m, key, dem);
             }
             SheetTab::Robustness => self.smaa_ui(ui, session, index),
             SheetTab::Numbers => {

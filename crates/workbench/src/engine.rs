@@ -112,25 +112,6 @@ impl SmaaRun {
     }
 }
 
-/// Today's date (UTC) as ISO 8601, for export provenance.
-fn today_iso() -> String {
-    let days = std::time::SystemTime::now()
-        .duration_since(std::time::UNIX_EPOCH)
-        .map(|d| d.as_secs() / 86_400)
-        .unwrap_or(0) as i64;
-    // Civil-from-days (proleptic Gregorian), as in H. Hinnant's date algorithms.
-    let z = days + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02}")
-}
-
 /// Write the shortlist through `siting`'s exporters.
 pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<String, String> {
     let (Some(survey), Some(table), Some(full)) =
@@ -138,7 +119,7 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
     else {
         return Err("Nothing to export: no ranked survey.".into());
     };
-    let provenance = siting::Provenance::new(survey, session.criteria.to_toml(), today_iso());
+    let provenance = siting::Provenance::new(survey, session.criteria.to_toml(), siting::export::date::today());
     let limit = req.passing_only.then(|| session.ranking.passing_count());
     let smaa = session
         .smaa

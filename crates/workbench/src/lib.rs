@@ -11,6 +11,8 @@ pub mod crater_sheet;
 pub mod criteria_panel;
 pub mod engine;
 pub mod export_dialog;
+pub mod fit_plan;
+pub mod fit_view;
 pub mod job;
 pub mod map;
 pub mod marks;

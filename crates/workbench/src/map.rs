@@ -25,6 +25,8 @@ pub struct MapView {
     /// Where the view was drawn last frame, for picture export.
     pub last_rect: Option<Rect>,
     last_frame: Option<Arc<GridGeometry>>,
+    /// Leave out the selected candidate's placed reflector (View menu; drawn by default).
+    pub hide_placed_reflector: bool,
 }
 
 impl MapView {
@@ -171,6 +173,9 @@ impl MapView {
             &view,
             pointer,
         );
+        if !self.hide_placed_reflector {
+            self.draw_placed_reflector(&painter.with_clip_rect(rect), session, &geom, rect);
+        }
         if let Some(i) = self.hovered {
             let resp = response.clone();
             resp.on_hover_ui_at_pointer(|ui| hover_card(ui, session, i));
@@ -186,6 +191,25 @@ impl MapView {
         self.scale_bar(&painter, rect, &geom);
         response
             .widget_info(|| egui::WidgetInfo::labeled(egui::Role::Canvas, true, "Terrain view"));
+    }
+
+    /// The selected candidate's aperture edge and rim anchors, as the survey's fit placed them.
+    fn draw_placed_reflector(&self, painter: &egui::Painter, session: &Session, geom: &GridGeometry, rect: Rect) {
+        let Some(fit) = session.selected.and_then(|i| session.candidate(i)).and_then(|c| c.fit.as_ref()) else {
+            return;
+        };
+        let at = |lon: f64, lat: f64| {
+            geom.lonlat_to_pixel(lon, lat).map(|(c, r)| self.to_screen(rect, [c, r]))
+        };
+        let ring: Vec<Pos2> = fit.aperture_outline_lonlat.iter().filter_map(|&(lon, lat)| at(lon, lat)).collect();
+        let colour = if fit.fit_ok { Color32::WHITE } else { Color32::from_rgb(240, 140, 120) };
+        painter.add(egui::Shape::line(ring, Stroke::new(1.5, colour)));
+        for a in &fit.anchors {
+            if let Some(p) = at(a.lon_deg, a.lat_deg) {
+                painter.circle_filled(p, 3.0, Color32::from_rgb(255, 170, 40));
+                painter.circle_stroke(p, 3.0, Stroke::new(1.0, Color32::BLACK));
+            }
+        }
     }
 
     fn handle_input(&mut self, ui: &egui::Ui, response: &egui::Response, rect: Rect) {

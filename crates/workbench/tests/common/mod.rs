@@ -162,3 +162,91 @@ pub fn test_criteria() -> siting::Criteria {
         robustness: Default::default(),
     }
 }
+
+/// Reason given to the non-fitting candidate of [`survey_with_fits`].
+pub const FIT_FAILURE_REASON: &str = "anchor 2 would stand where no rim crest was traced";
+
+/// An invented placement of a 350 m dish centred at (lon, lat): six anchors 250 m out, a round
+/// aperture edge and a 12 x 12 clearance map rising from 12 m at the axis.
+pub fn invented_fit(lon: f64, lat: f64, fit_ok: bool) -> structure::StructureFit {
+    let frame = terrain::LocalFrame::new(1_737_400.0, lon, lat);
+    let ring = |r_m: f64, n: usize| -> Vec<(f64, f64)> {
+        (0..=n)
+            .map(|k| {
+                let a = (k % n) as f64 / n as f64 * std::f64::consts::TAU;
+                frame.to_lonlat(r_m * a.sin(), r_m * a.cos())
+            })
+            .collect()
+    };
+    let anchors = ring(250.0, 6)[..6]
+        .iter()
+        .enumerate()
+        .map(|(k, &(lon_deg, lat_deg))| structure::Anchor {
+            lon_deg,
+            lat_deg,
+            azimuth_deg: k as f64 * 60.0,
+            height_m: 50.0 + k as f64,
+            span_m: 80.0,
+            on_crest: fit_ok || k != 1,
+        })
+        .collect();
+    let size = 12;
+    let cell_m = 350.0 / size as f64;
+    let mut map = structure::ClearanceMap {
+        centre_lon_deg: lon,
+        centre_lat_deg: lat,
+        cell_m,
+        size,
+        values_m: vec![],
+    };
+    map.values_m = (0..size * size)
+        .map(|k| {
+            let (x, y) = map.cell_centre_xy_m(k % size, k / size);
+            let r = x.hypot(y);
+            if r <= 175.0 {
+                (12.0 + r / 10.0) as f32
+            } else {
+                f32::NAN
+            }
+        })
+        .collect();
+    structure::StructureFit {
+        fit_ok,
+        reasons: if fit_ok {
+            vec![]
+        } else {
+            vec![FIT_FAILURE_REASON.into()]
+        },
+        centre_lon_deg: lon,
+        centre_lat_deg: lat,
+        vertex_height_m: -40.0,
+        aperture_edge_height_m: 3.75,
+        min_clearance_m: 12.0,
+        min_clearance_lon_deg: lon,
+        min_clearance_lat_deg: lat,
+        headroom_m: 4.0,
+        anchor_height_spread_m: 5.0,
+        max_span_m: 80.0,
+        aperture_valid_fraction: 1.0,
+        anchors,
+        aperture_outline_lonlat: ring(175.0, 64),
+        clearance_map: map,
+        ..Default::default()
+    }
+}
+
+/// [`small_survey`] with the default structure: candidate 1 fits, candidate 2 does not
+/// (an anchor off the crest), the rest carry no fit.
+pub fn survey_with_fits() -> SurveyFile {
+    let mut s = small_survey();
+    s.parameters.structure = Some(structure::StructureSpec::default());
+    for c in &mut s.candidates {
+        let (lon, lat) = (c.crater.centre_lon_deg, c.crater.centre_lat_deg);
+        c.fit = match c.id {
+            1 => Some(invented_fit(lon, lat, true)),
+            2 => Some(invented_fit(lon, lat, false)),
+            _ => None,
+        };
+    }
+    s
+}

@@ -1,0 +1,62 @@
+//! The crater sheet's reflector page and the placed reflector on the map, driven through
+//! AccessKit (egui_kittest) on invented fits: what the page says, not the fits' truth.
+
+mod common;
+
+use egui_kittest::kittest::Queryable;
+use egui_kittest::Harness;
+use quietbowl_workbench::crater_sheet::SheetTab;
+use quietbowl_workbench::session::candidate_label;
+use quietbowl_workbench::{Session, WorkbenchApp};
+
+fn harness_on(id: u32, survey: survey::SurveyFile) -> Harness<'static, WorkbenchApp> {
+    let mut app = WorkbenchApp::new(Session::with_survey_and_criteria(
+        survey,
+        common::test_criteria(),
+    ));
+    app.sheet.tab = SheetTab::Fit;
+    let mut h = Harness::builder()
+        .with_size(egui::vec2(1600.0, 1000.0))
+        .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
+    h.get_by_label(&candidate_label(id)).click();
+    h.run_steps(8);
+    h
+}
+
+#[test]
+fn reflector_page_shows_the_verdict_and_each_failure_reason() {
+    let h = harness_on(2, common::survey_with_fits());
+    h.get_by_label("The reflector does not fit");
+    h.get_by_label_contains(common::FIT_FAILURE_REASON);
+    h.get_by_label_contains("350 m aperture, paraboloid, f/D 0.50, 6 anchors");
+    h.get_by_label("Reflector plan");
+}
+
+#[test]
+fn reflector_page_shows_a_fitting_candidate_with_its_numbers() {
+    let h = harness_on(1, common::survey_with_fits());
+    h.get_by_label("The reflector fits");
+    assert!(h.query_by_label("The reflector does not fit").is_none());
+    h.get_by_label_contains("12.0 m, on the axis");
+    h.get_by_label("Reflector plan");
+}
+
+#[test]
+fn reflector_page_says_why_there_is_no_fit() {
+    let h = harness_on(3, common::survey_with_fits());
+    h.get_by_label_contains("The crater could not be fitted");
+    let h = harness_on(3, common::small_survey());
+    h.get_by_label_contains("No structure in this survey");
+}
+
+#[test]
+fn view_menu_turns_the_placed_reflector_off_the_map() {
+    let mut h = harness_on(1, common::survey_with_fits());
+    assert!(!h.state().map.hide_placed_reflector, "drawn by default");
+    h.get_by_label("View").click();
+    h.run_steps(4);
+    h.get_by_label("Placed reflector of the selected crater")
+        .click();
+    h.run_steps(4);
+    assert!(h.state().map.hide_placed_reflector);
+}
