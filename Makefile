@@ -22,5 +22,9 @@ test: setup
 bench: setup
 	$(CARGO) bench --workspace
 
+# Workbench screenshots under Xvfb into docs/screenshots/.
+screenshot: build
+	@scripts/screenshot.sh
+
 demo-terrain: build
 	$(QB) make-demo-terrain --out demo-terrain
