@@ -333,20 +333,12 @@ fn bilinear(heights: &[f32], w: usize, h: usize, c: f64, r: f64) -> f64 {
 mod tests {
     use super::*;
     use std::sync::Arc;
-    use terrain::{ElevationGrid, GridGeometry, MapProjection};
+    use terrain::{ElevationGrid, GridGeometry};
 
     /// LOLA-like global grid (0.25 deg posts) whose heights are the column (or row) index, so
     /// a bilinear sample returns the position it was taken at.
     fn index_grid(by_col: bool) -> ElevationGrid {
-        let r = terrain::MOON_RADIUS_M;
-        let px = r * 0.25f64.to_radians();
-        let geometry = GridGeometry {
-            width: 1440,
-            height: 720,
-            geotransform: [-180f64.to_radians() * r, px, 0.0, 90f64.to_radians() * r, 0.0, -px],
-            projection: MapProjection::Equirectangular { lon0_deg: 180.0, lat_ts_deg: 0.0, false_easting_m: 0.0, false_northing_m: 0.0 },
-            body_radius_m: r,
-        };
+        let geometry = GridGeometry::global_simple_cylindrical(terrain::MOON_RADIUS_M, 4);
         let heights_m = (0..720 * 1440).map(|k| if by_col { (k % 1440) as f32 } else { (k / 1440) as f32 }).collect();
         ElevationGrid { geometry: Arc::new(geometry), col0: 0, row0: 0, width: 1440, height: 720, heights_m }
     }

@@ -141,19 +141,11 @@ impl<'g> LocalSampler<'g> {
 mod tests {
     use super::*;
     use std::sync::Arc;
-    use terrain::{GridGeometry, MapProjection};
+    use terrain::GridGeometry;
 
     /// LOLA-like global grid: 0.25 deg posts, equirectangular centred on 180.
     fn lola_like() -> ElevationGrid {
-        let r = terrain::MOON_RADIUS_M;
-        let px = r * 0.25f64.to_radians();
-        let geometry = GridGeometry {
-            width: 1440,
-            height: 720,
-            geotransform: [-180f64.to_radians() * r, px, 0.0, 90f64.to_radians() * r, 0.0, -px],
-            projection: MapProjection::Equirectangular { lon0_deg: 180.0, lat_ts_deg: 0.0, false_easting_m: 0.0, false_northing_m: 0.0 },
-            body_radius_m: r,
-        };
+        let geometry = GridGeometry::global_simple_cylindrical(terrain::MOON_RADIUS_M, 4);
         ElevationGrid { geometry: Arc::new(geometry), col0: 0, row0: 0, width: 1440, height: 720, heights_m: vec![0.0; 1440 * 720] }
     }
 

@@ -20,6 +20,19 @@ pub struct GridGeometry {
 }
 
 impl GridGeometry {
+    /// A global simple-cylindrical grid centred on longitude 180 (the layout of the LOLA
+    /// gridded products, e.g. LDEM_4 at 4 pixels per degree), pixel-registered, on a sphere.
+    pub fn global_simple_cylindrical(radius_m: f64, pixels_per_degree: usize) -> GridGeometry {
+        let px = radius_m * (1.0 / pixels_per_degree as f64).to_radians();
+        GridGeometry {
+            width: 360 * pixels_per_degree,
+            height: 180 * pixels_per_degree,
+            geotransform: [-std::f64::consts::PI * radius_m, px, 0.0, std::f64::consts::FRAC_PI_2 * radius_m, 0.0, -px],
+            projection: MapProjection::Equirectangular { lon0_deg: 180.0, lat_ts_deg: 0.0, false_easting_m: 0.0, false_northing_m: 0.0 },
+            body_radius_m: radius_m,
+        }
+    }
+
     /// Map coordinates of a fractional pixel position (pixel-corner convention).
     pub fn pixel_to_map(&self, col: f64, row: f64) -> (f64, f64) {
         let g = &self.geotransform;
