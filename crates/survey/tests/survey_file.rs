@@ -37,25 +37,44 @@ fn survey_file_round_trips_and_is_byte_identical_across_runs() {
     }
 }
 
+/// Planted craters of the demo (demo-terrain/truth.json) that a survey finds, by the matching
+/// rule of the crater-survey issue: centre within 0.25 D, diameter within 20% of the planted
+/// rim-crest diameter.
+fn planted_found(s: &SurveyFile, d_min_m: f64, d_max_m: f64) -> (std::collections::BTreeSet<u64>, usize) {
+    let truth: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(demo().with_file_name("truth.json")).unwrap()).unwrap();
+    let r = terrain::MOON_RADIUS_M;
+    let mut planted = 0;
+    let mut found = std::collections::BTreeSet::new();
+    for t in truth["craters"].as_array().unwrap() {
+        let d = t["rim_crest_diameter_m"].as_f64().or(t["diameter_m"].as_f64()).unwrap();
+        if !(d_min_m..=d_max_m).contains(&d) {
+            continue;
+        }
+        planted += 1;
+        let at = (t["lon_deg"].as_f64().unwrap(), t["lat_deg"].as_f64().unwrap());
+        if s.candidates.iter().any(|c| {
+            terrain::geodesy::distance_m(r, at, (c.crater.centre_lon_deg, c.crater.centre_lat_deg)) < 0.25 * d
+                && (c.crater.diameter_m - d).abs() < 0.2 * d
+        }) {
+            found.insert(t["id"].as_u64().unwrap());
+        }
+    }
+    (found, planted)
+}
+
 #[test]
-fn craters_on_tile_edges_are_found_whichever_way_the_dem_is_tiled() {
-    // One 2000 px tile against four 1000 px tiles with halos: every crater of 1.5-4 km found
-    // one way is found the other way, centre within 5% of D. (Detection proposals depend a
-    // little on the window, so borderline candidates may differ; hence the 90% floor.)
-    let opts = |tile_px| RunOptions { diameter_min_m: Some(1500.0), diameter_max_m: Some(4000.0), tile_px, ..RunOptions::default() };
+fn planted_craters_found_do_not_depend_on_how_the_dem_is_tiled() {
+    // One 2000 px tile against four 1000 px tiles with halos. Detection proposals depend a
+    // little on the window, so unplanted borderline candidates may differ; the planted craters
+    // found (the ground truth) must be the same ones, none lost at a tile edge.
+    let opts = |tile_px| RunOptions { diameter_min_m: Some(1500.0), diameter_max_m: Some(4000.0), tile_px, visibility: false, structure: None, ..RunOptions::default() };
     let one = survey::run(&demo(), &opts(2000), &|_| {}, &AtomicBool::new(false)).unwrap().survey;
     let four = survey::run(&demo(), &opts(1000), &|_| {}, &AtomicBool::new(false)).unwrap().survey;
-    let r = terrain::MOON_RADIUS_M;
-    let found_in = |a: &SurveyFile, b: &SurveyFile| {
-        a.candidates.iter().filter(|c| {
-            b.candidates.iter().any(|d| {
-                let dist = terrain::geodesy::distance_m(r, (c.crater.centre_lon_deg, c.crater.centre_lat_deg), (d.crater.centre_lon_deg, d.crater.centre_lat_deg));
-                dist < 0.05 * c.crater.diameter_m
-            })
-        }).count() as f64 / a.candidates.len().max(1) as f64
-    };
-    let (ab, ba) = (found_in(&one, &four), found_in(&four, &one));
-    assert!(ab >= 0.9 && ba >= 0.9, "one-tile craters found with four tiles: {ab:.2}; the reverse: {ba:.2}");
+    let (found_one, planted) = planted_found(&one, 1500.0, 4000.0);
+    let (found_four, _) = planted_found(&four, 1500.0, 4000.0);
+    assert_eq!(found_one, found_four, "planted craters found with one tile and with four differ");
+    // Measured at this commit: 17 of the 20 planted craters of 1.5-4 km (release and debug).
+    assert!(found_one.len() * 100 >= planted * 80, "only {} of {planted} planted craters found", found_one.len());
 }
 
 #[test]
