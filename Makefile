@@ -1,5 +1,5 @@
 # The two commands of the README: `make demo` and `make test`. Everything else is a helper.
-.PHONY: setup build demo test bench screenshot demo-terrain
+.PHONY: setup build demo test bench screenshot demo-terrain fuzz
 
 CARGO ?= cargo
 DEMO_DEM := demo-terrain/farside-patch.tif
@@ -28,3 +28,17 @@ screenshot: build
 
 demo-terrain: build
 	$(QB) make-demo-terrain --out demo-terrain
+
+# The fuzz targets (fuzz/), each for FUZZ_SECONDS; not part of `make test`. libFuzzer's flags
+# are nightly-only, and RUSTC_BOOTSTRAP=1 lets the stable toolchain accept them. New inputs go
+# to fuzz/work/ (not kept); crashes to fuzz/artifacts/<target>/. See DEVELOPERS.md, "Fuzzing".
+FUZZ_SECONDS ?= 60
+FUZZ_TARGETS ?= criteria_parse catalogue_read survey_read
+FUZZ_ARGS ?=
+fuzz:
+	@command -v cargo-fuzz >/dev/null 2>&1 || $(CARGO) install cargo-fuzz --locked
+	@for t in $(FUZZ_TARGETS); do \
+		mkdir -p fuzz/work/$$t && echo "== $$t, $(FUZZ_SECONDS) s" && \
+		RUSTC_BOOTSTRAP=1 $(CARGO) fuzz run $(FUZZ_ARGS) $$t fuzz/work/$$t fuzz/corpus/$$t -- \
+			-max_total_time=$(FUZZ_SECONDS) -timeout=10 -rss_limit_mb=2048 || exit 1; \
+	done

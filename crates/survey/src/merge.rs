@@ -8,23 +8,41 @@ use crate::SurveyError;
 /// 1..N exactly once. Tiles are disjoint across shards and each crater belongs to one tile, so
 /// the union re-sorted and renumbered equals a single-machine run.
 pub fn merge(parts: Vec<SurveyFile>) -> Result<SurveyFile, SurveyError> {
-    let first = parts.first().ok_or_else(|| SurveyError::Parameters("nothing to merge".into()))?;
-    let count = first.shard.map(|s| s.count).ok_or_else(|| SurveyError::Parameters("the first file is a whole survey, not a shard".into()))?;
-    let mut seen = vec![false; count];
+    let first = parts
+        .first()
+        .ok_or_else(|| SurveyError::Parameters("nothing to merge".into()))?;
+    let count = first.shard.map(|s| s.count).ok_or_else(|| {
+        SurveyError::Parameters("the first file is a whole survey, not a shard".into())
+    })?;
+    // Indices seen so far: a set, not a flag per shard, so a file claiming to be one of
+    // 10^18 shards costs nothing.
+    let mut seen = std::collections::BTreeSet::new();
     for p in &parts {
         if p.input.sha256 != first.input.sha256 || p.parameters != first.parameters {
             return Err(SurveyError::Parameters(format!(
                 "shard files disagree: {} was surveyed from another input or with other parameters",
-                p.shard.map(|s| format!("shard {}/{}", s.index, s.count)).unwrap_or_else(|| "a whole survey".into())
+                p.shard
+                    .map(|s| format!("shard {}/{}", s.index, s.count))
+                    .unwrap_or_else(|| "a whole survey".into())
             )));
         }
-        let s = p.shard.filter(|s| s.count == count).ok_or_else(|| SurveyError::Parameters(format!("every file must be a shard of {count}")))?;
-        if std::mem::replace(&mut seen[s.index - 1], true) {
-            return Err(SurveyError::Parameters(format!("shard {}/{count} is given twice", s.index)));
+        let s = p.shard.filter(|s| s.count == count).ok_or_else(|| {
+            SurveyError::Parameters(format!("every file must be a shard of {count}"))
+        })?;
+        s.validate()?;
+        if !seen.insert(s.index) {
+            return Err(SurveyError::Parameters(format!(
+                "shard {}/{count} is given twice",
+                s.index
+            )));
         }
     }
-    if let Some(missing) = seen.iter().position(|s| !s) {
-        return Err(SurveyError::Parameters(format!("shard {}/{count} is missing", missing + 1)));
+    // Every index lies in 1..=count and none repeats, so some index up to parts.len() + 1 is
+    // missing unless all are present.
+    if let Some(missing) = (1..=count).find(|k| !seen.contains(k)) {
+        return Err(SurveyError::Parameters(format!(
+            "shard {missing}/{count} is missing"
+        )));
     }
     let mut merged = parts[0].clone();
     merged.shard = None;
@@ -32,7 +50,12 @@ pub fn merge(parts: Vec<SurveyFile>) -> Result<SurveyFile, SurveyError> {
         parts
             .into_iter()
             .flat_map(|p| p.candidates)
-            .map(|c: Candidate| Found { source: c.source, crater: c.crater, visibility: c.visibility, fit: c.fit })
+            .map(|c: Candidate| Found {
+                source: c.source,
+                crater: c.crater,
+                visibility: c.visibility,
+                fit: c.fit,
+            })
             .collect(),
     );
     Ok(merged)

@@ -50,10 +50,15 @@ fn columns(header: &[String]) -> Result<Columns, String> {
 }
 
 pub fn read(path: &Path, sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>) -> Result<(), CraterError> {
+    let bytes = std::fs::read(path).map_err(|e| CraterError::Catalogue { path: path.into(), reason: e.to_string() })?;
+    parse(&bytes, path, sink)
+}
+
+/// The CSV text of a catalogue already in memory; `path` only names it in errors.
+pub fn parse(bytes: &[u8], path: &Path, sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>) -> Result<(), CraterError> {
     let fail = |reason: String| CraterError::Catalogue { path: path.into(), reason };
-    let bytes = std::fs::read(path).map_err(|e| fail(e.to_string()))?;
-    let text = String::from_utf8(bytes).map_err(|e| fail(format!("not UTF-8 text ({e})")))?;
-    let text = text.strip_prefix('\u{feff}').unwrap_or(&text);
+    let text = std::str::from_utf8(bytes).map_err(|e| fail(format!("not UTF-8 text ({e})")))?;
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let mut cols: Option<Columns> = None;
     for (i, raw) in text.lines().enumerate() {
         let line = i + 1;

@@ -62,6 +62,24 @@ pub fn read_on(path: impl AsRef<Path>, on_bad: OnBadRow, radius_m: f64) -> Resul
         return Err(CraterError::Catalogue { path: path.into(), reason: "no such file".into() });
     }
     let ext = path.extension().and_then(|e| e.to_str()).unwrap_or("").to_ascii_lowercase();
+    collect(path, on_bad, |sink| if ext == "csv" || ext == "txt" { csv::read(path, sink) } else { ogr::read(path, radius_m, sink) })
+}
+
+/// Read a CSV catalogue held in memory (the bytes of a `.csv` file), exactly as [`read`] reads
+/// one from disk. `name` only labels errors (a file name, or e.g. `<clipboard>`).
+pub fn read_csv_bytes(bytes: &[u8], name: impl AsRef<Path>, on_bad: OnBadRow) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
+    let name = name.as_ref();
+    collect(name, on_bad, |sink| csv::parse(bytes, name, sink))
+}
+
+type Sink<'a> = dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError> + 'a;
+
+/// Run a format reader, keeping good rows and either keeping or stopping on bad ones.
+fn collect(
+    path: &Path,
+    on_bad: OnBadRow,
+    reader: impl FnOnce(&mut Sink<'_>) -> Result<(), CraterError>,
+) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
     let mut rows = Vec::new();
     let mut problems = Vec::new();
     let mut sink = |r: Result<CatalogueRow, RowProblem>| -> Result<(), CraterError> {
@@ -74,11 +92,7 @@ pub fn read_on(path: impl AsRef<Path>, on_bad: OnBadRow, radius_m: f64) -> Resul
         }
         Ok(())
     };
-    if ext == "csv" || ext == "txt" {
-        csv::read(path, &mut sink)?;
-    } else {
-        ogr::read(path, radius_m, &mut sink)?;
-    }
+    reader(&mut sink)?;
     Ok((rows, problems))
 }
 
