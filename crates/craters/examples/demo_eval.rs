@@ -14,6 +14,13 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let t = std::time::Instant::now();
     let dets = detect(&grid, &opts)?;
     println!("{} proposals in {:?}", dets.len(), t.elapsed());
+    if let Ok(path) = std::env::var("QB_PROPOSALS") {
+        let mut out = String::from("lon,lat,d,score,cue\n");
+        for p in &dets {
+            out += &format!("{},{},{:.1},{:.4},{:?}\n", p.lon_deg, p.lat_deg, p.diameter_m, p.score, p.cue);
+        }
+        std::fs::write(path, out)?;
+    }
     let r = terrain::MOON_RADIUS_M;
     let (mut n, mut proposed, mut seeded_ok, mut seeded_gate) = (0, 0, 0, 0);
     let mut reasons = std::collections::BTreeMap::new();

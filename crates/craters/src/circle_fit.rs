@@ -23,7 +23,9 @@ pub fn kasa(pts: &[(f64, f64)], w: Option<&[f64]>) -> Option<Circle> {
     }
     // Centre the data first: the normal equations are badly conditioned far from the origin.
     let n: f64 = pts.len() as f64;
-    let (mx, my) = pts.iter().fold((0.0, 0.0), |a, p| (a.0 + p.0 / n, a.1 + p.1 / n));
+    let (mx, my) = pts
+        .iter()
+        .fold((0.0, 0.0), |a, p| (a.0 + p.0 / n, a.1 + p.1 / n));
     let mut m = Matrix3::<f64>::zeros();
     let mut b = Vector3::<f64>::zeros();
     for (i, p) in pts.iter().enumerate() {
@@ -39,7 +41,11 @@ pub fn kasa(pts: &[(f64, f64)], w: Option<&[f64]>) -> Option<Circle> {
     let s = m.lu().solve(&b)?;
     let (cx, cy) = (-s[0] / 2.0, -s[1] / 2.0);
     let r2 = cx * cx + cy * cy - s[2];
-    (r2 > 0.0 && r2.is_finite()).then(|| Circle { cx: cx + mx, cy: cy + my, r: r2.sqrt() })
+    (r2 > 0.0 && r2.is_finite()).then(|| Circle {
+        cx: cx + mx,
+        cy: cy + my,
+        r: r2.sqrt(),
+    })
 }
 
 /// Robust geometric fit starting from the Kåsa circle. Returns the circle and the final
@@ -47,16 +53,26 @@ pub fn kasa(pts: &[(f64, f64)], w: Option<&[f64]>) -> Option<Circle> {
 pub fn robust_geometric(pts: &[(f64, f64)]) -> Option<(Circle, Vec<f64>)> {
     let mut c = kasa(pts, None)?;
     let mut w = vec![1.0; pts.len()];
+    let (mut res, mut abs) = (Vec::with_capacity(pts.len()), Vec::with_capacity(pts.len()));
     for _ in 0..8 {
         // Tukey weights from the current residuals, scale from the median absolute deviation.
-        let res: Vec<f64> = pts.iter().map(|p| ((p.0 - c.cx).powi(2) + (p.1 - c.cy).powi(2)).sqrt() - c.r).collect();
-        let mut abs: Vec<f64> = res.iter().map(|r| r.abs()).collect();
+        res.clear();
+        res.extend(
+            pts.iter()
+                .map(|p| ((p.0 - c.cx).powi(2) + (p.1 - c.cy).powi(2)).sqrt() - c.r),
+        );
+        abs.clear();
+        abs.extend(res.iter().map(|r: &f64| r.abs()));
         // Floor on the scale: a perfect circle must not make every point an outlier.
         let scale = (1.4826 * crate::stats::median(&mut abs)).max(1e-3 * c.r);
         let k = 4.685 * scale;
         for (wi, r) in w.iter_mut().zip(&res) {
             let u = r / k;
-            *wi = if u.abs() < 1.0 { (1.0 - u * u).powi(2) } else { 0.0 };
+            *wi = if u.abs() < 1.0 {
+                (1.0 - u * u).powi(2)
+            } else {
+                0.0
+            };
         }
         // One weighted Gauss-Newton step on (cx, cy, r).
         let mut m = Matrix3::<f64>::zeros();
@@ -73,7 +89,11 @@ pub fn robust_geometric(pts: &[(f64, f64)]) -> Option<(Circle, Vec<f64>)> {
             g += wi * j * r;
         }
         let step = m.lu().solve(&(-g))?;
-        c = Circle { cx: c.cx + step[0], cy: c.cy + step[1], r: c.r + step[2] };
+        c = Circle {
+            cx: c.cx + step[0],
+            cy: c.cy + step[1],
+            r: c.r + step[2],
+        };
         if !(c.r > 0.0 && c.r.is_finite()) {
             return None;
         }

@@ -37,42 +37,100 @@ pub struct FloorSpec {
     pub obstacle_slope_deg: f64,
 }
 
+/// Horn slope at window pixel (c, r) from its 3 x 3 neighbourhood, or `None` at the window's
+/// edge or next to nodata. Reads the three rows as slices: this runs for every pixel of the
+/// crater.
 #[inline]
-fn horn_slope_deg(s: &LocalSampler, c: usize, r: usize, dx: f64, dy: f64) -> Option<f64> {
-    let g = s.grid;
-    if c == 0 || r == 0 || c + 1 >= g.width || r + 1 >= g.height {
+fn horn_slope_deg(
+    heights: &[f32],
+    w: usize,
+    h: usize,
+    c: usize,
+    r: usize,
+    dx: f64,
+    dy: f64,
+) -> Option<f64> {
+    if c == 0 || r == 0 || c + 1 >= w || r + 1 >= h {
         return None;
     }
+    let top = heights.get((r - 1) * w + c - 1..(r - 1) * w + c + 2)?;
+    let mid = heights.get(r * w + c - 1..r * w + c + 2)?;
+    let bot = heights.get((r + 1) * w + c - 1..(r + 1) * w + c + 2)?;
     let mut z = [0.0f64; 9];
-    for dr in 0..3 {
-        for dc in 0..3 {
-            z[dr * 3 + dc] = g.get(c + dc - 1, r + dr - 1)? as f64;
+    for (k, &v) in top.iter().chain(mid).chain(bot).enumerate() {
+        if v.is_nan() {
+            return None;
         }
+        z[k] = v as f64;
     }
     let gx = ((z[2] + 2.0 * z[5] + z[8]) - (z[0] + 2.0 * z[3] + z[6])) / (8.0 * dx);
     let gy = ((z[0] + 2.0 * z[1] + z[2]) - (z[6] + 2.0 * z[7] + z[8])) / (8.0 * dy);
     Some((gx * gx + gy * gy).sqrt().atan().to_degrees())
 }
 
+/// Working lists of [`measure`], kept from crater to crater.
+#[derive(Clone, Debug, Default)]
+pub struct FloorBuffers {
+    floor: Vec<([f64; 4], f64, f64)>,
+    slopes: Vec<f64>,
+}
+
 /// Measure the floor and wall of the crater centred at frame (cx, cy). `plane` is the regional
 /// plane (frame coordinates) that the floor level is reported against. `None` if the floor
 /// disc holds fewer than 4 valid pixels.
-pub fn measure(s: &LocalSampler, cx: f64, cy: f64, spec: &FloorSpec, plane: &Surface) -> Option<FloorMetrics> {
+pub fn measure(
+    s: &LocalSampler,
+    cx: f64,
+    cy: f64,
+    spec: &FloorSpec,
+    plane: &Surface,
+    buf: &mut FloorBuffers,
+) -> Option<FloorMetrics> {
     let g = s.grid;
     let reach = spec.wall_outer_m.max(spec.floor_radius_m);
-    let corners = [(-reach, -reach), (reach, -reach), (-reach, reach), (reach, reach)].map(|(x, y)| s.pixel_of(cx + x, cy + y));
-    let cmin = corners.iter().map(|p| p.0).fold(f64::INFINITY, f64::min).floor().max(0.0) as usize;
-    let cmax = (corners.iter().map(|p| p.0).fold(f64::NEG_INFINITY, f64::max).ceil().max(0.0) as usize).min(g.width.saturating_sub(1));
-    let rmin = corners.iter().map(|p| p.1).fold(f64::INFINITY, f64::min).floor().max(0.0) as usize;
-    let rmax = (corners.iter().map(|p| p.1).fold(f64::NEG_INFINITY, f64::max).ceil().max(0.0) as usize).min(g.height.saturating_sub(1));
+    let corners = [
+        (-reach, -reach),
+        (reach, -reach),
+        (-reach, reach),
+        (reach, reach),
+    ]
+    .map(|(x, y)| s.pixel_of(cx + x, cy + y));
+    let cmin = corners
+        .iter()
+        .map(|p| p.0)
+        .fold(f64::INFINITY, f64::min)
+        .floor()
+        .max(0.0) as usize;
+    let cmax = (corners
+        .iter()
+        .map(|p| p.0)
+        .fold(f64::NEG_INFINITY, f64::max)
+        .ceil()
+        .max(0.0) as usize)
+        .min(g.width.saturating_sub(1));
+    let rmin = corners
+        .iter()
+        .map(|p| p.1)
+        .fold(f64::INFINITY, f64::min)
+        .floor()
+        .max(0.0) as usize;
+    let rmax = (corners
+        .iter()
+        .map(|p| p.1)
+        .fold(f64::NEG_INFINITY, f64::max)
+        .ceil()
+        .max(0.0) as usize)
+        .min(g.height.saturating_sub(1));
     if cmin > cmax || rmin > rmax {
         return None;
     }
     let count = (cmax - cmin + 1) * (rmax - rmin + 1);
     let stride = ((count as f64 / MAX_PIXELS as f64).sqrt().ceil() as usize).max(1);
     let (centre_col, _) = s.pixel_of(cx, cy);
-    let mut floor: Vec<([f64; 4], f64, f64)> = Vec::new();
-    let mut slopes = Vec::new();
+    let FloorBuffers { floor, slopes } = buf;
+    floor.clear();
+    slopes.clear();
+    let (heights, w, h) = (&g.heights_m[..], g.width, g.height);
     let (mut wall_sum, mut wall_n) = (0.0, 0usize);
     let (mut px_sum, mut px_n) = (0.0, 0usize);
     for r in (rmin..=rmax).step_by(stride) {
@@ -80,25 +138,40 @@ pub fn measure(s: &LocalSampler, cx: f64, cy: f64, spec: &FloorSpec, plane: &Sur
         // per row at the window centre; identical for cylindrical grids).
         let raster_col = g.col0 as f64 + centre_col + 0.5;
         let raster_row = g.row0 as f64 + r as f64 + 0.5;
-        let Some((dx, dy)) = g.geometry.pixel_size_m_at(raster_col, raster_row) else { continue };
+        let Some((dx, dy)) = g.geometry.pixel_size_m_at(raster_col, raster_row) else {
+            continue;
+        };
         for c in (cmin..=cmax).step_by(stride) {
-            let Some((x, y)) = s.local_of(c, r) else { continue };
+            let Some((x, y)) = s.local_of(c, r) else {
+                continue;
+            };
             let (x, y) = (x - cx, y - cy);
             let rho = (x * x + y * y).sqrt();
             if rho > reach {
                 continue;
             }
             let Some(z) = g.get(c, r) else { continue };
-            let slope = horn_slope_deg(s, c, r, dx, dy);
-            if rho <= spec.floor_radius_m {
-                floor.push(([1.0, x, y, x * x + y * y], z as f64, slope.unwrap_or(f64::NAN)));
+            let (on_floor, on_wall) = (
+                rho <= spec.floor_radius_m,
+                rho >= spec.wall_inner_m && rho <= spec.wall_outer_m,
+            );
+            if !(on_floor || on_wall) {
+                continue;
+            }
+            let slope = horn_slope_deg(heights, w, h, c, r, dx, dy);
+            if on_floor {
+                floor.push((
+                    [1.0, x, y, x * x + y * y],
+                    z as f64,
+                    slope.unwrap_or(f64::NAN),
+                ));
                 px_sum += (dx * dy).sqrt();
                 px_n += 1;
                 if let Some(sl) = slope {
                     slopes.push(sl);
                 }
             }
-            if rho >= spec.wall_inner_m && rho <= spec.wall_outer_m {
+            if on_wall {
                 if let Some(sl) = slope {
                     wall_sum += sl;
                     wall_n += 1;
@@ -117,24 +190,51 @@ pub fn measure(s: &LocalSampler, cx: f64, cy: f64, spec: &FloorSpec, plane: &Sur
         [p[0], p[1], p[2], 0.0]
     };
     let model = |f: &[f64; 4]| coef[0] + coef[1] * f[1] + coef[2] * f[2] + coef[3] * f[3];
-    let rms = (floor.iter().map(|f| (f.1 - model(&f.0)).powi(2)).sum::<f64>() / floor.len() as f64).sqrt();
+    let rms = (floor
+        .iter()
+        .map(|f| (f.1 - model(&f.0)).powi(2))
+        .sum::<f64>()
+        / floor.len() as f64)
+        .sqrt();
     let floor_level_m = floor
         .iter()
         .map(|f| model(&f.0) - plane.at(cx + f.0[1], cy + f.0[2]))
         .fold(f64::INFINITY, f64::min);
-    let floor_height_m = floor.iter().map(|f| model(&f.0)).fold(f64::INFINITY, f64::min);
+    let floor_height_m = floor
+        .iter()
+        .map(|f| model(&f.0))
+        .fold(f64::INFINITY, f64::min);
     let (b, c) = (coef[1], coef[2]);
-    let obstacles = slopes.iter().filter(|&&sl| sl > spec.obstacle_slope_deg).count();
+    let obstacles = slopes
+        .iter()
+        .filter(|&&sl| sl > spec.obstacle_slope_deg)
+        .count();
     let n_slopes = slopes.len();
     Some(FloorMetrics {
         floor_level_m,
         floor_height_m,
         tilt_deg: b.hypot(c).atan().to_degrees(),
-        tilt_azimuth_deg: if b == 0.0 && c == 0.0 { 0.0 } else { (-b).atan2(-c).to_degrees().rem_euclid(360.0) },
-        slope_p95_deg: if n_slopes > 0 { stats::quantile(&mut slopes, 0.95) } else { 0.0 },
-        wall_slope_mean_deg: if wall_n > 0 { wall_sum / wall_n as f64 } else { 0.0 },
+        tilt_azimuth_deg: if b == 0.0 && c == 0.0 {
+            0.0
+        } else {
+            (-b).atan2(-c).to_degrees().rem_euclid(360.0)
+        },
+        slope_p95_deg: if n_slopes > 0 {
+            stats::quantile(slopes, 0.95)
+        } else {
+            0.0
+        },
+        wall_slope_mean_deg: if wall_n > 0 {
+            wall_sum / wall_n as f64
+        } else {
+            0.0
+        },
         roughness_rms_m: rms,
-        obstacle_fraction: if n_slopes > 0 { obstacles as f64 / n_slopes as f64 } else { 0.0 },
+        obstacle_fraction: if n_slopes > 0 {
+            obstacles as f64 / n_slopes as f64
+        } else {
+            0.0
+        },
         baseline_m: if px_n > 0 { px_sum / px_n as f64 } else { 0.0 },
     })
 }

@@ -9,13 +9,18 @@ pub fn fit_linear<const N: usize>(rows: impl Iterator<Item = ([f64; N], f64)>) -
     let mut b = [0.0f64; N];
     let mut n = 0usize;
     for (f, z) in rows {
+        // The upper triangle only: f[i] f[j] and f[j] f[i] are the same product, so the
+        // mirrored sums below are exactly the ones the lower triangle would have summed.
         for i in 0..N {
-            for j in 0..N {
+            for j in i..N {
                 m[i][j] += f[i] * f[j];
             }
             b[i] += f[i] * z;
         }
         n += 1;
+    }
+    for (i, j) in (0..N).flat_map(|i| (0..i).map(move |j| (i, j))) {
+        m[i][j] = m[j][i];
     }
     if n < N {
         return None;

@@ -4,9 +4,10 @@
 use crate::circle_fit::{self, Circle};
 use crate::error::CraterError;
 use crate::floor::{self, FloorSpec};
-use crate::profiles::{Crest, Profiles, Surface};
+use crate::profiles::{Crest, Profiles, RegionalBuffers, Surface};
 use crate::sampler::LocalSampler;
 use crate::{ellipse_fit, stats, CraterMeasurement};
+use std::cell::RefCell;
 use terrain::ElevationGrid;
 
 /// Choices of the measurement; the defaults are what docs/metrics.md describes.
@@ -67,17 +68,32 @@ struct Round {
     pts: Vec<(usize, (f64, f64))>,
 }
 
-/// Profile buffers reused from round to round of one measurement.
+/// Buffers reused from round to round of one measurement and from one measurement to the next
+/// on the same thread: allocating and freeing them per crater cost a tenth of the time (the
+/// allocator handed the memory back to the system and faulted it in again each time).
+#[derive(Default)]
 struct Scratch {
     raw: Profiles,
     /// `raw` less the regional plane (after a round: the profiles the round's numbers use).
     det: Profiles,
     /// `raw` less the quadratic surface, when the plane leaves too few crests.
     alt: Profiles,
+    regional: RegionalBuffers,
+    plain: Vec<f64>,
+    floor: floor::FloorBuffers,
+}
+
+thread_local! {
+    static SCRATCH: RefCell<Scratch> = RefCell::new(Scratch::default());
 }
 
 fn not_measurable(lon: f64, lat: f64, d: f64, reason: impl Into<String>) -> CraterError {
-    CraterError::NotMeasurable { lon_deg: lon, lat_deg: lat, diameter_m: d, reason: reason.into() }
+    CraterError::NotMeasurable {
+        lon_deg: lon,
+        lat_deg: lat,
+        diameter_m: d,
+        reason: reason.into(),
+    }
 }
 
 /// Drops below a centimetre are below the vertical precision of any planetary DEM and are
@@ -92,28 +108,56 @@ fn accept(crests: &[Option<Crest>]) -> Vec<bool> {
     let (mi, mo) = (stats::median(&mut inner), stats::median(&mut outer));
     crests
         .iter()
-        .map(|c| c.is_some_and(|c| c.inner_drop >= 0.25 * mi && c.outer_drop >= 0.2 * mo && c.outer_drop > MIN_DROP_M && c.inner_drop > MIN_DROP_M))
+        .map(|c| {
+            c.is_some_and(|c| {
+                c.inner_drop >= 0.25 * mi
+                    && c.outer_drop >= 0.2 * mo
+                    && c.outer_drop > MIN_DROP_M
+                    && c.inner_drop > MIN_DROP_M
+            })
+        })
         .collect()
 }
 
 /// Crests on `profiles` (raw profiles less `surface`), their heights relative to `plane`,
 /// and the accepted ones as frame points.
 #[allow(clippy::type_complexity)]
-fn crests_over(profiles: &Profiles, surface: &Surface, plane: &Surface, r: f64, band: (f64, f64), pixel_m: f64) -> (Vec<f64>, Vec<(usize, (f64, f64))>) {
+fn crests_over(
+    profiles: &Profiles,
+    surface: &Surface,
+    plane: &Surface,
+    r: f64,
+    band: (f64, f64),
+    pixel_m: f64,
+) -> (Vec<f64>, Vec<(usize, (f64, f64))>) {
     let centre = (profiles.cx, profiles.cy);
-    let mut crests: Vec<Option<Crest>> = (0..profiles.n_az).map(|i| profiles.crest(i, band.0 * r, band.1 * r, 0.4 * r, pixel_m, true)).collect();
+    let mut crests: Vec<Option<Crest>> = (0..profiles.n_az)
+        .map(|i| profiles.crest(i, band.0 * r, band.1 * r, 0.4 * r, pixel_m, true))
+        .collect();
     // A sharp rim shows in at least half the profiles' own corners (the rest miss by the
     // phase of the pixel grid), or in the mean profile of the rim's azimuths; a diffused one
     // in neither. Ours, set on the demo terrain and the analytic craters.
     let ok = accept(&crests);
-    let (met, found) = crests.iter().zip(&ok).filter(|(_, ok)| **ok).flat_map(|(c, _)| c).fold((0usize, 0usize), |a, c| (a.0 + c.flank_met as usize, a.1 + 1));
+    let (met, found) = crests
+        .iter()
+        .zip(&ok)
+        .filter(|(_, ok)| **ok)
+        .flat_map(|(c, _)| c)
+        .fold((0usize, 0usize), |a, c| {
+            (a.0 + c.flank_met as usize, a.1 + 1)
+        });
     let sharp = 2 * met >= found || profiles.rim_is_sharp(band.0 * r, band.1 * r, pixel_m, &ok);
     if !sharp {
         for c in crests.iter_mut().flatten() {
             c.r = c.r_top;
         }
     }
-    let at = |i: usize, c: &Crest| (centre.0 + profiles.dir[i].0 * c.r, centre.1 + profiles.dir[i].1 * c.r);
+    let at = |i: usize, c: &Crest| {
+        (
+            centre.0 + profiles.dir[i].0 * c.r,
+            centre.1 + profiles.dir[i].1 * c.r,
+        )
+    };
     let crest_z: Vec<f64> = crests
         .iter()
         .enumerate()
@@ -124,15 +168,29 @@ fn crests_over(profiles: &Profiles, surface: &Surface, plane: &Surface, r: f64, 
             })
         })
         .collect();
-    let pts = crests.iter().enumerate().filter(|(i, _)| ok[*i]).filter_map(|(i, c)| c.map(|c| (i, at(i, &c)))).collect();
+    let pts = crests
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| ok[*i])
+        .filter_map(|(i, c)| c.map(|c| (i, at(i, &c))))
+        .collect();
     (crest_z, pts)
 }
 
-fn round(s: &LocalSampler, sc: &mut Scratch, centre: (f64, f64), r: f64, band: (f64, f64), opts: &MeasureOptions, pixel_m: f64) -> Option<Round> {
+fn round(
+    s: &LocalSampler,
+    sc: &mut Scratch,
+    centre: (f64, f64),
+    r: f64,
+    band: (f64, f64),
+    opts: &MeasureOptions,
+    pixel_m: f64,
+) -> Option<Round> {
     let r_max = PROFILE_REACH * r;
     let dr = (0.5 * pixel_m).max(r_max / SAMPLES_PER_PROFILE);
-    sc.raw.resample(s, centre.0, centre.1, opts.azimuths, r_max, dr);
-    let plane = sc.raw.regional(1.6 * r, 2.4 * r, false)?;
+    sc.raw
+        .resample(s, centre.0, centre.1, opts.azimuths, r_max, dr);
+    let plane = sc.raw.regional(1.6 * r, 2.4 * r, false, &mut sc.regional)?;
     sc.det.detrend_from(&sc.raw, &plane);
     let need = (opts.azimuths / 8).max(6);
     let mut found = crests_over(&sc.det, &plane, &plane, r, band, pixel_m);
@@ -141,7 +199,7 @@ fn round(s: &LocalSampler, sc: &mut Scratch, centre: (f64, f64), r: f64, band: (
         // direction, and a plane leaves that rise to swamp its rim: retry over a quadratic
         // regional surface. Not the first choice: on an isolated crater the quadratic takes
         // the ejecta's outward fall for curvature and pulls broad rims outwards.
-        let quad = sc.raw.regional(1.6 * r, 2.4 * r, true)?;
+        let quad = sc.raw.regional(1.6 * r, 2.4 * r, true, &mut sc.regional)?;
         sc.alt.detrend_from(&sc.raw, &quad);
         found = crests_over(&sc.alt, &quad, &plane, r, band, pixel_m);
     }
@@ -151,14 +209,25 @@ fn round(s: &LocalSampler, sc: &mut Scratch, centre: (f64, f64), r: f64, band: (
     }
     let xy: Vec<(f64, f64)> = pts.iter().map(|p| p.1).collect();
     let (circle, _) = circle_fit::robust_geometric(&xy)?;
-    Some(Round { plane, crest_z, circle, pts })
+    Some(Round {
+        plane,
+        crest_z,
+        circle,
+        pts,
+    })
 }
 
 /// Measure the crater near (lon, lat) with provisional diameter `diameter_guess_m`.
 ///
 /// Fails with [`CraterError::NotMeasurable`] when the rim cannot be traced (too few crests, no
 /// data, centre wandering off to another feature) rather than returning made-up numbers.
-pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_m: f64, opts: &MeasureOptions) -> Result<CraterMeasurement, CraterError> {
+pub fn measure(
+    grid: &ElevationGrid,
+    lon_deg: f64,
+    lat_deg: f64,
+    diameter_guess_m: f64,
+    opts: &MeasureOptions,
+) -> Result<CraterMeasurement, CraterError> {
     measure_screened(grid, lon_deg, lat_deg, diameter_guess_m, opts, 0.0)
 }
 
@@ -167,33 +236,82 @@ pub fn measure(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_
 /// 0.3 R, over 2 R, below 0.35 of it. That rough depth is never smaller than the final one by
 /// much (the lowest sample lies at or below the floor fit), so the screen only saves the
 /// survey from fully measuring hollows its shape gates would reject (ours).
-pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, diameter_guess_m: f64, opts: &MeasureOptions, min_depth_to_diameter: f64) -> Result<CraterMeasurement, CraterError> {
+pub(crate) fn measure_screened(
+    grid: &ElevationGrid,
+    lon_deg: f64,
+    lat_deg: f64,
+    diameter_guess_m: f64,
+    opts: &MeasureOptions,
+    min_depth_to_diameter: f64,
+) -> Result<CraterMeasurement, CraterError> {
+    // The thread's buffers are taken out for the call, so a nested call (there is none)
+    // would start from fresh ones instead of failing.
+    let mut sc = SCRATCH.with(|s| std::mem::take(&mut *s.borrow_mut()));
+    let out = measure_in(
+        &mut sc,
+        grid,
+        lon_deg,
+        lat_deg,
+        diameter_guess_m,
+        opts,
+        min_depth_to_diameter,
+    );
+    SCRATCH.with(|s| *s.borrow_mut() = sc);
+    out
+}
+
+fn measure_in(
+    sc: &mut Scratch,
+    grid: &ElevationGrid,
+    lon_deg: f64,
+    lat_deg: f64,
+    diameter_guess_m: f64,
+    opts: &MeasureOptions,
+    min_depth_to_diameter: f64,
+) -> Result<CraterMeasurement, CraterError> {
     let nm = |reason: &str| not_measurable(lon_deg, lat_deg, diameter_guess_m, reason);
-    if opts.azimuths < 16 || !(diameter_guess_m > 0.0) || !lon_deg.is_finite() || !lat_deg.is_finite() {
-        return Err(CraterError::Options(format!("measure needs >= 16 azimuths and a positive diameter (got {} and {diameter_guess_m})", opts.azimuths)));
+    if opts.azimuths < 16
+        || !(diameter_guess_m > 0.0)
+        || !lon_deg.is_finite()
+        || !lat_deg.is_finite()
+    {
+        return Err(CraterError::Options(format!(
+            "measure needs >= 16 azimuths and a positive diameter (got {} and {diameter_guess_m})",
+            opts.azimuths
+        )));
     }
     let r0 = diameter_guess_m / 2.0;
     let geom = &grid.geometry;
-    let (pc, pr) = geom.lonlat_to_pixel(lon_deg, lat_deg).ok_or_else(|| nm("position is outside the map projection"))?;
-    let (px_x, px_y) = geom.pixel_size_m_at(pc, pr).ok_or_else(|| nm("no pixel size at this position"))?;
+    let (pc, pr) = geom
+        .lonlat_to_pixel(lon_deg, lat_deg)
+        .ok_or_else(|| nm("position is outside the map projection"))?;
+    let (px_x, px_y) = geom
+        .pixel_size_m_at(pc, pr)
+        .ok_or_else(|| nm("no pixel size at this position"))?;
     let pixel_m = px_x.min(px_y);
     // Room for the centre to move by R/2 and the radius to grow by half while profiles reach 2.5 R.
-    let s = LocalSampler::new(grid, lon_deg, lat_deg, r0 * (PROFILE_REACH * 1.5 + 0.6)).ok_or_else(|| nm("position is outside the map projection"))?;
-    let mut sc = Scratch { raw: Profiles::default(), det: Profiles::default(), alt: Profiles::default() };
+    let s = LocalSampler::new(grid, lon_deg, lat_deg, r0 * (PROFILE_REACH * 1.5 + 0.6))
+        .ok_or_else(|| nm("position is outside the map projection"))?;
     let (mut centre, mut r) = ((0.0, 0.0), r0);
     let mut last = None;
     for it in 0..opts.iterations.max(1) {
         let band = if it == 0 { (0.5, 1.5) } else { (0.7, 1.35) };
-        let rd = round(&s, &mut sc, centre, r, band, opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?;
+        let rd = round(&s, sc, centre, r, band, opts, pixel_m)
+            .ok_or_else(|| nm("too few rim crests to fit a circle"))?;
         if it == 0 && min_depth_to_diameter > 0.0 {
             let mut zs: Vec<f64> = rd.pts.iter().map(|&(i, _)| rd.crest_z[i]).collect();
             let k_floor = ((0.3 * r / sc.det.dr) as usize).min(sc.det.n_r - 1);
-            let low = (0..sc.det.n_az).flat_map(|i| (0..=k_floor).map(move |k| (i, k))).map(|(i, k)| sc.det.at(i, k)).filter(|z| z.is_finite()).fold(f64::INFINITY, f64::min);
+            let low = (0..sc.det.n_az)
+                .flat_map(|i| (0..=k_floor).map(move |k| (i, k)))
+                .map(|(i, k)| sc.det.at(i, k))
+                .filter(|z| z.is_finite())
+                .fold(f64::INFINITY, f64::min);
             if (stats::median(&mut zs) - low) / (2.0 * r) < 0.35 * min_depth_to_diameter {
                 return Err(nm("far too shallow for a crater"));
             }
         }
-        let moved = (rd.circle.cx - centre.0).hypot(rd.circle.cy - centre.1) + (rd.circle.r - r).abs();
+        let moved =
+            (rd.circle.cx - centre.0).hypot(rd.circle.cy - centre.1) + (rd.circle.r - r).abs();
         centre = (rd.circle.cx, rd.circle.cy);
         r = rd.circle.r;
         let converged = it > 0 && moved < 0.005 * r;
@@ -209,7 +327,8 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
     }
     let rd = match last {
         Some(rd) => rd,
-        None => round(&s, &mut sc, centre, r, (0.7, 1.35), opts, pixel_m).ok_or_else(|| nm("too few rim crests to fit a circle"))?,
+        None => round(&s, sc, centre, r, (0.7, 1.35), opts, pixel_m)
+            .ok_or_else(|| nm("too few rim crests to fit a circle"))?,
     };
     let circle = rd.circle;
     let (cx, cy, r) = (circle.cx, circle.cy, circle.r);
@@ -243,11 +362,15 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
     }
     let valid_fraction = if w_all > 0.0 { w_ok / w_all } else { 0.0 };
     if valid_fraction < opts.min_valid_fraction {
-        return Err(nm(&format!("only {:.0}% of the crater has data", 100.0 * valid_fraction)));
+        return Err(nm(&format!(
+            "only {:.0}% of the crater has data",
+            100.0 * valid_fraction
+        )));
     }
 
     // Plain: detrended heights 2.0-2.5 R around the profile centre.
-    let mut plain = Vec::new();
+    let plain = &mut sc.plain;
+    plain.clear();
     for i in 0..p.n_az {
         for k in ((2.0 * r / p.dr).ceil() as usize)..p.n_r {
             let z = p.at(i, k);
@@ -256,7 +379,11 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
             }
         }
     }
-    let plain_level = if plain.is_empty() { 0.0 } else { stats::median(&mut plain) };
+    let plain_level = if plain.is_empty() {
+        0.0
+    } else {
+        stats::median(plain)
+    };
 
     // Rim crests near the fitted circle: completeness, the widest gap, heights.
     let n = opts.azimuths;
@@ -281,7 +408,11 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
     let completeness = has.iter().filter(|b| **b).count() as f64 / n as f64;
     let (gap_len, gap_mid) = widest_gap(&has);
     let step_deg = 360.0 / n as f64;
-    let rim_heights: Vec<f64> = rim_h.iter().filter(|v| v.is_finite()).map(|&v| v as f64).collect();
+    let rim_heights: Vec<f64> = rim_h
+        .iter()
+        .filter(|v| v.is_finite())
+        .map(|&v| v as f64)
+        .collect();
     let rim_det_median = stats::median(&mut crest_det.clone());
 
     let spec = FloorSpec {
@@ -290,7 +421,8 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
         wall_outer_m: opts.wall_outer_frac * r,
         obstacle_slope_deg: opts.obstacle_slope_deg,
     };
-    let fl = floor::measure(&s, cx, cy, &spec, &rd.plane).ok_or_else(|| nm("the floor has too few valid pixels"))?;
+    let fl = floor::measure(&s, cx, cy, &spec, &rd.plane, &mut sc.floor)
+        .ok_or_else(|| nm("the floor has too few valid pixels"))?;
     let depth = rim_det_median - fl.floor_level_m;
     if !(depth > 0.0) {
         return Err(nm("the rim does not stand above the floor"));
@@ -298,11 +430,18 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
 
     let ell = ellipse_fit::fit(&rim_pts);
     let (major, minor, az) = match ell {
-        Some(e) if e.semi_major < 2.0 * r && e.semi_minor > 0.5 * r => (2.0 * e.semi_major, 2.0 * e.semi_minor, e.azimuth_deg),
+        Some(e) if e.semi_major < 2.0 * r && e.semi_minor > 0.5 * r => {
+            (2.0 * e.semi_major, 2.0 * e.semi_minor, e.azimuth_deg)
+        }
         _ => (2.0 * r, 2.0 * r, 0.0),
     };
     let (d_sd, depth_sd) = crate::bootstrap::spreads(&rim_pts, &crest_det, fl.floor_level_m, opts);
-    let fit_rms = (rim_pts.iter().map(|p| ((p.0 - cx).hypot(p.1 - cy) - r).powi(2)).sum::<f64>() / rim_pts.len() as f64).sqrt();
+    let fit_rms = (rim_pts
+        .iter()
+        .map(|p| ((p.0 - cx).hypot(p.1 - cy) - r).powi(2))
+        .sum::<f64>()
+        / rim_pts.len() as f64)
+        .sqrt();
     let (lon, lat) = s.lonlat(cx, cy);
     let diameter = 2.0 * r;
     Ok(CraterMeasurement {
@@ -312,7 +451,11 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
         diameter_sd_m: d_sd,
         ellipse_major_m: major,
         ellipse_minor_m: minor,
-        ellipticity: if major > 0.0 { 1.0 - minor / major } else { 0.0 },
+        ellipticity: if major > 0.0 {
+            1.0 - minor / major
+        } else {
+            0.0
+        },
         ellipse_azimuth_deg: az,
         depth_m: depth,
         depth_sd_m: depth_sd,
@@ -320,7 +463,11 @@ pub(crate) fn measure_screened(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64,
         rim_relief_m: rim_det_median - plain_level,
         rim_completeness: completeness,
         rim_gap_deg: gap_len as f64 * step_deg,
-        rim_gap_azimuth_deg: if gap_len == 0 { 0.0 } else { (gap_mid * step_deg).rem_euclid(360.0) },
+        rim_gap_azimuth_deg: if gap_len == 0 {
+            0.0
+        } else {
+            (gap_mid * step_deg).rem_euclid(360.0)
+        },
         rim_height_sd_m: stats::sd(&rim_heights),
         floor_tilt_deg: fl.tilt_deg,
         floor_tilt_azimuth_deg: fl.tilt_azimuth_deg,

@@ -33,14 +33,29 @@ impl Profiles {
     /// (checked by `quadratic_rays_match_exact_transform` below); for craters of a few km the
     /// error is below 1e-5 px.
     #[cfg(test)]
-    pub fn sample(s: &LocalSampler, cx: f64, cy: f64, n_az: usize, r_max: f64, dr: f64) -> Profiles {
+    pub fn sample(
+        s: &LocalSampler,
+        cx: f64,
+        cy: f64,
+        n_az: usize,
+        r_max: f64,
+        dr: f64,
+    ) -> Profiles {
         let mut p = Profiles::default();
         p.resample(s, cx, cy, n_az, r_max, dr);
         p
     }
 
     /// [`Profiles::sample`] into this value's buffers (no allocation once they are big enough).
-    pub fn resample(&mut self, s: &LocalSampler, cx: f64, cy: f64, n_az: usize, r_max: f64, dr: f64) {
+    pub fn resample(
+        &mut self,
+        s: &LocalSampler,
+        cx: f64,
+        cy: f64,
+        n_az: usize,
+        r_max: f64,
+        dr: f64,
+    ) {
         let n_r = (r_max / dr).ceil() as usize + 1;
         if self.dir.len() != n_az {
             self.dir.clear();
@@ -55,7 +70,8 @@ impl Profiles {
         let r_end = (n_r - 1) as f64 * dr;
         // Rays spanning a large angle of the body bend more than a quadratic follows: split
         // them (the error falls with the cube of the piece length).
-        let pieces = ((r_end / s.grid.geometry.body_radius_m * 15.0).ceil() as usize).clamp(1, n_r.max(2) - 1);
+        let pieces = ((r_end / s.grid.geometry.body_radius_m * 15.0).ceil() as usize)
+            .clamp(1, n_r.max(2) - 1);
         let (heights, w, h) = (&s.grid.heights_m[..], s.grid.width, s.grid.height);
         if w < 2 || h < 2 || heights.len() < w * h {
             return;
@@ -67,13 +83,25 @@ impl Profiles {
                 let at = |k: f64| s.pixel_of(cx + d.0 * k * dr, cy + d.1 * k * dr);
                 let (p0, pm, p1) = (at(k0 as f64), at(0.5 * (k0 + k1) as f64), at(k1 as f64));
                 // Lagrange form through t = 0, 1/2, 1 with t = (k - k0) / (k1 - k0).
-                let b = (4.0 * pm.0 - 3.0 * p0.0 - p1.0, 4.0 * pm.1 - 3.0 * p0.1 - p1.1);
-                let c = (2.0 * (p0.0 + p1.0) - 4.0 * pm.0, 2.0 * (p0.1 + p1.1) - 4.0 * pm.1);
+                let b = (
+                    4.0 * pm.0 - 3.0 * p0.0 - p1.0,
+                    4.0 * pm.1 - 3.0 * p0.1 - p1.1,
+                );
+                let c = (
+                    2.0 * (p0.0 + p1.0) - 4.0 * pm.0,
+                    2.0 * (p0.1 + p1.1) - 4.0 * pm.1,
+                );
                 let inv = 1.0 / (k1 - k0).max(1) as f64;
                 let last = if piece + 1 == pieces { k1 + 1 } else { k1 };
                 for (j, v) in row[k0..last].iter_mut().enumerate() {
                     let t = j as f64 * inv;
-                    *v = bilinear(heights, w, h, p0.0 + t * (b.0 + t * c.0), p0.1 + t * (b.1 + t * c.1));
+                    *v = bilinear(
+                        heights,
+                        w,
+                        h,
+                        p0.0 + t * (b.0 + t * c.0),
+                        p0.1 + t * (b.1 + t * c.1),
+                    );
                 }
             }
         }
@@ -93,11 +121,19 @@ impl Profiles {
     /// Least-squares regional surface over the annulus [r_in, r_out] around the profile
     /// centre, refitted once without samples beyond 2.5 robust standard deviations so a
     /// neighbouring crater in the annulus does not tilt it. `None` with too few samples.
-    pub fn regional(&self, r_in: f64, r_out: f64, quadratic: bool) -> Option<Surface> {
+    /// `buf` holds the working lists between calls (no allocation once they are big enough).
+    pub fn regional(
+        &self,
+        r_in: f64,
+        r_out: f64,
+        quadratic: bool,
+        buf: &mut RegionalBuffers,
+    ) -> Option<Surface> {
         let k0 = (r_in / self.dr).ceil() as usize;
         let k1 = ((r_out / self.dr).floor() as usize).min(self.n_r - 1);
         let scale = r_out.max(1e-9);
-        let mut pts = Vec::new();
+        let RegionalBuffers { pts, res, kept } = buf;
+        pts.clear();
         for i in 0..self.n_az {
             for k in k0..=k1 {
                 let z = self.at(i, k);
@@ -109,48 +145,73 @@ impl Profiles {
         }
         let fit = |pts: &[(f64, f64, f64)]| -> Option<[f64; 6]> {
             if quadratic {
-                crate::lsq::fit_linear(pts.iter().map(|p| ([1.0, p.0, p.1, p.0 * p.0, p.0 * p.1, p.1 * p.1], p.2)))
+                crate::lsq::fit_linear(
+                    pts.iter()
+                        .map(|p| ([1.0, p.0, p.1, p.0 * p.0, p.0 * p.1, p.1 * p.1], p.2)),
+                )
             } else {
-                crate::lsq::fit_linear(pts.iter().map(|p| ([1.0, p.0, p.1], p.2))).map(|c| [c[0], c[1], c[2], 0.0, 0.0, 0.0])
+                crate::lsq::fit_linear(pts.iter().map(|p| ([1.0, p.0, p.1], p.2)))
+                    .map(|c| [c[0], c[1], c[2], 0.0, 0.0, 0.0])
             }
         };
-        let eval = |c: &[f64; 6], p: &(f64, f64, f64)| c[0] + c[1] * p.0 + c[2] * p.1 + c[3] * p.0 * p.0 + c[4] * p.0 * p.1 + c[5] * p.1 * p.1;
-        let mut c = fit(&pts)?;
-        let mut res: Vec<f64> = pts.iter().map(|q| (q.2 - eval(&c, q)).abs()).collect();
-        let mad = crate::stats::median(&mut res) * 1.4826;
+        let eval = |c: &[f64; 6], p: &(f64, f64, f64)| {
+            c[0] + c[1] * p.0 + c[2] * p.1 + c[3] * p.0 * p.0 + c[4] * p.0 * p.1 + c[5] * p.1 * p.1
+        };
+        let mut c = fit(pts)?;
+        res.clear();
+        res.extend(pts.iter().map(|q| (q.2 - eval(&c, q)).abs()));
+        let mad = crate::stats::median(res) * 1.4826;
         if mad > 0.0 {
-            let kept: Vec<_> = pts.iter().copied().filter(|q| (q.2 - eval(&c, q)).abs() <= 2.5 * mad).collect();
+            kept.clear();
+            kept.extend(
+                pts.iter()
+                    .copied()
+                    .filter(|q| (q.2 - eval(&c, q)).abs() <= 2.5 * mad),
+            );
             if kept.len() >= pts.len() / 2 {
-                c = fit(&kept)?;
+                c = fit(kept)?;
             }
         }
-        Some(Surface { c, x0: self.cx, y0: self.cy, scale })
+        Some(Surface {
+            c,
+            x0: self.cx,
+            y0: self.cy,
+            scale,
+        })
     }
 
     /// Overwrite this value with `raw` minus the surface `s`, reusing its buffers.
     pub fn detrend_from(&mut self, raw: &Profiles, s: &Surface) {
-        (self.cx, self.cy, self.n_az, self.n_r, self.dr) = (raw.cx, raw.cy, raw.n_az, raw.n_r, raw.dr);
+        (self.cx, self.cy, self.n_az, self.n_r, self.dr) =
+            (raw.cx, raw.cy, raw.n_az, raw.n_r, raw.dr);
         if self.dir != raw.dir {
             self.dir.clear();
             self.dir.extend_from_slice(&raw.dir);
         }
         self.z.clear();
-        self.z.extend_from_slice(&raw.z);
-        for i in 0..raw.n_az {
+        for (row, d) in raw.z.chunks_exact(raw.n_r.max(1)).zip(&raw.dir) {
             // Along a ray the surface is a quadratic in r: a + r (b + r c).
-            let (a, b, c) = s.along_ray(raw.cx, raw.cy, raw.dir[i]);
-            let row = &mut self.z[i * raw.n_r..(i + 1) * raw.n_r];
-            for (k, v) in row.iter_mut().enumerate() {
-                let r = k as f64 * raw.dr;
-                *v -= a + r * (b + r * c);
-            }
+            let (a, b, c) = s.along_ray(raw.cx, raw.cy, *d);
+            let dr = raw.dr;
+            self.z.extend(row.iter().enumerate().map(|(k, &zr)| {
+                let r = k as f64 * dr;
+                zr - (a + r * (b + r * c))
+            }));
         }
     }
 
     /// Crest candidate on profile `i` within radii [lo, hi]; neighbourhoods of width `nb`.
     /// On a rim found not `sharp` the crest is the top of the profile (parabola through the
     /// highest three samples), otherwise where the flanks meet when they do.
-    pub fn crest(&self, i: usize, lo: f64, hi: f64, nb: f64, px_m: f64, sharp: bool) -> Option<Crest> {
+    pub fn crest(
+        &self,
+        i: usize,
+        lo: f64,
+        hi: f64,
+        nb: f64,
+        px_m: f64,
+        sharp: bool,
+    ) -> Option<Crest> {
         let k_lo = ((lo / self.dr).floor() as usize).max(1);
         let k_hi = ((hi / self.dr).ceil() as usize).min(self.n_r - 2);
         if k_hi <= k_lo {
@@ -170,19 +231,44 @@ impl Profiles {
             return None;
         }
         let nbk = ((nb / self.dr).round() as usize).max(2);
-        let inner = (k.saturating_sub(nbk)..k).map(|j| self.at(i, j)).filter(|z| z.is_finite()).fold(f64::INFINITY, f64::min);
-        let outer = (k + 1..=(k + nbk).min(self.n_r - 1)).map(|j| self.at(i, j)).filter(|z| z.is_finite()).fold(f64::INFINITY, f64::min);
+        let inner = (k.saturating_sub(nbk)..k)
+            .map(|j| self.at(i, j))
+            .filter(|z| z.is_finite())
+            .fold(f64::INFINITY, f64::min);
+        let outer = (k + 1..=(k + nbk).min(self.n_r - 1))
+            .map(|j| self.at(i, j))
+            .filter(|z| z.is_finite())
+            .fold(f64::INFINITY, f64::min);
         if !(inner.is_finite() && outer.is_finite()) {
             return None;
         }
         // Parabolic interpolation of the peak between samples.
         let den = zm - 2.0 * zc + zp;
-        let off = if den < 0.0 { (0.5 * (zm - zp) / den).clamp(-0.5, 0.5) } else { 0.0 };
+        let off = if den < 0.0 {
+            (0.5 * (zm - zp) / den).clamp(-0.5, 0.5)
+        } else {
+            0.0
+        };
         let z_peak = zc - 0.25 * (zm - zp) * off;
         let r_top = (k as f64 + off) * self.dr;
-        let flank = flank_meet(|j| self.at(i, j), self.n_r, self.dr, k, px_m, z_peak, SHARP_OVERSHOOT_PX);
+        let flank = flank_meet(
+            |j| self.at(i, j),
+            self.n_r,
+            self.dr,
+            k,
+            px_m,
+            z_peak,
+            SHARP_OVERSHOOT_PX,
+        );
         let r = if sharp { flank.unwrap_or(r_top) } else { r_top };
-        Some(Crest { r, r_top, flank_met: flank.is_some(), z: z_peak, inner_drop: z_peak - inner, outer_drop: z_peak - outer })
+        Some(Crest {
+            r,
+            r_top,
+            flank_met: flank.is_some(),
+            z: z_peak,
+            inner_drop: z_peak - inner,
+            outer_drop: z_peak - outer,
+        })
     }
 
     /// Whether the crater's rim is sharp: the azimuthal mean of the profiles peaks within
@@ -195,20 +281,46 @@ impl Profiles {
         let used = rim.iter().filter(|u| **u).count();
         let mean: Vec<f64> = (0..self.n_r)
             .map(|k| {
-                let (s, n) = (0..self.n_az).filter(|&i| rim[i]).map(|i| self.at(i, k)).filter(|z| z.is_finite()).fold((0.0, 0usize), |a, z| (a.0 + z, a.1 + 1));
-                if n > 0 && 2 * n >= used { s / n as f64 } else { f64::NAN }
+                let (s, n) = (0..self.n_az)
+                    .filter(|&i| rim[i])
+                    .map(|i| self.at(i, k))
+                    .filter(|z| z.is_finite())
+                    .fold((0.0, 0usize), |a, z| (a.0 + z, a.1 + 1));
+                if n > 0 && 2 * n >= used {
+                    s / n as f64
+                } else {
+                    f64::NAN
+                }
             })
             .collect();
         let k_lo = ((lo / self.dr).floor() as usize).max(1);
         let k_hi = ((hi / self.dr).ceil() as usize).min(self.n_r - 2);
-        let Some(k) = (k_lo..=k_hi).filter(|&k| mean[k].is_finite()).max_by(|&a, &b| mean[a].total_cmp(&mean[b])) else { return false };
+        let Some(k) = (k_lo..=k_hi)
+            .filter(|&k| mean[k].is_finite())
+            .max_by(|&a, &b| mean[a].total_cmp(&mean[b]))
+        else {
+            return false;
+        };
         let (zm, zc, zp) = (mean[k - 1], mean[k], mean[k + 1]);
         if !(zm.is_finite() && zp.is_finite()) || k == k_lo || k == k_hi {
             return false;
         }
         let den = zm - 2.0 * zc + zp;
-        let off = if den < 0.0 { (0.5 * (zm - zp) / den).clamp(-0.5, 0.5) } else { 0.0 };
-        flank_meet(|j| mean[j], self.n_r, self.dr, k, px_m, zc - 0.25 * (zm - zp) * off, SHARP_OVERSHOOT_PX).is_some()
+        let off = if den < 0.0 {
+            (0.5 * (zm - zp) / den).clamp(-0.5, 0.5)
+        } else {
+            0.0
+        };
+        flank_meet(
+            |j| mean[j],
+            self.n_r,
+            self.dr,
+            k,
+            px_m,
+            zc - 0.25 * (zm - zp) * off,
+            SHARP_OVERSHOOT_PX,
+        )
+        .is_some()
     }
 }
 
@@ -227,7 +339,15 @@ const SHARP_OVERSHOOT_PX: f64 = 0.1;
 /// are clear of that. `None` if the flanks do not form a sharp peak near the highest sample:
 /// on a rim rounded over several pixels (a degraded crater) the lines meet well above the top
 /// and inside it, and the top of the profile is the better estimate.
-fn flank_meet(z: impl Fn(usize) -> f64, n_r: usize, dr: f64, k: usize, px_m: f64, z_peak: f64, overshoot_px: f64) -> Option<f64> {
+fn flank_meet(
+    z: impl Fn(usize) -> f64,
+    n_r: usize,
+    dr: f64,
+    k: usize,
+    px_m: f64,
+    z_peak: f64,
+    overshoot_px: f64,
+) -> Option<f64> {
     let j0 = ((px_m / dr).ceil() as usize).max(1);
     let j1 = ((2.0 * px_m / dr).ceil() as usize).max(j0 + 1);
     if k < j1 || k + j1 >= n_r {
@@ -263,6 +383,14 @@ fn flank_meet(z: impl Fn(usize) -> f64, n_r: usize, dr: f64, k: usize, px_m: f64
     let rk = k as f64 * dr;
     let overshoot = a1 + b1 * r - z_peak;
     (r.is_finite() && (r - rk).abs() <= px_m && overshoot <= overshoot_px * b1 * px_m).then_some(r)
+}
+
+/// Working lists of [`Profiles::regional`], kept from call to call.
+#[derive(Clone, Debug, Default)]
+pub struct RegionalBuffers {
+    pts: Vec<(f64, f64, f64)>,
+    res: Vec<f64>,
+    kept: Vec<(f64, f64, f64)>,
 }
 
 /// A rim-crest candidate on one profile; `z` is detrended height.
@@ -304,7 +432,11 @@ impl Surface {
         let (du, dv) = (d.0 / self.scale, d.1 / self.scale);
         let c = &self.c;
         let a = self.at(x, y);
-        let b = c[1] * du + c[2] * dv + 2.0 * c[3] * u0 * du + c[4] * (u0 * dv + v0 * du) + 2.0 * c[5] * v0 * dv;
+        let b = c[1] * du
+            + c[2] * dv
+            + 2.0 * c[3] * u0 * du
+            + c[4] * (u0 * dv + v0 * du)
+            + 2.0 * c[5] * v0 * dv;
         let cc = c[3] * du * du + c[4] * du * dv + c[5] * dv * dv;
         (a, b, cc)
     }
@@ -318,11 +450,17 @@ fn bilinear(heights: &[f32], w: usize, h: usize, c: f64, r: f64) -> f64 {
     if !(c >= 0.0 && r >= 0.0 && c <= (w - 1) as f64 && r <= (h - 1) as f64) {
         return f64::NAN;
     }
-    let (c0, r0) = ((c as usize).min(w - 2), (r as usize).min(h - 2));
+    // In range, so the casts truncate to the same whole numbers as `as usize`; through u32
+    // they skip the unsigned 64-bit conversion's fix-ups (windows are far narrower than 2^32).
+    let (c0, r0) = (
+        (c as u32 as usize).min(w - 2),
+        (r as u32 as usize).min(h - 2),
+    );
     let (fc, fr) = (c - c0 as f64, r - r0 as f64);
     let i = r0 * w + c0;
-    let (top, bottom) = (&heights[i..i + 2], &heights[i + w..i + w + 2]);
-    let (h00, h10, h01, h11) = (top[0] as f64, top[1] as f64, bottom[0] as f64, bottom[1] as f64);
+    // One bounds check for all four neighbours.
+    let q = &heights[i..i + w + 2];
+    let (h00, h10, h01, h11) = (q[0] as f64, q[1] as f64, q[w] as f64, q[w + 1] as f64);
     // NaN in any neighbour propagates, as nodata should.
     let upper = h00 + fc * (h10 - h00);
     let lower = h01 + fc * (h11 - h01);
@@ -339,8 +477,23 @@ mod tests {
     /// a bilinear sample returns the position it was taken at.
     fn index_grid(by_col: bool) -> ElevationGrid {
         let geometry = GridGeometry::global_simple_cylindrical(terrain::MOON_RADIUS_M, 4);
-        let heights_m = (0..720 * 1440).map(|k| if by_col { (k % 1440) as f32 } else { (k / 1440) as f32 }).collect();
-        ElevationGrid { geometry: Arc::new(geometry), col0: 0, row0: 0, width: 1440, height: 720, heights_m }
+        let heights_m = (0..720 * 1440)
+            .map(|k| {
+                if by_col {
+                    (k % 1440) as f32
+                } else {
+                    (k / 1440) as f32
+                }
+            })
+            .collect();
+        ElevationGrid {
+            geometry: Arc::new(geometry),
+            col0: 0,
+            row0: 0,
+            width: 1440,
+            height: 720,
+            heights_m,
+        }
     }
 
     #[test]
