@@ -144,12 +144,31 @@ fn criteria_with_every_kind_of_mistake_and_bad_rank_inputs_fail_cleanly() {
         ("all-zero-weights.toml", "every soft criterion has weight 0"),
         ("syntax-error.toml", "line 5"),
         ("future-version.toml", "version 9 is not supported"),
+        ("structure-focal-and-ratio.toml", "line 9: structure: give the paraboloid's focal_length_m or its f_over_d, not both"),
+        ("structure-too-many-anchors.toml", "line 7: structure: anchor_count must be from 3 to 12 (got 24)"),
+        ("structure-negative-aperture.toml", "line 14: structure: aperture_diameter_m must be a positive number of metres"),
+        ("structure-cap-without-radius.toml", "line 7: structure: shape = \"spherical_cap\" needs cap_radius_m"),
     ] {
         let c = corpus("criteria").join(file);
         fails_cleanly(&["rank", s, "--criteria", c.to_str().unwrap(), "--geojson", o], expect, Some(&out));
     }
     fails_cleanly(&["rank", corpus("future-schema-survey.json").to_str().unwrap(), "--geojson", o], "newer", Some(&out));
+    // Criteria asking for another dish than the survey's need its DEM to refit: a survey whose
+    // DEM is gone is refused with the places looked at and the way out.
+    let mut moved: serde_json::Value = serde_json::from_str(&std::fs::read_to_string(&survey).unwrap()).unwrap();
+    moved["input"]["path"] = "/nonexistent/farside-patch.tif".into();
+    let moved_path = d.path().join("moved.json");
+    std::fs::write(&moved_path, serde_json::to_string(&moved).unwrap()).unwrap();
+    let wide = d.path().join("wide.toml");
+    std::fs::write(&wide, format!("{}\n[structure]\naperture_diameter_m = 700.0\n", siting_default_criteria())).unwrap();
+    let args = ["rank", moved_path.to_str().unwrap(), "--criteria", wide.to_str().unwrap(), "--geojson", o];
+    fails_cleanly(&args, "/nonexistent/farside-patch.tif) was not found", Some(&out));
+    fails_cleanly(&args, "--dem FILE", Some(&out));
     std::fs::write(d.path().join("a-file"), b"x").unwrap();
     let blocked = d.path().join("a-file").join("x.gpkg");
     fails_cleanly(&["rank", s, "--gpkg", blocked.to_str().unwrap()], "cannot write", Some(&blocked));
+}
+
+fn siting_default_criteria() -> String {
+    std::fs::read_to_string(root().join("assets/criteria/reflector-1km.toml")).unwrap()
 }

@@ -36,18 +36,23 @@ impl Patch {
         let steps = (half_m / cell_m).ceil() as usize;
         let half_m = steps as f64 * cell_m;
         let n = 2 * steps + 1;
-        let to_window = |x: f64, y: f64| -> Option<(f64, f64)> {
+        // The net is kept in whole-raster pixel-centre coordinates and the window's origin is
+        // taken off only after interpolating: for an origin at or after the raster's first
+        // pixel that subtraction is exact, so any window holding the patch samples the very
+        // same heights (a refit reading a small window per crater reproduces the survey's fit,
+        // made on a whole tile, to the last bit).
+        let to_raster = |x: f64, y: f64| -> Option<(f64, f64)> {
             let (lon, lat) = frame.to_lonlat(x, y);
             let (c, r) = geom.lonlat_to_pixel(lon, lat)?;
-            // Window pixel-centre convention, as ElevationGrid::sample expects.
-            Some((c - 0.5 - grid.col0 as f64, r - 0.5 - grid.row0 as f64))
+            Some((c - 0.5, r - 0.5))
         };
+        let (col0, row0) = (grid.col0 as f64, grid.row0 as f64);
         let m = control_nodes(2.0 * half_m, geom.body_radius_m);
         let step = 2.0 * half_m / (m - 1) as f64;
         let mut nodes = Vec::with_capacity(m * m);
         for j in 0..m {
             for i in 0..m {
-                let p = to_window(-half_m + i as f64 * step, -half_m + j as f64 * step)?;
+                let p = to_raster(-half_m + i as f64 * step, -half_m + j as f64 * step)?;
                 if !(p.0.is_finite() && p.1.is_finite()) {
                     return None;
                 }
@@ -66,7 +71,8 @@ impl Patch {
                 let (p00, p10, p01, p11) = (nodes[k], nodes[k + 1], nodes[k + m], nodes[k + m + 1]);
                 let c = w[0] * p00.0 + w[1] * p10.0 + w[2] * p01.0 + w[3] * p11.0;
                 let r = w[0] * p00.1 + w[1] * p10.1 + w[2] * p01.1 + w[3] * p11.1;
-                heights_m.push(grid.sample(c, r).unwrap_or(f64::NAN));
+                // Window pixel-centre convention, as ElevationGrid::sample expects.
+                heights_m.push(grid.sample(c - col0, r - row0).unwrap_or(f64::NAN));
             }
         }
         Some(Patch { frame, cell_m, half_m, n, heights_m })

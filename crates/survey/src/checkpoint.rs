@@ -38,20 +38,37 @@ pub struct Checkpoint {
 }
 
 fn io_err(path: &Path, e: impl std::fmt::Display) -> SurveyError {
-    SurveyError::Io { path: path.display().to_string(), reason: e.to_string() }
+    SurveyError::Io {
+        path: path.display().to_string(),
+        reason: e.to_string(),
+    }
 }
 
 impl Checkpoint {
     /// Load the tiles an existing checkpoint of this same survey holds. A checkpoint of another
     /// survey at the same place is stale (its output path was reused) and is replaced.
-    pub fn open(path: &Path, input: &InputFile, parameters: &SurveyParameters, shard: Option<Shard>) -> Result<Checkpoint, SurveyError> {
-        let header = Header { checkpoint_version: CHECKPOINT_VERSION, input_sha256: input.sha256.clone(), parameters: parameters.clone(), shard };
+    pub fn open(
+        path: &Path,
+        input: &InputFile,
+        parameters: &SurveyParameters,
+        shard: Option<Shard>,
+    ) -> Result<Checkpoint, SurveyError> {
+        let header = Header {
+            checkpoint_version: CHECKPOINT_VERSION,
+            input_sha256: input.sha256.clone(),
+            parameters: parameters.clone(),
+            shard,
+        };
         let mut finished = BTreeMap::new();
         let mut discarded_stale = false;
         if path.exists() {
             let f = std::fs::File::open(path).map_err(|e| io_err(path, e))?;
             let mut lines = std::io::BufReader::new(f).lines();
-            let first = lines.next().transpose().map_err(|e| io_err(path, e))?.unwrap_or_default();
+            let first = lines
+                .next()
+                .transpose()
+                .map_err(|e| io_err(path, e))?
+                .unwrap_or_default();
             if serde_json::from_str::<Header>(&first).ok().as_ref() == Some(&header) {
                 for line in lines {
                     let Ok(line) = line else { break };
@@ -64,7 +81,13 @@ impl Checkpoint {
                 discarded_stale = true;
             }
         }
-        Ok(Checkpoint { path: path.to_path_buf(), header, file: None, finished, discarded_stale })
+        Ok(Checkpoint {
+            path: path.to_path_buf(),
+            header,
+            file: None,
+            finished,
+            discarded_stale,
+        })
     }
 
     pub fn finished(&self) -> &BTreeMap<usize, Vec<Found>> {
@@ -76,23 +99,46 @@ impl Checkpoint {
     pub fn record(&mut self, tile: usize, found: &[Found]) -> Result<(), SurveyError> {
         let path = self.path.clone();
         if self.file.is_none() {
-            let mut text = serde_json::to_string(&self.header).map_err(|e| io_err(&path, e))? + "\n";
+            let mut text =
+                serde_json::to_string(&self.header).map_err(|e| io_err(&path, e))? + "\n";
             for (t, f) in &self.finished {
-                text += &(serde_json::to_string(&TileLine { tile: *t, found: f.clone() }).map_err(|e| io_err(&path, e))? + "\n");
+                text += &(serde_json::to_string(&TileLine {
+                    tile: *t,
+                    found: f.clone(),
+                })
+                .map_err(|e| io_err(&path, e))?
+                    + "\n");
             }
             crate::io::write_atomic(&path, text.as_bytes()).map_err(|e| io_err(&path, e))?;
-            self.file = Some(std::fs::OpenOptions::new().append(true).open(&path).map_err(|e| io_err(&path, e))?);
+            self.file = Some(
+                std::fs::OpenOptions::new()
+                    .append(true)
+                    .open(&path)
+                    .map_err(|e| io_err(&path, e))?,
+            );
         }
-        let line = serde_json::to_string(&TileLine { tile, found: found.to_vec() }).map_err(|e| io_err(&path, e))? + "\n";
-        let file = self.file.as_mut().ok_or_else(|| io_err(&path, "checkpoint not open"))?;
-        file.write_all(line.as_bytes()).map_err(|e| io_err(&path, e))?;
+        let line = serde_json::to_string(&TileLine {
+            tile,
+            found: found.to_vec(),
+        })
+        .map_err(|e| io_err(&path, e))?
+            + "\n";
+        let file = self
+            .file
+            .as_mut()
+            .ok_or_else(|| io_err(&path, "checkpoint not open"))?;
+        file.write_all(line.as_bytes())
+            .map_err(|e| io_err(&path, e))?;
         file.sync_data().map_err(|e| io_err(&path, e))
     }
 }
 
 /// Where a survey written to `out` keeps its checkpoint.
 pub fn path_beside(out: &Path) -> PathBuf {
-    let mut name = out.file_name().map(|n| n.to_os_string()).unwrap_or_default();
+    let mut name = out
+        .file_name()
+        .map(|n| n.to_os_string())
+        .unwrap_or_default();
     name.push(".checkpoint");
     out.with_file_name(name)
 }

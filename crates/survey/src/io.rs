@@ -13,8 +13,17 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => std::path::PathBuf::from("."),
     };
-    let name = path.file_name().ok_or_else(|| std::io::Error::new(std::io::ErrorKind::InvalidInput, "the output path names no file"))?;
-    let tmp = dir.join(format!(".{}.{}.tmp", name.to_string_lossy(), std::process::id()));
+    let name = path.file_name().ok_or_else(|| {
+        std::io::Error::new(
+            std::io::ErrorKind::InvalidInput,
+            "the output path names no file",
+        )
+    })?;
+    let tmp = dir.join(format!(
+        ".{}.{}.tmp",
+        name.to_string_lossy(),
+        std::process::id()
+    ));
     let result = (|| {
         let mut f = std::fs::File::create(&tmp)?;
         f.write_all(bytes)?;
@@ -38,23 +47,44 @@ impl SurveyFile {
 
     /// Parse a survey file, refusing one from a newer schema with the reason.
     pub fn from_json(text: &str) -> Result<SurveyFile, SurveyError> {
-        let value: serde_json::Value = serde_json::from_str(text).map_err(|e| SurveyError::Parse(e.to_string()))?;
-        let version = value.get("schema_version").and_then(|v| v.as_u64()).ok_or_else(|| {
-            SurveyError::Parse("no schema_version: this is not a quietbowl survey file".into())
-        })?;
+        let value: serde_json::Value =
+            serde_json::from_str(text).map_err(|e| SurveyError::Parse(e.to_string()))?;
+        let version = value
+            .get("schema_version")
+            .and_then(|v| v.as_u64())
+            .ok_or_else(|| {
+                SurveyError::Parse("no schema_version: this is not a quietbowl survey file".into())
+            })?;
         if version > SCHEMA_VERSION as u64 {
-            return Err(SurveyError::FutureSchema { found: version, supported: SCHEMA_VERSION });
+            return Err(SurveyError::FutureSchema {
+                found: version,
+                supported: SCHEMA_VERSION,
+            });
         }
         // Version 1 is the first and only layout; older versions would be migrated here.
-        serde_json::from_value(value).map_err(|e| SurveyError::Parse(e.to_string()))
+        let survey: SurveyFile =
+            serde_json::from_value(value).map_err(|e| SurveyError::Parse(e.to_string()))?;
+        // Resuming and merging index tiles and shards by it: refuse a share that cannot be.
+        if let Some(shard) = survey.shard {
+            shard
+                .validate()
+                .map_err(|e| SurveyError::Parse(e.to_string()))?;
+        }
+        Ok(survey)
     }
 
     pub fn read(path: &Path) -> Result<SurveyFile, SurveyError> {
-        let text = std::fs::read_to_string(path).map_err(|e| SurveyError::Io { path: path.display().to_string(), reason: e.to_string() })?;
+        let text = std::fs::read_to_string(path).map_err(|e| SurveyError::Io {
+            path: path.display().to_string(),
+            reason: e.to_string(),
+        })?;
         SurveyFile::from_json(&text)
     }
 
     pub fn write(&self, path: &Path) -> Result<(), SurveyError> {
-        write_atomic(path, self.to_json().as_bytes()).map_err(|e| SurveyError::Io { path: path.display().to_string(), reason: e.to_string() })
+        write_atomic(path, self.to_json().as_bytes()).map_err(|e| SurveyError::Io {
+            path: path.display().to_string(),
+            reason: e.to_string(),
+        })
     }
 }

@@ -9,6 +9,7 @@ pub mod io;
 pub mod merge;
 pub mod metrics;
 pub mod model;
+pub mod refit;
 pub mod run;
 
 pub use error::SurveyError;
@@ -16,4 +17,5 @@ pub use io::write_atomic;
 pub use metrics::{metric, MetricInfo, METRICS};
 pub use merge::merge;
 pub use model::{Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+pub use refit::{fitted_for, locate_dem, refit, RefitProgress};
 pub use run::{into_candidates, run, Found, Progress, RunOptions, RunOutcome};

@@ -12,7 +12,9 @@ pub const SCHEMA_VERSION: u32 = 1;
 pub enum CandidateSource {
     Detected,
     /// Seeded from a catalogue row (1-based line or feature number in that file).
-    Catalogue { row: usize },
+    Catalogue {
+        row: usize,
+    },
 }
 
 /// One measured crater: the row of the survey table.
@@ -64,9 +66,17 @@ pub struct Shard {
 impl Shard {
     /// Parse `K/N`.
     pub fn parse(s: &str) -> Result<Shard, String> {
-        let (k, n) = s.split_once('/').ok_or_else(|| format!("'{s}' is not a shard; write K/N, e.g. 2/8"))?;
-        let k: usize = k.trim().parse().map_err(|_| format!("'{k}' is not a shard number"))?;
-        let n: usize = n.trim().parse().map_err(|_| format!("'{n}' is not a shard count"))?;
+        let (k, n) = s
+            .split_once('/')
+            .ok_or_else(|| format!("'{s}' is not a shard; write K/N, e.g. 2/8"))?;
+        let k: usize = k
+            .trim()
+            .parse()
+            .map_err(|_| format!("'{k}' is not a shard number"))?;
+        let n: usize = n
+            .trim()
+            .parse()
+            .map_err(|_| format!("'{n}' is not a shard count"))?;
         let shard = Shard { index: k, count: n };
         shard.validate().map_err(|e| e.to_string())?;
         Ok(shard)
@@ -74,7 +84,10 @@ impl Shard {
 
     pub fn validate(&self) -> Result<(), crate::SurveyError> {
         if self.count == 0 || self.index == 0 || self.index > self.count {
-            return Err(crate::SurveyError::Parameters(format!("shard {}/{}: K must lie in 1..N", self.index, self.count)));
+            return Err(crate::SurveyError::Parameters(format!(
+                "shard {}/{}: K must lie in 1..N",
+                self.index, self.count
+            )));
         }
         Ok(())
     }

@@ -8,7 +8,9 @@
 //! shards or resuming gives the same file as one uninterrupted run.
 
 use crate::checkpoint::Checkpoint;
-use crate::model::{Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+use crate::model::{
+    Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION,
+};
 use crate::SurveyError;
 use craters::catalogue::{self, CatalogueRow, OnBadRow, RowProblem};
 use craters::{CraterMeasurement, DetectOptions, MeasureOptions};
@@ -107,19 +109,31 @@ pub struct Found {
     pub fit: Option<structure::StructureFit>,
 }
 
-struct Tile {
-    index: usize,
-    col: usize,
-    row: usize,
-    width: usize,
-    height: usize,
+pub(crate) struct Tile {
+    pub index: usize,
+    pub col: usize,
+    pub row: usize,
+    pub width: usize,
+    pub height: usize,
 }
 
-fn tiles(width: usize, height: usize, tile_px: usize) -> Vec<Tile> {
+/// Pixels of halo read round each tile: the measurement's reach for the largest crater.
+/// `pixel_m` is the larger of the DEM's two pixel sizes at its centre.
+pub(crate) fn halo_px(pixel_m: f64, diameter_max_m: f64) -> usize {
+    (diameter_max_m / 2.0 * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 2
+}
+
+pub(crate) fn tiles(width: usize, height: usize, tile_px: usize) -> Vec<Tile> {
     let mut v = Vec::new();
     for row in (0..height).step_by(tile_px) {
         for col in (0..width).step_by(tile_px) {
-            v.push(Tile { index: v.len(), col, row, width: tile_px.min(width - col), height: tile_px.min(height - row) });
+            v.push(Tile {
+                index: v.len(),
+                col,
+                row,
+                width: tile_px.min(width - col),
+                height: tile_px.min(height - row),
+            });
         }
     }
     v
@@ -139,7 +153,11 @@ pub fn sha256_file(path: &Path) -> std::io::Result<(u64, String)> {
         size += n as u64;
         hasher.update(&buf[..n]);
     }
-    let hex = hasher.finalize().iter().map(|b| format!("{b:02x}")).collect();
+    let hex = hasher
+        .finalize()
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect();
     Ok((size, hex))
 }
 
@@ -147,38 +165,64 @@ pub fn sha256_file(path: &Path) -> std::io::Result<(u64, String)> {
 /// depends only on the craters, so any grouping of tiles gives the same table.
 pub fn into_candidates(mut found: Vec<Found>) -> Vec<Candidate> {
     found.sort_by(|a, b| {
-        b.crater.centre_lat_deg.total_cmp(&a.crater.centre_lat_deg)
+        b.crater
+            .centre_lat_deg
+            .total_cmp(&a.crater.centre_lat_deg)
             .then(a.crater.centre_lon_deg.total_cmp(&b.crater.centre_lon_deg))
             .then(a.crater.diameter_m.total_cmp(&b.crater.diameter_m))
     });
     found
         .into_iter()
         .enumerate()
-        .map(|(i, f)| Candidate { id: i as u32 + 1, source: f.source, crater: f.crater, visibility: f.visibility, fit: f.fit })
+        .map(|(i, f)| Candidate {
+            id: i as u32 + 1,
+            source: f.source,
+            crater: f.crater,
+            visibility: f.visibility,
+            fit: f.fit,
+        })
         .collect()
 }
 
 /// The parameters a run will use, resolved from the options and the DEM.
-fn resolve(info: &terrain::DemInfo, opts: &RunOptions) -> Result<(SurveyParameters, usize), SurveyError> {
+fn resolve(
+    info: &terrain::DemInfo,
+    opts: &RunOptions,
+) -> Result<(SurveyParameters, usize), SurveyError> {
     let (px_ew, px_ns) = info.pixel_size_m;
     let pixel_m = px_ew.max(px_ns);
     if !(pixel_m.is_finite() && pixel_m > 0.0) {
-        return Err(SurveyError::Parameters("the DEM's pixel size could not be worked out at its centre".into()));
+        return Err(SurveyError::Parameters(
+            "the DEM's pixel size could not be worked out at its centre".into(),
+        ));
     }
     if opts.tile_px < 64 {
-        return Err(SurveyError::Parameters(format!("tile size {} px is too small (64 at least)", opts.tile_px)));
+        return Err(SurveyError::Parameters(format!(
+            "tile size {} px is too small (64 at least)",
+            opts.tile_px
+        )));
     }
     let mut tile_px = opts.tile_px.min(info.width.max(info.height));
     let d_min = opts.diameter_min_m.unwrap_or(3.0 * pixel_m);
-    let d_max = opts.diameter_max_m.unwrap_or(tile_px as f64 / 3.0 * px_ew.min(px_ns));
+    let d_max = opts
+        .diameter_max_m
+        .unwrap_or(tile_px as f64 / 3.0 * px_ew.min(px_ns));
     let needed_px = (d_min * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 3;
     if info.width < needed_px || info.height < needed_px {
-        return Err(SurveyError::TooSmall { width: info.width, height: info.height, pixel_m, diameter_min_m: d_min, needed_px });
+        return Err(SurveyError::TooSmall {
+            width: info.width,
+            height: info.height,
+            pixel_m,
+            diameter_min_m: d_min,
+            needed_px,
+        });
     }
     if !(d_min > 0.0 && d_max >= d_min && d_max.is_finite()) {
-        return Err(SurveyError::Parameters(format!("diameter range {d_min}..{d_max} m is not a range of positive diameters")));
+        return Err(SurveyError::Parameters(format!(
+            "diameter range {d_min}..{d_max} m is not a range of positive diameters"
+        )));
     }
-    let halo_px = (d_max / 2.0 * MEASURE_REACH_RADII / pixel_m).ceil() as usize + 2;
+    let halo_px = halo_px(pixel_m, d_max);
     // Windows in flight at once: one per worker thread.
     let in_flight = rayon::current_num_threads().max(1);
     let window_budget_px = opts.memory_budget_bytes / BYTES_PER_WINDOW_PX / in_flight;
@@ -199,7 +243,8 @@ fn resolve(info: &terrain::DemInfo, opts: &RunOptions) -> Result<(SurveyParamete
         structure: opts.structure.clone(),
     };
     if let Some(spec) = &params.structure {
-        spec.validate().map_err(|e| SurveyError::Parameters(format!("structure: {e}")))?;
+        spec.validate()
+            .map_err(|e| SurveyError::Parameters(format!("structure: {e}")))?;
     }
     Ok((params, halo_px))
 }
@@ -207,7 +252,12 @@ fn resolve(info: &terrain::DemInfo, opts: &RunOptions) -> Result<(SurveyParamete
 /// Survey a DEM. `progress` is called after each tile; setting `cancel` stops the run between
 /// tiles with [`SurveyError::Cancelled`] (nothing is returned, so nothing half-made is written;
 /// finished tiles stay in the checkpoint if there is one).
-pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sync), cancel: &AtomicBool) -> Result<RunOutcome, SurveyError> {
+pub fn run(
+    dem_path: &Path,
+    opts: &RunOptions,
+    progress: &(dyn Fn(Progress) + Sync),
+    cancel: &AtomicBool,
+) -> Result<RunOutcome, SurveyError> {
     let dem = Dem::open(dem_path, &opts.open)?;
     let info = dem.info().clone();
     let (parameters, halo_px) = resolve(&info, opts)?;
@@ -218,7 +268,10 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
         Some(path) => catalogue::read_on(path, opts.catalogue_on_bad_row, info.body_radius_m)?,
         None => (Vec::new(), Vec::new()),
     };
-    let (size_bytes, sha256) = sha256_file(dem_path).map_err(|e| SurveyError::Io { path: dem_path.display().to_string(), reason: e.to_string() })?;
+    let (size_bytes, sha256) = sha256_file(dem_path).map_err(|e| SurveyError::Io {
+        path: dem_path.display().to_string(),
+        reason: e.to_string(),
+    })?;
     let input = InputFile {
         path: dem_path.display().to_string(),
         size_bytes,
@@ -229,15 +282,28 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
     };
 
     let all_tiles = tiles(info.width, info.height, parameters.tile_px);
-    let mine: Vec<&Tile> = all_tiles.iter().filter(|t| opts.shard.is_none_or(|s| s.owns(t.index))).collect();
+    let mine: Vec<&Tile> = all_tiles
+        .iter()
+        .filter(|t| opts.shard.is_none_or(|s| s.owns(t.index)))
+        .collect();
     let mut checkpoint = match &opts.checkpoint {
         Some(path) => Some(Checkpoint::open(path, &input, &parameters, opts.shard)?),
         None => None,
     };
-    let done_before = checkpoint.as_ref().map(|c| c.finished().clone()).unwrap_or_default();
-    let todo: Vec<&&Tile> = mine.iter().filter(|t| !done_before.contains_key(&t.index)).collect();
+    let done_before = checkpoint
+        .as_ref()
+        .map(|c| c.finished().clone())
+        .unwrap_or_default();
+    let todo: Vec<&&Tile> = mine
+        .iter()
+        .filter(|t| !done_before.contains_key(&t.index))
+        .collect();
 
-    let detect_opts = DetectOptions { diameter_min_m: parameters.diameter_min_m, diameter_max_m: parameters.diameter_max_m, ..DetectOptions::default() };
+    let detect_opts = DetectOptions {
+        diameter_min_m: parameters.diameter_min_m,
+        diameter_max_m: parameters.diameter_max_m,
+        ..DetectOptions::default()
+    };
     let measure_opts = MeasureOptions::default();
     let total = mine.len();
     let done = AtomicUsize::new(mine.len() - todo.len());
@@ -248,73 +314,132 @@ pub fn run(dem_path: &Path, opts: &RunOptions, progress: &(dyn Fn(Progress) + Sy
     let checkpoint_lock = Mutex::new(checkpoint.as_mut());
     let computed = Mutex::new(Vec::<(usize, Vec<Found>)>::new());
 
-    todo.par_iter().try_for_each(|t| -> Result<(), SurveyError> {
-        if cancel.load(Ordering::Relaxed) {
-            return Err(SurveyError::Cancelled);
-        }
-        let window = dem.read_window(t.col as isize - halo_px as isize, t.row as isize - halo_px as isize, t.width + 2 * halo_px, t.height + 2 * halo_px)?;
-        // A crater belongs to the tile whose core holds its centre.
-        let owns = |lon: f64, lat: f64| {
-            geometry.lonlat_to_pixel(lon, lat).is_some_and(|(c, r)| {
-                c >= t.col as f64 && c < (t.col + t.width) as f64 && r >= t.row as f64 && r < (t.row + t.height) as f64
-            })
-        };
-        let core_valid = (halo_px..halo_px + t.height)
-            .map(|r| window.heights_m[r * window.width + halo_px..r * window.width + halo_px + t.width].iter().filter(|h| !h.is_nan()).count() as u64)
-            .sum::<u64>();
-        valid_px.fetch_add(core_valid, Ordering::Relaxed);
-        let mut here: Vec<(CandidateSource, CraterMeasurement)> = Vec::new();
-        if opts.detect && window.valid_fraction() > 0.0 {
-            match craters::survey_grid(&window, &detect_opts, &measure_opts) {
-                Ok(v) => here.extend(v.into_iter().filter(|m| owns(m.centre_lon_deg, m.centre_lat_deg)).map(|m| (CandidateSource::Detected, m))),
-                Err(craters::CraterError::AllNodata) => {}
-                Err(e) => return Err(e.into()),
+    todo.par_iter()
+        .try_for_each(|t| -> Result<(), SurveyError> {
+            if cancel.load(Ordering::Relaxed) {
+                return Err(SurveyError::Cancelled);
             }
-        }
-        let tile_seeds: Vec<&CatalogueRow> = seeds.iter().filter(|s| owns(s.lon_deg, s.lat_deg)).collect();
-        here.extend(
-            tile_seeds
-                .par_iter()
-                .filter_map(|s| {
-                    craters::measure(&window, s.lon_deg, s.lat_deg, s.diameter_m, &measure_opts).ok().map(|m| (CandidateSource::Catalogue { row: s.line }, m))
+            let window = dem.read_window(
+                t.col as isize - halo_px as isize,
+                t.row as isize - halo_px as isize,
+                t.width + 2 * halo_px,
+                t.height + 2 * halo_px,
+            )?;
+            // A crater belongs to the tile whose core holds its centre.
+            let owns = |lon: f64, lat: f64| {
+                geometry.lonlat_to_pixel(lon, lat).is_some_and(|(c, r)| {
+                    c >= t.col as f64
+                        && c < (t.col + t.width) as f64
+                        && r >= t.row as f64
+                        && r < (t.row + t.height) as f64
                 })
-                .collect::<Vec<_>>(),
-        );
-        let vis: Vec<Option<SiteVisibility>> = if opts.visibility {
-            let sites: Vec<(f64, f64)> = here.iter().map(|(_, m)| (m.centre_lon_deg, m.centre_lat_deg)).collect();
-            visibility::bulk(&sites, Some(&window), &opts.visibility_options).into_iter().map(Some).collect()
-        } else {
-            vec![None; here.len()]
-        };
-        let fits: Vec<Option<structure::StructureFit>> = match &parameters.structure {
-            Some(spec) => here.par_iter().map(|(_, m)| structure::fit(&window, m, spec).ok()).collect(),
-            None => vec![None; here.len()],
-        };
-        let found: Vec<Found> = here
-            .into_iter()
-            .zip(vis)
-            .zip(fits)
-            .map(|(((source, crater), visibility), fit)| Found { source, crater, visibility, fit })
-            .collect();
-        if let Some(cp) = checkpoint_lock.lock().unwrap_or_else(|p| p.into_inner()).as_mut() {
-            cp.record(t.index, &found)?;
-        }
-        let n = candidates_so_far.fetch_add(found.len(), Ordering::Relaxed) + found.len();
-        computed.lock().unwrap_or_else(|p| p.into_inner()).push((t.index, found));
-        let d = done.fetch_add(1, Ordering::Relaxed) + 1;
-        let px = (t.width * t.height) as u64;
-        let p = pixels_done.fetch_add(px, Ordering::Relaxed) + px;
-        progress(Progress { tiles_done: d, tiles_total: total, candidates: n, pixels_done: p });
-        Ok(())
-    })?;
+            };
+            let core_valid = (halo_px..halo_px + t.height)
+                .map(|r| {
+                    window.heights_m
+                        [r * window.width + halo_px..r * window.width + halo_px + t.width]
+                        .iter()
+                        .filter(|h| !h.is_nan())
+                        .count() as u64
+                })
+                .sum::<u64>();
+            valid_px.fetch_add(core_valid, Ordering::Relaxed);
+            let mut here: Vec<(CandidateSource, CraterMeasurement)> = Vec::new();
+            if opts.detect && window.valid_fraction() > 0.0 {
+                match craters::survey_grid(&window, &detect_opts, &measure_opts) {
+                    Ok(v) => here.extend(
+                        v.into_iter()
+                            .filter(|m| owns(m.centre_lon_deg, m.centre_lat_deg))
+                            .map(|m| (CandidateSource::Detected, m)),
+                    ),
+                    Err(craters::CraterError::AllNodata) => {}
+                    Err(e) => return Err(e.into()),
+                }
+            }
+            let tile_seeds: Vec<&CatalogueRow> = seeds
+                .iter()
+                .filter(|s| owns(s.lon_deg, s.lat_deg))
+                .collect();
+            here.extend(
+                tile_seeds
+                    .par_iter()
+                    .filter_map(|s| {
+                        craters::measure(&window, s.lon_deg, s.lat_deg, s.diameter_m, &measure_opts)
+                            .ok()
+                            .map(|m| (CandidateSource::Catalogue { row: s.line }, m))
+                    })
+                    .collect::<Vec<_>>(),
+            );
+            let vis: Vec<Option<SiteVisibility>> = if opts.visibility {
+                let sites: Vec<(f64, f64)> = here
+                    .iter()
+                    .map(|(_, m)| (m.centre_lon_deg, m.centre_lat_deg))
+                    .collect();
+                visibility::bulk(&sites, Some(&window), &opts.visibility_options)
+                    .into_iter()
+                    .map(Some)
+                    .collect()
+            } else {
+                vec![None; here.len()]
+            };
+            let fits: Vec<Option<structure::StructureFit>> = match &parameters.structure {
+                Some(spec) => here
+                    .par_iter()
+                    .map(|(_, m)| structure::fit(&window, m, spec).ok())
+                    .collect(),
+                None => vec![None; here.len()],
+            };
+            let found: Vec<Found> = here
+                .into_iter()
+                .zip(vis)
+                .zip(fits)
+                .map(|(((source, crater), visibility), fit)| Found {
+                    source,
+                    crater,
+                    visibility,
+                    fit,
+                })
+                .collect();
+            if let Some(cp) = checkpoint_lock
+                .lock()
+                .unwrap_or_else(|p| p.into_inner())
+                .as_mut()
+            {
+                cp.record(t.index, &found)?;
+            }
+            let n = candidates_so_far.fetch_add(found.len(), Ordering::Relaxed) + found.len();
+            computed
+                .lock()
+                .unwrap_or_else(|p| p.into_inner())
+                .push((t.index, found));
+            let d = done.fetch_add(1, Ordering::Relaxed) + 1;
+            let px = (t.width * t.height) as u64;
+            let p = pixels_done.fetch_add(px, Ordering::Relaxed) + px;
+            progress(Progress {
+                tiles_done: d,
+                tiles_total: total,
+                candidates: n,
+                pixels_done: p,
+            });
+            Ok(())
+        })?;
 
     // A whole survey of a raster without a single height is a mistake worth stopping for; one
     // empty shard among many is not.
     if opts.shard.is_none() && done_before.is_empty() && valid_px.into_inner() == 0 {
-        return Err(terrain::TerrainError::AllNodata { path: dem_path.to_path_buf() }.into());
+        return Err(terrain::TerrainError::AllNodata {
+            path: dem_path.to_path_buf(),
+        }
+        .into());
     }
     let mut found: Vec<Found> = done_before.into_values().flatten().collect();
-    found.extend(computed.into_inner().unwrap_or_else(|p| p.into_inner()).into_iter().flat_map(|(_, f)| f));
+    found.extend(
+        computed
+            .into_inner()
+            .unwrap_or_else(|p| p.into_inner())
+            .into_iter()
+            .flat_map(|(_, f)| f),
+    );
     let survey = SurveyFile {
         schema_version: SCHEMA_VERSION,
         tool_version: env!("CARGO_PKG_VERSION").to_string(),

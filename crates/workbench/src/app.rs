@@ -233,12 +233,13 @@ impl WorkbenchApp {
             PromptPurpose::Open => self.open_path(ctx, &path),
             PromptPurpose::LoadCriteria => self.load_criteria(&path),
             PromptPurpose::SaveCriteria => {
-                self.status =
-                    match crate::write_atomically(&path, self.session.criteria.to_toml().as_bytes())
-                    {
-                        Ok(()) => format!("Criteria saved to {}", path.display()),
-                        Err(e) => format!("Could not save criteria: {e}"),
-                    }
+                self.status = match crate::write_atomically(
+                    &path,
+                    self.session.criteria_to_save().to_toml().as_bytes(),
+                ) {
+                    Ok(()) => format!("Criteria saved to {}", path.display()),
+                    Err(e) => format!("Could not save criteria: {e}"),
+                }
             }
             PromptPurpose::SaveStudy => {
                 self.status = match self.session.to_study().map(|s| s.save(&path)) {
@@ -364,6 +365,8 @@ impl WorkbenchApp {
             .resizable(true)
             .default_size(320.0)
             .show(ui, |ui| {
+                self.criteria.reflector.open_dem =
+                    self.terrain.as_ref().map(|t| t.dem.info().path.clone());
                 self.criteria.ui(ui, &mut self.session);
             });
         match self.criteria.request.take() {

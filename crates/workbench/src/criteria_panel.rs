@@ -1,8 +1,10 @@
 //! "Weights and limits": every hard requirement and every weighted criterion of the criteria
-//! file, with sliders and typed entry. Any change re-ranks in the same frame, before the map and
-//! the list are drawn.
+//! file, with sliders and typed entry, and the reflector to fit ([`ReflectorEditor`]). Any
+//! change re-ranks in the same frame, before the map and the list are drawn; a new reflector
+//! refits the survey in the background first.
 
 use crate::engine::Criteria;
+use crate::reflector_editor::ReflectorEditor;
 use crate::session::Session;
 use egui::{Color32, RichText};
 use survey::METRICS;
@@ -17,6 +19,8 @@ pub struct CriteriaPanel {
     ranges_for: usize,
     /// What the panel asks the app to do with files.
     pub request: Option<CriteriaRequest>,
+    /// The `[structure]` of the criteria and its refit.
+    pub reflector: ReflectorEditor,
 }
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -84,6 +88,7 @@ impl CriteriaPanel {
     }
 
     pub fn ui(&mut self, ui: &mut egui::Ui, session: &mut Session) {
+        self.reflector.poll(session);
         self.refresh_ranges(session);
         let mut edited = session.criteria.clone();
         ui.heading("Weights and limits");
@@ -136,6 +141,11 @@ impl CriteriaPanel {
                     });
                 });
             }
+            ui.add_space(8.0);
+            egui::CollapsingHeader::new(RichText::new("Reflector to fit").strong())
+                .id_salt("reflector-to-fit")
+                .default_open(true)
+                .show(ui, |ui| self.reflector.ui(ui, session, &mut edited));
             ui.add_space(8.0);
             ui.horizontal_wrapped(|ui| {
                 if ui.button("Save criteria…").clicked() {

@@ -36,7 +36,34 @@ impl Ranking {
     }
 
     pub fn passing_count(&self) -> usize {
-        self.pass.iter().filter(|p| **p).count()
+        if self.order.len() == self.pass.len() {
+            // `order` lists every passing candidate before any failed one.
+            self.order
+                .partition_point(|&i| self.pass.get(i as usize).copied().unwrap_or(false))
+        } else {
+            self.pass.iter().filter(|p| **p).count()
+        }
+    }
+
+    /// Lowest and highest score among passing candidates, if any pass. `order` sorts those
+    /// that pass by score, so its ends give the range without reading every score.
+    pub fn passing_score_range(&self) -> Option<(f64, f64)> {
+        if self.order.len() == self.pass.len() && self.score.len() == self.pass.len() {
+            let n = self.passing_count();
+            let at = |k: usize| {
+                let i = *self.order.get(k)? as usize;
+                self.score.get(i).copied()
+            };
+            return if n > 0 { at(n - 1).zip(at(0)) } else { None };
+        }
+        self.score
+            .iter()
+            .zip(&self.pass)
+            .filter(|(_, p)| **p)
+            .fold(None, |r, (s, _)| {
+                let (lo, hi) = r.unwrap_or((*s, *s));
+                Some((lo.min(*s), hi.max(*s)))
+            })
     }
 }
 
@@ -63,18 +90,37 @@ pub fn rank(
     criteria: &Criteria,
     generation: u64,
 ) -> Result<Ranking, String> {
+    let mut out = Ranking::default();
+    rank_into(table, criteria, generation, &mut out)?;
+    Ok(out)
+}
+
+/// [`rank`] into an earlier ranking, re-using its buffers (a weight drag re-ranks every
+/// frame: fresh megabytes each time cost more than filling old ones). Left as it was on error.
+pub fn rank_into(
+    table: &PreparedTable,
+    criteria: &Criteria,
+    generation: u64,
+    out: &mut Ranking,
+) -> Result<(), String> {
     let full = siting::rank(table, criteria).map_err(|e| e.to_string())?;
     let n = full.scores.len();
-    let pass: Vec<bool> = (0..n).map(|i| table.passed(i)).collect();
-    let rank = (0..n).map(|i| pass[i].then_some(full.ranks[i])).collect();
-    Ok(Ranking {
-        score: full.scores.clone(),
-        pass,
-        rank,
-        order: full.order.clone(),
-        generation,
-        full: Some(Arc::new(full)),
-    })
+    out.pass.clear();
+    out.pass.extend((0..n).map(|i| table.passed(i)));
+    out.rank.clear();
+    out.rank.extend(
+        out.pass
+            .iter()
+            .zip(&full.ranks)
+            .map(|(p, r)| p.then_some(*r)),
+    );
+    out.score.clear();
+    out.score.extend_from_slice(&full.scores);
+    out.order.clear();
+    out.order.extend_from_slice(&full.order);
+    out.generation = generation;
+    out.full = Some(Arc::new(full));
+    Ok(())
 }
 
 /// One readable line per requirement a candidate misses.
@@ -119,7 +165,11 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
     else {
         return Err("Nothing to export: no ranked survey.".into());
     };
-    let provenance = siting::Provenance::new(survey, session.criteria.to_toml(), siting::export::date::today());
+    let provenance = siting::Provenance::new(
+        survey,
+        session.criteria.to_toml(),
+        siting::export::date::today(),
+    );
     let limit = req.passing_only.then(|| session.ranking.passing_count());
     let smaa = session
         .smaa

@@ -56,7 +56,7 @@ impl FitView {
     ) {
         let Some(fit) = &c.fit else {
             match spec {
-                None => ui.label("No structure in this survey: add a structure section to the criteria and run the survey again to see where a reflector would hang."),
+                None => ui.label("No reflector fits in this survey: set the reflector under \"Reflector to fit\" (Weights and limits) and apply to see where it would hang."),
                 Some(_) => ui.colored_label(FAIL_COLOUR, "The crater could not be fitted: the survey recorded no placement for it (too little elevation data around it)."),
             };
             if let Some(s) = spec {

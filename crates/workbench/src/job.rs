@@ -1,5 +1,5 @@
-//! Long work off the UI thread (reading a large survey, running a survey): progress, cancel,
-//! and a result picked up by the frame that finds it ready.
+//! Long work off the UI thread (reading a large survey, running a survey, refitting the
+//! reflector): progress, cancel, and a result picked up by the frame that finds it ready.
 
 use std::path::PathBuf;
 use std::sync::atomic::{AtomicBool, AtomicU32, Ordering};
@@ -110,6 +110,30 @@ pub fn run_survey(runner: SurveyRunner, dem_path: PathBuf, ctx: &egui::Context) 
         _ if ctl.cancelled() => JobOutcome::Cancelled,
         Ok(survey) => JobOutcome::Survey { survey, path: None },
         Err(e) => JobOutcome::Failed(format!("The survey of {} failed: {e}", dem_path.display())),
+    })
+}
+
+/// Fit another reflector into every candidate of a survey in the background (the survey
+/// library's refit, on the survey's DEM). The result comes back as a survey without a path.
+pub fn refit_survey(
+    survey: Arc<SurveyFile>,
+    dem_path: PathBuf,
+    spec: structure::StructureSpec,
+    ctx: &egui::Context,
+) -> Job {
+    let title = format!("Refitting {} candidates", survey.candidates.len());
+    Job::spawn(title, ctx, move |ctl| {
+        let progress = |p: survey::RefitProgress| {
+            if p.candidates_total > 0 {
+                ctl.set_progress(p.candidates_done as f32 / p.candidates_total as f32);
+            }
+        };
+        let cancel = ctl.cancel_flag();
+        match survey::refit(&survey, &dem_path, &spec, &progress, &cancel) {
+            Ok(survey) => JobOutcome::Survey { survey, path: None },
+            Err(survey::SurveyError::RefitCancelled) => JobOutcome::Cancelled,
+            Err(e) => JobOutcome::Failed(format!("The refit failed: {e}")),
+        }
     })
 }
 

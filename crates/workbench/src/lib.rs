@@ -19,6 +19,7 @@ pub mod marks;
 pub mod open_dialog;
 pub mod profiles;
 pub mod pyramid;
+pub mod reflector_editor;
 pub mod session;
 pub mod shading;
 pub mod sky_view;

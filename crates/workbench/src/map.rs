@@ -194,15 +194,34 @@ impl MapView {
     }
 
     /// The selected candidate's aperture edge and rim anchors, as the survey's fit placed them.
-    fn draw_placed_reflector(&self, painter: &egui::Painter, session: &Session, geom: &GridGeometry, rect: Rect) {
-        let Some(fit) = session.selected.and_then(|i| session.candidate(i)).and_then(|c| c.fit.as_ref()) else {
+    fn draw_placed_reflector(
+        &self,
+        painter: &egui::Painter,
+        session: &Session,
+        geom: &GridGeometry,
+        rect: Rect,
+    ) {
+        let Some(fit) = session
+            .selected
+            .and_then(|i| session.candidate(i))
+            .and_then(|c| c.fit.as_ref())
+        else {
             return;
         };
         let at = |lon: f64, lat: f64| {
-            geom.lonlat_to_pixel(lon, lat).map(|(c, r)| self.to_screen(rect, [c, r]))
+            geom.lonlat_to_pixel(lon, lat)
+                .map(|(c, r)| self.to_screen(rect, [c, r]))
         };
-        let ring: Vec<Pos2> = fit.aperture_outline_lonlat.iter().filter_map(|&(lon, lat)| at(lon, lat)).collect();
-        let colour = if fit.fit_ok { Color32::WHITE } else { Color32::from_rgb(240, 140, 120) };
+        let ring: Vec<Pos2> = fit
+            .aperture_outline_lonlat
+            .iter()
+            .filter_map(|&(lon, lat)| at(lon, lat))
+            .collect();
+        let colour = if fit.fit_ok {
+            Color32::WHITE
+        } else {
+            Color32::from_rgb(240, 140, 120)
+        };
         painter.add(egui::Shape::line(ring, Stroke::new(1.5, colour)));
         for a in &fit.anchors {
             if let Some(p) = at(a.lon_deg, a.lat_deg) {

@@ -1,18 +1,33 @@
 //! Candidate rims on the map: positions cached in source pixels once per survey and frame of
 //! reference, drawn as their fitted ellipses coloured by score, failed ones dimmed.
+//!
+//! A survey may hold hundreds of thousands of candidates, so the drawing is built in stages,
+//! each kept until what it depends on changes:
+//! - marks and a grid index of their centres: per survey and frame of reference;
+//! - which candidates are in view: per view (centre, zoom, rectangle), found through the grid;
+//! - which of those are drawn (the best-ranked `MARK_BUDGET`) and the finished triangles of
+//!   all of them in one mesh: per view and ranking.
+//!
+//! An unchanged frame (hover, animation, a repaint) re-uses the mesh as it is.
 
 use crate::session::Session;
 use crate::shading::score_colour;
-use egui::{Color32, Painter, Pos2, Rect, Shape, Stroke};
+use egui::epaint::{Mesh, Vertex, WHITE_UV};
+use egui::{Color32, Painter, Pos2, Rect, Shape, Stroke, Vec2};
 use std::sync::Arc;
 use terrain::GridGeometry;
 
 /// Below this many visible candidates every rim is drawn as an outline; above it, small rims
-/// are drawn as dots so a dense survey stays readable and fast.
+/// and all but the best `OUTLINE_BUDGET` are drawn as dots so a dense view stays readable and
+/// fast.
 const OUTLINE_BUDGET: usize = 6_000;
 /// At most this many marks are drawn in one frame (the best-ranked visible ones), so a view of
 /// a whole large survey stays fluid; zooming in brings the rest into view.
 const MARK_BUDGET: usize = 20_000;
+/// Side of a dot, points: the area of a disc of radius 1.5.
+const DOT_SIDE_PT: f32 = 2.66;
+/// Cells along each side of the grid index of mark centres.
+const GRID_SIDE: usize = 256;
 
 #[derive(Clone, Copy)]
 struct Mark {
@@ -25,13 +40,129 @@ struct Mark {
     azimuth_rad: f32,
 }
 
+impl Mark {
+    /// Semi-major axis in source pixels (east-west scale).
+    fn radius_px(&self) -> f32 {
+        self.semi_major_m / self.px_m[0].max(1e-6)
+    }
+}
+
+/// Mark centres bucketed on a regular grid of source pixels (compressed rows: the candidates
+/// of cell k are `items[start[k]..start[k + 1]]`).
+#[derive(Default)]
+struct GridIndex {
+    origin: [f32; 2],
+    cell_px: [f32; 2],
+    start: Vec<u32>,
+    items: Vec<u32>,
+    /// Largest semi-major axis of any mark, source pixels: how far a rim reaches out of its cell.
+    max_radius_px: f32,
+}
+
+impl GridIndex {
+    fn build(marks: &[Option<Mark>]) -> GridIndex {
+        let (mut lo, mut hi) = ([f32::INFINITY; 2], [f32::NEG_INFINITY; 2]);
+        let mut max_radius_px = 0.0f32;
+        for m in marks.iter().flatten() {
+            for k in 0..2 {
+                lo[k] = lo[k].min(m.pos[k]);
+                hi[k] = hi[k].max(m.pos[k]);
+            }
+            let r = m.radius_px();
+            if r.is_finite() {
+                max_radius_px = max_radius_px.max(r);
+            }
+        }
+        if lo[0] > hi[0] {
+            return GridIndex::default();
+        }
+        let cell_px = [
+            ((hi[0] - lo[0]) / GRID_SIDE as f32).max(1e-3),
+            ((hi[1] - lo[1]) / GRID_SIDE as f32).max(1e-3),
+        ];
+        let mut g = GridIndex {
+            origin: lo,
+            cell_px,
+            start: vec![0; GRID_SIDE * GRID_SIDE + 1],
+            items: vec![0; marks.iter().flatten().count()],
+            max_radius_px,
+        };
+        let cells: Vec<Option<usize>> = marks.iter().map(|m| m.map(|m| g.cell_of(m.pos))).collect();
+        for c in cells.iter().flatten() {
+            g.start[c + 1] += 1;
+        }
+        for k in 0..GRID_SIDE * GRID_SIDE {
+            g.start[k + 1] += g.start[k];
+        }
+        let mut fill = g.start.clone();
+        for (i, c) in cells.iter().enumerate() {
+            if let Some(c) = c {
+                g.items[fill[*c] as usize] = i as u32;
+                fill[*c] += 1;
+            }
+        }
+        g
+    }
+
+    fn axis_cell(&self, v: f32, k: usize) -> usize {
+        (((v - self.origin[k]) / self.cell_px[k]).floor().max(0.0) as usize).min(GRID_SIDE - 1)
+    }
+
+    fn cell_of(&self, p: [f32; 2]) -> usize {
+        self.axis_cell(p[1], 1) * GRID_SIDE + self.axis_cell(p[0], 0)
+    }
+
+    /// Call `f` with every candidate whose centre lies in a cell touching the source-pixel
+    /// rectangle `[min col, min row, max col, max row]`.
+    fn for_each_near(&self, b: [f32; 4], mut f: impl FnMut(u32)) {
+        if self.start.is_empty() || !(b[0] <= b[2] && b[1] <= b[3]) {
+            return;
+        }
+        let (c0, c1) = (self.axis_cell(b[0], 0), self.axis_cell(b[2], 0));
+        let (r0, r1) = (self.axis_cell(b[1], 1), self.axis_cell(b[3], 1));
+        for r in r0..=r1 {
+            let (a, z) = (
+                self.start[r * GRID_SIDE + c0] as usize,
+                self.start[r * GRID_SIDE + c1 + 1] as usize,
+            );
+            self.items[a..z].iter().for_each(|&i| f(i));
+        }
+    }
+}
+
+/// What the in-view set was found for: the view, bit for bit.
+#[derive(Clone, Copy, PartialEq)]
+struct ViewKey {
+    rect: [f32; 4],
+    centre_px: [u64; 2],
+    zoom: u64,
+}
+
+/// What the mesh was built for: the view, the ranking, the resolution and the survey.
+#[derive(Clone, Copy, PartialEq)]
+struct MeshKey {
+    view: ViewKey,
+    ranking: u64,
+    pixels_per_point: u32,
+    built_for: (usize, usize),
+}
+
 #[derive(Default)]
 pub struct CandidateMarks {
     marks: Vec<Option<Mark>>,
+    grid: GridIndex,
     /// Identity of what the cache was built for: survey pointer and frame pointer.
     built_for: Option<(usize, usize)>,
     score_range: (f64, f64),
     score_generation: u64,
+    /// Per candidate: in view (set for the view `in_view_for`).
+    in_view: Vec<bool>,
+    /// The candidates in view, by index.
+    in_view_list: Vec<u32>,
+    in_view_for: Option<ViewKey>,
+    /// Candidates drawn, best first.
+    drawn: Vec<u32>,
+    mesh: Option<(MeshKey, Arc<Mesh>)>,
 }
 
 pub struct MarkStyle {
@@ -40,11 +171,37 @@ pub struct MarkStyle {
     pub zoom: f64,
 }
 
+impl MarkStyle {
+    fn key(&self) -> ViewKey {
+        ViewKey {
+            rect: [
+                self.rect.min.x,
+                self.rect.min.y,
+                self.rect.max.x,
+                self.rect.max.y,
+            ],
+            centre_px: [self.centre_px[0].to_bits(), self.centre_px[1].to_bits()],
+            zoom: self.zoom.to_bits(),
+        }
+    }
+
+    fn to_screen(&self, p: [f32; 2]) -> Pos2 {
+        let (c, z) = (self.rect.center(), self.zoom as f32);
+        Pos2::new(
+            c.x + (p[0] - self.centre_px[0] as f32) * z,
+            c.y + (p[1] - self.centre_px[1] as f32) * z,
+        )
+    }
+}
+
 impl CandidateMarks {
     fn refresh(&mut self, session: &Session, geom: &Arc<GridGeometry>) {
         let Some(survey) = &session.survey else {
             self.marks.clear();
+            self.grid = GridIndex::default();
             self.built_for = None;
+            self.in_view_for = None;
+            self.mesh = None;
             return;
         };
         let key = (Arc::as_ptr(survey) as usize, Arc::as_ptr(geom) as usize);
@@ -70,19 +227,17 @@ impl CandidateMarks {
                     })
                 })
                 .collect();
+            self.grid = GridIndex::build(&self.marks);
             self.built_for = Some(key);
             self.score_generation = u64::MAX;
+            self.in_view_for = None;
+            self.mesh = None;
         }
         if self.score_generation != session.ranking.generation {
             let r = &session.ranking;
             let (lo, hi) = r
-                .score
-                .iter()
-                .zip(&r.pass)
-                .filter(|(_, p)| **p)
-                .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), (s, _)| {
-                    (a.min(*s), b.max(*s))
-                });
+                .passing_score_range()
+                .unwrap_or((f64::INFINITY, f64::NEG_INFINITY));
             self.score_range = if lo < hi { (lo, hi) } else { (0.0, 1.0) };
             self.score_generation = r.generation;
         }
@@ -99,6 +254,151 @@ impl CandidateMarks {
         self.marks.get(index).copied().flatten().map(|m| m.pos)
     }
 
+    /// Find the candidates in view: those whose rim reaches within 40 points of the map.
+    fn find_in_view(&mut self, view: &MarkStyle) {
+        let key = view.key();
+        if self.in_view_for == Some(key) {
+            return;
+        }
+        let z = view.zoom as f32;
+        let cull = view.rect.expand(40.0);
+        let is_visible = |m: &Mark| {
+            cull.expand(m.radius_px() * z)
+                .contains(view.to_screen(m.pos))
+        };
+        self.in_view.clear();
+        self.in_view.resize(self.marks.len(), false);
+        // The grid is asked for every centre that a rim of the largest size could reach the
+        // view from; each is then tested exactly.
+        let (c, reach) = (view.rect.center(), self.grid.max_radius_px);
+        let src = |p: Pos2| {
+            [
+                view.centre_px[0] as f32 + (p.x - c.x) / z,
+                view.centre_px[1] as f32 + (p.y - c.y) / z,
+            ]
+        };
+        let (a, b) = (src(cull.min), src(cull.max));
+        let bounds = [a[0] - reach, a[1] - reach, b[0] + reach, b[1] + reach];
+        let (marks, in_view) = (&self.marks, &mut self.in_view);
+        self.grid.for_each_near(bounds, |i| {
+            if let Some(m) = &marks[i as usize] {
+                in_view[i as usize] = is_visible(m);
+            }
+        });
+        self.in_view_list.clear();
+        self.in_view_list.extend(
+            self.in_view
+                .iter()
+                .enumerate()
+                .filter(|(_, v)| **v)
+                .map(|(i, _)| i as u32),
+        );
+        self.in_view_for = Some(key);
+    }
+
+    /// The candidates to draw, best first: the first `MARK_BUDGET` in view in ranking order
+    /// (survey order while the ranking does not cover the survey).
+    fn choose_drawn(&mut self, session: &Session) {
+        let ranking = &session.ranking;
+        self.drawn.clear();
+        if ranking.order.len() != self.marks.len() {
+            self.drawn
+                .extend(self.in_view_list.iter().take(MARK_BUDGET));
+            return;
+        }
+        // A candidate's 1-based place in `order` (the library's rank covers failed ones too).
+        let places = ranking
+            .full
+            .as_ref()
+            .map(|f| &f.ranks)
+            .filter(|r| r.len() == self.marks.len());
+        match places {
+            // Few in view: sort them by their place in the ranking.
+            Some(place) if self.in_view_list.len() <= MARK_BUDGET => {
+                self.drawn.extend_from_slice(&self.in_view_list);
+                self.drawn.sort_unstable_by_key(|&i| place[i as usize]);
+            }
+            // Many: walk the ranking until the budget is full.
+            _ => {
+                for &i in &ranking.order {
+                    if self.in_view.get(i as usize).copied().unwrap_or(false) {
+                        self.drawn.push(i);
+                        if self.drawn.len() == MARK_BUDGET {
+                            break;
+                        }
+                    }
+                }
+            }
+        }
+    }
+
+    /// Triangles of every drawn rim, worst first so good rims sit on top.
+    fn build_mesh(&self, session: &Session, view: &MarkStyle, ctx: &egui::Context) -> Mesh {
+        let ranking = &session.ranking;
+        let z = view.zoom as f32;
+        let ppp = ctx.pixels_per_point();
+        let feathering = ctx.tessellation_options(|o| {
+            if o.feathering {
+                o.feathering_size_in_pixels / ppp
+            } else {
+                0.0
+            }
+        });
+        let dense = self.drawn.len() > OUTLINE_BUDGET;
+        let (lo, hi) = self.score_range;
+        let mut mesh = Mesh::default();
+        mesh.reserve_vertices(self.drawn.len().min(OUTLINE_BUDGET) * 40 + self.drawn.len() * 4);
+        // Gathered first in a loop of independent loads: the drawn candidates lie scattered
+        // over arrays of hundreds of thousands, and a long loop body would wait for each.
+        let gathered: Vec<(Option<Mark>, bool, f64)> = self
+            .drawn
+            .iter()
+            .map(|&i| {
+                let i = i as usize;
+                let pass = ranking.pass.get(i).copied().unwrap_or(false);
+                (
+                    self.marks[i],
+                    pass,
+                    ranking.score.get(i).copied().unwrap_or(0.0),
+                )
+            })
+            .collect();
+        let (mut points, mut normals) = (Vec::new(), Vec::new());
+        for (k, &(m, pass, score)) in gathered.iter().enumerate().rev() {
+            let Some(m) = m else { continue };
+            let centre = view.to_screen(m.pos);
+            let r_screen = m.radius_px() * z;
+            let colour = if pass {
+                score_colour((score - lo) / (hi - lo))
+            } else {
+                Color32::from_rgba_unmultiplied(150, 150, 150, 110)
+            };
+            if r_screen < 2.0 || (dense && (r_screen < 3.0 || k >= OUTLINE_BUDGET)) {
+                if view.rect.expand(DOT_SIDE_PT).contains(centre) {
+                    mesh.add_colored_rect(
+                        Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT)),
+                        colour,
+                    );
+                }
+                continue;
+            }
+            let width = if pass { 1.8 } else { 1.0 };
+            // Rims wholly off the map are left out, as the tessellator's coarse culling would.
+            let reach = m.semi_major_m.max(m.semi_minor_m) / m.px_m[0].min(m.px_m[1]).max(1e-6) * z
+                + width
+                + feathering;
+            if !view
+                .rect
+                .intersects(Rect::from_center_size(centre, Vec2::splat(2.0 * reach)))
+            {
+                continue;
+            }
+            ellipse_points_into(&m, centre, z, &mut points);
+            stroke_loop(&points, width, colour, feathering, &mut normals, &mut mesh);
+        }
+        mesh
+    }
+
     /// Draw every visible rim; return the candidate under `pointer`, if any.
     pub fn draw(
         &mut self,
@@ -109,106 +409,157 @@ impl CandidateMarks {
         pointer: Option<Pos2>,
     ) -> Option<usize> {
         self.refresh(session, geom);
-        let (rect, z) = (view.rect, view.zoom as f32);
-        let c = rect.center();
-        let to_screen = |p: [f32; 2]| {
-            Pos2::new(
-                c.x + (p[0] - view.centre_px[0] as f32) * z,
-                c.y + (p[1] - view.centre_px[1] as f32) * z,
-            )
+        let key = MeshKey {
+            view: view.key(),
+            ranking: session.ranking.generation,
+            pixels_per_point: painter.ctx().pixels_per_point().to_bits(),
+            built_for: self.built_for.unwrap_or_default(),
         };
-        let cull = rect.expand(40.0);
-        let is_visible = |m: &Mark| {
-            let r = m.semi_major_m / m.px_m[0].max(1e-6) * z;
-            cull.expand(r).contains(to_screen(m.pos))
-        };
-        let ranking = &session.ranking;
-        // Best first, so when a dense view has to leave marks out it leaves out the worst.
-        let mut drawn: Vec<usize> = Vec::new();
-        let push = |i: usize, drawn: &mut Vec<usize>| {
-            if let Some(Some(m)) = self.marks.get(i) {
-                if is_visible(m) {
-                    drawn.push(i);
-                }
-            }
-            drawn.len() < MARK_BUDGET
-        };
-        if ranking.order.len() == self.marks.len() {
-            for &i in &ranking.order {
-                if !push(i as usize, &mut drawn) {
-                    break;
-                }
-            }
-        } else {
-            for i in 0..self.marks.len() {
-                if !push(i, &mut drawn) {
-                    break;
-                }
+        if self.mesh.as_ref().map(|m| m.0) != Some(key) {
+            self.find_in_view(view);
+            self.choose_drawn(session);
+            let mesh = self.build_mesh(session, view, painter.ctx());
+            self.mesh = Some((key, Arc::new(mesh)));
+        }
+        if let Some((_, mesh)) = &self.mesh {
+            if !mesh.is_empty() {
+                painter.add(Shape::Mesh(mesh.clone()));
             }
         }
-        let dense = drawn.len() > OUTLINE_BUDGET;
-        let (lo, hi) = self.score_range;
+        let z = view.zoom as f32;
+        // The rim under the pointer: the nearest centre within its rim (at least 6 points),
+        // the better-ranked of equals.
         let mut hovered: Option<(usize, f32)> = None;
-        let mut shapes = Vec::with_capacity(drawn.len());
-        // Worst drawn first and best last, so good rims sit on top.
-        for &i in drawn.iter().rev() {
-            let Some(m) = self.marks[i] else { continue };
-            let centre = to_screen(m.pos);
-            let r_screen = m.semi_major_m / m.px_m[0].max(1e-6) * z;
-            let pass = ranking.pass.get(i).copied().unwrap_or(false);
-            let colour = if pass {
-                score_colour((ranking.score[i] - lo) / (hi - lo))
-            } else {
-                Color32::from_rgba_unmultiplied(150, 150, 150, 110)
-            };
-            if let Some(p) = pointer {
-                let d = p.distance(centre);
-                if d <= r_screen.max(6.0) && hovered.is_none_or(|(_, best)| d < best) {
-                    hovered = Some((i, d));
+        if let Some(p) = pointer {
+            for &i in self.drawn.iter().rev() {
+                let Some(m) = self.marks[i as usize] else {
+                    continue;
+                };
+                let d = p.distance(view.to_screen(m.pos));
+                if d <= (m.radius_px() * z).max(6.0) && hovered.is_none_or(|(_, best)| d < best) {
+                    hovered = Some((i as usize, d));
                 }
             }
-            if r_screen < 2.0 || (dense && r_screen < 3.0) {
-                shapes.push(Shape::circle_filled(centre, 1.5, colour));
-                continue;
-            }
-            let width = if pass { 1.8 } else { 1.0 };
-            shapes.push(Shape::closed_line(
-                ellipse_points(&m, centre, z),
-                Stroke::new(width, colour),
-            ));
         }
-        painter.extend(shapes);
         if let Some(sel) = session
             .selected
             .and_then(|i| self.marks.get(i).copied().flatten())
         {
-            let pts = ellipse_points(&sel, to_screen(sel.pos), z);
+            let mut pts = Vec::new();
+            ellipse_points_into(&sel, view.to_screen(sel.pos), z, &mut pts);
             painter.add(Shape::closed_line(
                 pts.clone(),
                 Stroke::new(5.0, Color32::from_black_alpha(160)),
             ));
             painter.add(Shape::closed_line(pts, Stroke::new(2.5, Color32::WHITE)));
-            painter.circle_filled(to_screen(sel.pos), 2.5, Color32::WHITE);
+            painter.circle_filled(view.to_screen(sel.pos), 2.5, Color32::WHITE);
         }
         hovered.map(|(i, _)| i)
     }
 }
 
 /// Screen outline of a rim: the fitted ellipse, major axis at its azimuth from north.
-fn ellipse_points(m: &Mark, centre: Pos2, zoom: f32) -> Vec<Pos2> {
-    let r_screen = m.semi_major_m / m.px_m[0].max(1e-6) * zoom;
+fn ellipse_points_into(m: &Mark, centre: Pos2, zoom: f32, out: &mut Vec<Pos2>) {
+    let r_screen = m.radius_px() * zoom;
     let n = (r_screen / 2.0).clamp(10.0, 72.0) as usize;
     let (sa, ca) = m.azimuth_rad.sin_cos();
-    (0..n)
-        .map(|k| {
-            let t = k as f32 / n as f32 * std::f32::consts::TAU;
-            let (u, v) = (m.semi_major_m * t.cos(), m.semi_minor_m * t.sin());
-            let east = u * sa + v * ca;
-            let north = u * ca - v * sa;
-            Pos2::new(
-                centre.x + east / m.px_m[0] * zoom,
-                centre.y - north / m.px_m[1] * zoom,
-            )
-        })
-        .collect()
+    // The angle steps by a fixed rotation (no sine or cosine per point).
+    let (sd, cd) = (std::f32::consts::TAU / n as f32).sin_cos();
+    let (mut c, mut s) = (1.0f32, 0.0f32);
+    out.clear();
+    out.extend((0..n).map(|_| {
+        let (u, v) = (m.semi_major_m * c, m.semi_minor_m * s);
+        (c, s) = (c * cd - s * sd, s * cd + c * sd);
+        let east = u * sa + v * ca;
+        let north = u * ca - v * sa;
+        Pos2::new(
+            centre.x + east / m.px_m[0] * zoom,
+            centre.y - north / m.px_m[1] * zoom,
+        )
+    }));
+}
+
+/// Stroke a closed outline along its middle, anti-aliased: the same triangles `epaint`'s
+/// tessellator makes for a closed `PathShape` with a solid stroke and no fill (miter joins,
+/// a feathered edge `feathering` points wide), without its per-shape overhead.
+fn stroke_loop(
+    points: &[Pos2],
+    width: f32,
+    colour: Color32,
+    feathering: f32,
+    normals: &mut Vec<Vec2>,
+    out: &mut Mesh,
+) {
+    let n = points.len();
+    if n < 2 {
+        return;
+    }
+    normals.clear();
+    let mut n0 = (points[0] - points[n - 1]).normalized().rot90();
+    for i in 0..n {
+        let next = if i + 1 == n { 0 } else { i + 1 };
+        let mut n1 = (points[next] - points[i]).normalized().rot90();
+        if n0 == Vec2::ZERO {
+            n0 = n1;
+        } else if n1 == Vec2::ZERO {
+            n1 = n0;
+        }
+        let normal = (n0 + n1) * 0.5;
+        normals.push(normal / normal.length_sq());
+        n0 = n1;
+    }
+    let vertex = |pos: Pos2, color: Color32| Vertex {
+        pos,
+        uv: WHITE_UV,
+        color,
+    };
+    let idx = out.vertices.len() as u32;
+    let n = n as u32;
+    let clear = Color32::TRANSPARENT;
+    if feathering <= 0.0 {
+        let r = 0.5 * width;
+        for (p, nm) in points.iter().zip(normals.iter()) {
+            out.vertices.push(vertex(*p + *nm * r, colour));
+            out.vertices.push(vertex(*p - *nm * r, colour));
+        }
+        let mut i0 = n - 1;
+        for i1 in 0..n {
+            out.add_triangle(idx + 2 * i0, idx + 2 * i0 + 1, idx + 2 * i1);
+            out.add_triangle(idx + 2 * i0 + 1, idx + 2 * i1, idx + 2 * i1 + 1);
+            i0 = i1;
+        }
+    } else if width <= 0.9 * feathering {
+        // A line thinner than a pixel: a ridge two feathers wide, dimmed instead of thinned.
+        let middle = colour.gamma_multiply(width / feathering);
+        for (p, nm) in points.iter().zip(normals.iter()) {
+            out.vertices.push(vertex(*p + *nm * feathering, clear));
+            out.vertices.push(vertex(*p, middle));
+            out.vertices.push(vertex(*p - *nm * feathering, clear));
+        }
+        let mut i0 = n - 1;
+        for i1 in 0..n {
+            out.add_triangle(idx + 3 * i0, idx + 3 * i0 + 1, idx + 3 * i1);
+            out.add_triangle(idx + 3 * i0 + 1, idx + 3 * i1, idx + 3 * i1 + 1);
+            out.add_triangle(idx + 3 * i0 + 1, idx + 3 * i0 + 2, idx + 3 * i1 + 1);
+            out.add_triangle(idx + 3 * i0 + 2, idx + 3 * i1 + 1, idx + 3 * i1 + 2);
+            i0 = i1;
+        }
+    } else {
+        let inner = 0.5 * (width - feathering);
+        let outer = 0.5 * (width + feathering);
+        for (p, nm) in points.iter().zip(normals.iter()) {
+            out.vertices.push(vertex(*p + *nm * outer, clear));
+            out.vertices.push(vertex(*p + *nm * inner, colour));
+            out.vertices.push(vertex(*p - *nm * inner, colour));
+            out.vertices.push(vertex(*p - *nm * outer, clear));
+        }
+        let mut i0 = n - 1;
+        for i1 in 0..n {
+            for k in 0..3 {
+                out.add_triangle(idx + 4 * i0 + k, idx + 4 * i0 + k + 1, idx + 4 * i1 + k);
+                out.add_triangle(idx + 4 * i0 + k + 1, idx + 4 * i1 + k, idx + 4 * i1 + k + 1);
+            }
+            i0 = i1;
+        }
+    }
 }

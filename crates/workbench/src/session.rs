@@ -79,22 +79,46 @@ impl Session {
         self.rerank();
     }
 
+    /// Take a refit of the open survey (same candidates, new reflector fits): keep the
+    /// selection, the reviews and the path, and rank again.
+    pub fn replace_fits(&mut self, survey: SurveyFile) {
+        self.survey = Some(Arc::new(survey));
+        self.prepared = None;
+        self.smaa = None;
+        self.rerank();
+    }
+
+    /// The criteria as a file should keep them: with the reflector the fits were made for
+    /// when the criteria name none, so a saved file reproduces what is on screen.
+    pub fn criteria_to_save(&self) -> Criteria {
+        let mut c = self.criteria.clone();
+        if c.structure.is_none() {
+            c.structure = self
+                .survey
+                .as_ref()
+                .and_then(|s| s.parameters.structure.clone());
+        }
+        c
+    }
+
     /// Rank again with the current criteria. Called in the same frame as any criteria edit.
     pub fn rerank(&mut self) {
         let Some(survey) = self.survey.clone() else {
             self.ranking = Ranking::default();
             return;
         };
+        // The new ranking is written over the old one's buffers (left as they were on error).
+        let mut ranking = std::mem::take(&mut self.ranking);
         let result =
             engine::prepare(&survey, &self.criteria, self.prepared.as_ref()).and_then(|table| {
-                let r = engine::rank(&table, &self.criteria, self.generation + 1)?;
-                Ok((table, r))
+                engine::rank_into(&table, &self.criteria, self.generation + 1, &mut ranking)?;
+                Ok(table)
             });
+        self.ranking = ranking;
         match result {
-            Ok((table, ranking)) => {
+            Ok(table) => {
                 self.generation += 1;
                 self.prepared = Some(table);
-                self.ranking = ranking;
                 self.criteria_error = None;
             }
             Err(e) => self.criteria_error = Some(e),

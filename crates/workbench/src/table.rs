@@ -103,7 +103,15 @@ impl CandidateTable {
                             .iter()
                             .any(|s| s.to_lowercase().contains(&needle))))
         };
+        let unfiltered = needle.is_empty() && self.status == StatusFilter::All;
         let mut rows: Vec<u32> = match self.sort {
+            // The common case while weights move: the ranking as it is, copied, not filtered.
+            SortKey::Rank | SortKey::Score if unfiltered => {
+                let mut rows = std::mem::take(&mut self.rows);
+                rows.clear();
+                rows.extend_from_slice(&r.order);
+                rows
+            }
             SortKey::Rank | SortKey::Score => r
                 .order
                 .iter()

@@ -28,7 +28,7 @@ fn reflector_page_shows_the_verdict_and_each_failure_reason() {
     let h = harness_on(2, common::survey_with_fits());
     h.get_by_label("The reflector does not fit");
     h.get_by_label_contains(common::FIT_FAILURE_REASON);
-    h.get_by_label_contains("350 m aperture, paraboloid, f/D 0.50, 6 anchors");
+    h.get_by_label_contains("Structure: 350 m aperture, paraboloid, f/D 0.50, 6 anchors");
     h.get_by_label("Reflector plan");
 }
 
@@ -46,7 +46,7 @@ fn reflector_page_says_why_there_is_no_fit() {
     let h = harness_on(3, common::survey_with_fits());
     h.get_by_label_contains("The crater could not be fitted");
     let h = harness_on(3, common::small_survey());
-    h.get_by_label_contains("No structure in this survey");
+    h.get_by_label_contains("No reflector fits in this survey");
 }
 
 #[test]

@@ -3,7 +3,10 @@
 use anyhow::Context;
 use siting::export::{csv::write_csv, geojson::write_geojson, gpkg::write_gpkg, ExportSet, Provenance};
 use siting::{Criteria, PreparedTable};
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
+use std::sync::atomic::AtomicBool;
+use std::time::Instant;
+use structure::{Shape, StructureSpec};
 use survey::SurveyFile;
 
 #[derive(clap::Args)]
@@ -35,6 +38,10 @@ pub struct Args {
     /// Date recorded in the exports (YYYY-MM-DD). Default: $SOURCE_DATE_EPOCH if set, else today (UTC).
     #[arg(long, value_name = "DATE")]
     date: Option<String>,
+    /// The survey's DEM, for refitting when the criteria's [structure] differs from the
+    /// survey's. Default: the DEM recorded in the survey (looked for beside the survey too).
+    #[arg(long, value_name = "FILE")]
+    dem: Option<PathBuf>,
 }
 
 pub fn run(a: Args) -> anyhow::Result<()> {
@@ -53,6 +60,10 @@ pub fn run(a: Args) -> anyhow::Result<()> {
             let text = c.to_toml();
             (c, text)
         }
+    };
+    let survey = match &criteria.structure {
+        Some(spec) if !survey::fitted_for(&survey, spec) => refit(&a.survey, a.dem.as_deref(), survey, spec)?,
+        _ => survey,
     };
     let table = PreparedTable::new(&survey, &criteria).context("preparing the ranking")?;
     let ranking = siting::rank(&table, &criteria).context("ranking")?;
@@ -81,4 +92,56 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         eprintln!("wrote {}", p.display());
     }
     Ok(())
+}
+
+/// A short description of a structure for the terminal.
+fn describe(spec: Option<&StructureSpec>) -> String {
+    let Some(s) = spec else { return "no structure".into() };
+    let shape = match s.shape {
+        Shape::Paraboloid { focal_length_m } => format!("paraboloid with focal length {focal_length_m} m"),
+        Shape::ParaboloidRatio { f_over_d } => format!("paraboloid at f/D {f_over_d}"),
+        Shape::SphericalCap { radius_m } => format!("spherical cap of radius {radius_m} m"),
+    };
+    format!(
+        "a {} m {shape}, {} anchors, clearance {} m, anchor heights within {} m",
+        s.aperture_m, s.anchors, s.min_clearance_m, s.max_anchor_height_difference_m
+    )
+}
+
+/// Fit the criteria's structure into every candidate again, on the survey's DEM, before ranking.
+/// The survey file on disk is left as it is.
+fn refit(survey_path: &Path, dem: Option<&Path>, survey: SurveyFile, spec: &StructureSpec) -> anyhow::Result<SurveyFile> {
+    let dem_path = match dem {
+        Some(d) => d.to_path_buf(),
+        None => survey::locate_dem(&survey, Some(survey_path)).context(
+            "the criteria's [structure] differs from the survey's, so the survey must be refitted on its DEM. \
+             Hint: name the DEM with --dem FILE, or drop the [structure] table to rank the survey's own fits",
+        )?,
+    };
+    eprintln!(
+        "the criteria ask for {}; {} was fitted for {}: refitting its {} candidates on {}",
+        describe(Some(spec)),
+        survey_path.display(),
+        describe(survey.parameters.structure.as_ref()),
+        survey.candidates.len(),
+        dem_path.display()
+    );
+    let pb = super::bar(survey.candidates.len() as u64, "refitting the structure");
+    let start = Instant::now();
+    let out = survey::refit(&survey, &dem_path, spec, &|p| pb.set_position(p.candidates_done as u64), &AtomicBool::new(false));
+    pb.finish_and_clear();
+    let out = out.with_context(|| {
+        format!(
+            "refitting {} on {} (hint: --dem names the DEM the survey was made from)",
+            survey_path.display(),
+            dem_path.display()
+        )
+    })?;
+    eprintln!(
+        "refitted {} candidates in {:.2} s; the refit serves this ranking, {} is left as it was",
+        out.candidates.len(),
+        start.elapsed().as_secs_f64(),
+        survey_path.display()
+    );
+    Ok(out)
 }

@@ -8,6 +8,7 @@ mod validate;
 mod write;
 
 use serde::{Deserialize, Serialize};
+pub use structure::{Shape, StructureSpec};
 
 pub use validate::{CriteriaError, CriteriaProblem};
 
@@ -16,6 +17,11 @@ pub const CRITERIA_FORMAT: &str = "quietbowl-criteria";
 /// Layout version of the criteria file. Bump on incompatible change; `parse` then refuses or
 /// migrates older files with a reason.
 pub const CRITERIA_VERSION: u32 = 1;
+
+/// Anchors a criteria file may ask for. Issue 7 names 3 to 8 as the useful range; 12 leaves
+/// room without reaching layouts the screening is not meant for (no source).
+pub const MIN_ANCHOR_COUNT: u32 = structure::MIN_ANCHORS;
+pub const MAX_ANCHOR_COUNT: u32 = 12;
 
 /// The shipped defaults for a crater-hosted reflector about a kilometre across.
 pub const DEFAULT_REFLECTOR_TOML: &str = include_str!("../../../../assets/criteria/reflector-1km.toml");
@@ -120,6 +126,11 @@ pub struct Criteria {
     pub requirements: Vec<Requirement>,
     pub criteria: Vec<SoftCriterion>,
     pub robustness: RobustnessSettings,
+    /// The reflector to fit into every candidate (the `[structure]` table). `None`: rank the
+    /// survey's fits as they are. When it differs from the spec the survey was fitted with, the
+    /// command line and the workbench refit the survey (`survey::refit`) before ranking.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub structure: Option<StructureSpec>,
 }
 
 impl Criteria {

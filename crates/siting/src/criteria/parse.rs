@@ -4,11 +4,12 @@
 use serde::Deserialize;
 use toml::Spanned;
 
-use super::validate::{line_col, CriteriaError, CriteriaProblem, ItemLines, Lines};
+use super::validate::{line_col, CriteriaError, CriteriaProblem, ItemLines, Lines, StructureLines};
 use super::{
-    Criteria, Requirement, RobustnessSettings, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling,
-    CRITERIA_FORMAT, CRITERIA_VERSION,
+    Criteria, Requirement, RobustnessSettings, ScoreMethod, SoftCriterion, UtilityShape,
+    WeightSampling, CRITERIA_FORMAT, CRITERIA_VERSION,
 };
+use structure::{Shape, StructureSpec};
 
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -23,6 +24,7 @@ struct RawFile {
     requirement: Vec<Spanned<RawRequirement>>,
     #[serde(default)]
     criterion: Vec<Spanned<RawCriterion>>,
+    structure: Option<Spanned<RawStructure>>,
 }
 
 #[derive(Deserialize)]
@@ -59,6 +61,21 @@ struct RawRobustness {
     pool: Option<Spanned<i64>>,
 }
 
+/// The `[structure]` table: the reflector to fit, in our own flat key names. Every key is
+/// optional; a missing one takes the structure crate's default.
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawStructure {
+    aperture_diameter_m: Option<Spanned<f64>>,
+    shape: Option<Spanned<String>>,
+    focal_length_m: Option<Spanned<f64>>,
+    f_over_d: Option<Spanned<f64>>,
+    cap_radius_m: Option<Spanned<f64>>,
+    anchor_count: Option<Spanned<i64>>,
+    min_clearance_m: Option<Spanned<f64>>,
+    max_anchor_height_difference_m: Option<Spanned<f64>>,
+}
+
 pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
     let raw: RawFile = toml::from_str(text).map_err(|e| {
         let (line, column) = match e.span() {
@@ -68,7 +85,11 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
             }
             None => (None, None),
         };
-        CriteriaError { line, column, problem: CriteriaProblem::Syntax(e.message().trim().to_string()) }
+        CriteriaError {
+            line,
+            column,
+            problem: CriteriaProblem::Syntax(e.message().trim().to_string()),
+        }
     })?;
     let at = |span: std::ops::Range<usize>| line_col(text, span.start).0;
     let bad = |span: std::ops::Range<usize>, problem: CriteriaProblem| CriteriaError {
@@ -78,13 +99,21 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
     };
 
     if raw.format.get_ref() != CRITERIA_FORMAT {
-        return Err(bad(raw.format.span(), CriteriaProblem::NotCriteria { found: raw.format.get_ref().clone() }));
+        return Err(bad(
+            raw.format.span(),
+            CriteriaProblem::NotCriteria {
+                found: raw.format.get_ref().clone(),
+            },
+        ));
     }
     let version = *raw.version.get_ref();
     if version != i64::from(CRITERIA_VERSION) {
         return Err(bad(
             raw.version.span(),
-            CriteriaProblem::UnsupportedVersion { found: version, supported: CRITERIA_VERSION },
+            CriteriaProblem::UnsupportedVersion {
+                found: version,
+                supported: CRITERIA_VERSION,
+            },
         ));
     }
     let scoring = match &raw.scoring {
@@ -105,7 +134,13 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         },
     };
 
-    let mut lines = Lines { file: Some(1), robustness: None, requirements: Vec::new(), criteria: Vec::new() };
+    let mut lines = Lines {
+        file: Some(1),
+        robustness: None,
+        requirements: Vec::new(),
+        criteria: Vec::new(),
+        structure: StructureLines::default(),
+    };
     let mut requirements = Vec::with_capacity(raw.requirement.len());
     for r in &raw.requirement {
         let r_ref = r.get_ref();
@@ -127,9 +162,14 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
     let mut criteria = Vec::with_capacity(raw.criterion.len());
     for c in &raw.criterion {
         let c_ref = c.get_ref();
-        let shape = match (c_ref.shape.as_ref().map(|s| s.get_ref().as_str()), &c_ref.points) {
+        let shape = match (
+            c_ref.shape.as_ref().map(|s| s.get_ref().as_str()),
+            &c_ref.points,
+        ) {
             (None | Some("linear"), None) => UtilityShape::Linear,
-            (Some("breakpoints"), Some(p)) => UtilityShape::Breakpoints { points: p.get_ref().clone() },
+            (Some("breakpoints"), Some(p)) => UtilityShape::Breakpoints {
+                points: p.get_ref().clone(),
+            },
             (Some("breakpoints"), None) => {
                 return Err(bad(
                     c.span(),
@@ -149,7 +189,11 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
                 ))
             }
             (Some(other), _) => {
-                let span = c_ref.shape.as_ref().map(|s| s.span()).unwrap_or_else(|| c.span());
+                let span = c_ref
+                    .shape
+                    .as_ref()
+                    .map(|s| s.span())
+                    .unwrap_or_else(|| c.span());
                 return Err(bad(
                     span,
                     CriteriaProblem::UnknownChoice {
@@ -187,7 +231,23 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         }
     };
 
-    let out = Criteria { title: raw.title, scoring, requirements, criteria, robustness };
+    let structure = match &raw.structure {
+        None => None,
+        Some(t) => {
+            let (spec, l) = structure_table(t, &at, &bad)?;
+            lines.structure = l;
+            Some(spec)
+        }
+    };
+
+    let out = Criteria {
+        title: raw.title,
+        scoring,
+        requirements,
+        criteria,
+        robustness,
+        structure,
+    };
     super::validate::validate(&out, &lines)?;
     Ok(out)
 }
@@ -197,27 +257,42 @@ fn robustness(
     bad: &dyn Fn(std::ops::Range<usize>, CriteriaProblem) -> CriteriaError,
 ) -> Result<RobustnessSettings, CriteriaError> {
     let d = RobustnessSettings::default();
-    let count = |v: &Option<Spanned<i64>>, key: &'static str, default: usize| -> Result<usize, CriteriaError> {
+    let count = |v: &Option<Spanned<i64>>,
+                 key: &'static str,
+                 default: usize|
+     -> Result<usize, CriteriaError> {
         match v {
             None => Ok(default),
-            Some(s) => usize::try_from(*s.get_ref()).ok().filter(|n| *n >= 1).ok_or_else(|| {
-                bad(s.span(), CriteriaProblem::BadRobustness(format!("{key} must be a whole number >= 1")))
-            }),
+            Some(s) => usize::try_from(*s.get_ref())
+                .ok()
+                .filter(|n| *n >= 1)
+                .ok_or_else(|| {
+                    bad(
+                        s.span(),
+                        CriteriaProblem::BadRobustness(format!(
+                            "{key} must be a whole number >= 1"
+                        )),
+                    )
+                }),
         }
     };
     let seed = match &r.seed {
         None => d.seed,
-        Some(s) => u64::try_from(*s.get_ref())
-            .map_err(|_| bad(s.span(), CriteriaProblem::BadRobustness("seed must be >= 0".into())))?,
+        Some(s) => u64::try_from(*s.get_ref()).map_err(|_| {
+            bad(
+                s.span(),
+                CriteriaProblem::BadRobustness("seed must be >= 0".into()),
+            )
+        })?,
     };
     let spread_default = match d.sampling {
         WeightSampling::AroundChosen { spread } => spread,
         WeightSampling::UniformSimplex => 0.5,
     };
     let sampling = match r.weights.as_ref().map(|w| (w.get_ref().as_str(), w.span())) {
-        None | Some(("around_chosen", _)) => {
-            WeightSampling::AroundChosen { spread: r.spread.as_ref().map_or(spread_default, |s| *s.get_ref()) }
-        }
+        None | Some(("around_chosen", _)) => WeightSampling::AroundChosen {
+            spread: r.spread.as_ref().map_or(spread_default, |s| *s.get_ref()),
+        },
         Some(("uniform_simplex", _)) => WeightSampling::UniformSimplex,
         Some((other, span)) => {
             return Err(bad(
@@ -233,7 +308,9 @@ fn robustness(
     if let (Some(s), WeightSampling::UniformSimplex) = (&r.spread, sampling) {
         return Err(bad(
             s.span(),
-            CriteriaProblem::BadRobustness("spread applies only to weights = \"around_chosen\"".into()),
+            CriteriaProblem::BadRobustness(
+                "spread applies only to weights = \"around_chosen\"".into(),
+            ),
         ));
     }
     Ok(RobustnessSettings {
@@ -243,4 +320,117 @@ fn robustness(
         top_n: count(&r.top_n, "top_n", d.top_n)?,
         pool: count(&r.pool, "pool", d.pool)?,
     })
+}
+
+/// The `[structure]` table to a [`StructureSpec`] and the lines of its keys. Only what needs
+/// the raw table is checked here (which keys go with which shape, whole anchor counts); the
+/// numbers are checked by `validate`, for files and for criteria edited in code alike.
+fn structure_table(
+    t: &Spanned<RawStructure>,
+    at: &dyn Fn(std::ops::Range<usize>) -> usize,
+    bad: &dyn Fn(std::ops::Range<usize>, CriteriaProblem) -> CriteriaError,
+) -> Result<(StructureSpec, StructureLines), CriteriaError> {
+    let r = t.get_ref();
+    let line = |v: &Option<Spanned<f64>>| v.as_ref().map(|v| at(v.span()));
+    let lines = StructureLines {
+        table: Some(at(t.span())),
+        aperture: line(&r.aperture_diameter_m),
+        focal_length: line(&r.focal_length_m),
+        f_over_d: line(&r.f_over_d),
+        cap_radius: line(&r.cap_radius_m),
+        anchor_count: r.anchor_count.as_ref().map(|v| at(v.span())),
+        min_clearance: line(&r.min_clearance_m),
+        max_anchor_height_difference: line(&r.max_anchor_height_difference_m),
+    };
+    let d = StructureSpec::default();
+    let problem = |m: String| CriteriaProblem::BadStructure(m);
+    let value = |v: &Option<Spanned<f64>>| v.as_ref().map(|v| *v.get_ref());
+    let kind = r.shape.as_ref().map(|s| (s.get_ref().as_str(), s.span()));
+    let shape = match kind {
+        None | Some(("paraboloid", _)) => {
+            if let Some(c) = &r.cap_radius_m {
+                return Err(bad(
+                    c.span(),
+                    problem("cap_radius_m applies only to shape = \"spherical_cap\"".into()),
+                ));
+            }
+            match (&r.focal_length_m, &r.f_over_d) {
+                (Some(f), Some(q)) => {
+                    let later = if f.span().start > q.span().start {
+                        f.span()
+                    } else {
+                        q.span()
+                    };
+                    return Err(bad(
+                        later,
+                        problem(
+                            "give the paraboloid's focal_length_m or its f_over_d, not both".into(),
+                        ),
+                    ));
+                }
+                (Some(f), None) => Shape::Paraboloid {
+                    focal_length_m: *f.get_ref(),
+                },
+                (None, Some(q)) => Shape::ParaboloidRatio {
+                    f_over_d: *q.get_ref(),
+                },
+                (None, None) => d.shape,
+            }
+        }
+        Some(("spherical_cap", span)) => {
+            for (v, key) in [
+                (&r.focal_length_m, "focal_length_m"),
+                (&r.f_over_d, "f_over_d"),
+            ] {
+                if let Some(v) = v {
+                    return Err(bad(
+                        v.span(),
+                        problem(format!("{key} applies only to shape = \"paraboloid\"")),
+                    ));
+                }
+            }
+            match value(&r.cap_radius_m) {
+                Some(radius_m) => Shape::SphericalCap { radius_m },
+                None => {
+                    return Err(bad(
+                        span,
+                        problem("shape = \"spherical_cap\" needs cap_radius_m".into()),
+                    ))
+                }
+            }
+        }
+        Some((other, span)) => {
+            return Err(bad(
+                span,
+                CriteriaProblem::UnknownChoice {
+                    key: "shape",
+                    found: other.to_string(),
+                    allowed: "paraboloid, spherical_cap",
+                },
+            ))
+        }
+    };
+    let anchors = match &r.anchor_count {
+        None => d.anchors,
+        Some(n) => u32::try_from(*n.get_ref()).map_err(|_| {
+            bad(
+                n.span(),
+                problem(format!(
+                    "anchor_count must be a whole number from {} to {} (got {})",
+                    super::MIN_ANCHOR_COUNT,
+                    super::MAX_ANCHOR_COUNT,
+                    n.get_ref()
+                )),
+            )
+        })?,
+    };
+    let spec = StructureSpec {
+        aperture_m: value(&r.aperture_diameter_m).unwrap_or(d.aperture_m),
+        shape,
+        anchors,
+        min_clearance_m: value(&r.min_clearance_m).unwrap_or(d.min_clearance_m),
+        max_anchor_height_difference_m: value(&r.max_anchor_height_difference_m)
+            .unwrap_or(d.max_anchor_height_difference_m),
+    };
+    Ok((spec, lines))
 }

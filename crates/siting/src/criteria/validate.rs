@@ -1,7 +1,8 @@
 //! Semantic checks of a criteria set, shared by the file parser (which knows source lines) and
 //! code that edits criteria directly (which does not).
 
-use super::{Criteria, UtilityShape, WeightSampling};
+use super::{Criteria, UtilityShape, WeightSampling, MAX_ANCHOR_COUNT, MIN_ANCHOR_COUNT};
+use structure::{Shape, StructureSpec};
 
 /// Largest accepted robustness sample count: beyond it a run takes minutes, which is
 /// almost certainly a typo.
@@ -30,10 +31,16 @@ pub enum CriteriaProblem {
     Syntax(String),
     #[error("format is \"{found}\", expected \"quietbowl-criteria\": this is not a criteria file")]
     NotCriteria { found: String },
-    #[error("criteria layout version {found} is not supported (this build reads version {supported})")]
+    #[error(
+        "criteria layout version {found} is not supported (this build reads version {supported})"
+    )]
     UnsupportedVersion { found: i64, supported: u32 },
     #[error("{key} = \"{found}\" is not one of: {allowed}")]
-    UnknownChoice { key: &'static str, found: String, allowed: &'static str },
+    UnknownChoice {
+        key: &'static str,
+        found: String,
+        allowed: &'static str,
+    },
     #[error("unknown metric \"{name}\"; known metrics: {known}")]
     UnknownMetric { name: String, known: String },
     #[error("requirement on {metric} has neither min nor max")]
@@ -54,6 +61,8 @@ pub enum CriteriaProblem {
     BadUtility { metric: String, reason: String },
     #[error("robustness: {0}")]
     BadRobustness(String),
+    #[error("structure: {0}")]
+    BadStructure(String),
 }
 
 /// Source lines of one requirement or criterion and its keys (None when built in code).
@@ -69,11 +78,25 @@ pub(crate) struct ItemLines {
     pub points: Option<usize>,
 }
 
+/// Source lines of the `[structure]` table and its keys (None when absent or built in code).
+#[derive(Clone, Debug, Default)]
+pub(crate) struct StructureLines {
+    pub table: Option<usize>,
+    pub aperture: Option<usize>,
+    pub focal_length: Option<usize>,
+    pub f_over_d: Option<usize>,
+    pub cap_radius: Option<usize>,
+    pub anchor_count: Option<usize>,
+    pub min_clearance: Option<usize>,
+    pub max_anchor_height_difference: Option<usize>,
+}
+
 pub(crate) struct Lines {
     pub file: Option<usize>,
     pub robustness: Option<usize>,
     pub requirements: Vec<ItemLines>,
     pub criteria: Vec<ItemLines>,
+    pub structure: StructureLines,
 }
 
 impl Lines {
@@ -83,6 +106,7 @@ impl Lines {
             robustness: None,
             requirements: vec![ItemLines::default(); c.requirements.len()],
             criteria: vec![ItemLines::default(); c.criteria.len()],
+            structure: StructureLines::default(),
         }
     }
 }
@@ -100,15 +124,29 @@ pub(crate) fn line_col(text: &str, offset: usize) -> (usize, usize) {
 }
 
 fn err(line: Option<usize>, problem: CriteriaProblem) -> CriteriaError {
-    CriteriaError { line, column: None, problem }
+    CriteriaError {
+        line,
+        column: None,
+        problem,
+    }
 }
 
 fn check_metric(name: &str, line: Option<usize>) -> Result<(), CriteriaError> {
     if survey::metrics::metric(name).is_some() {
         return Ok(());
     }
-    let known = survey::METRICS.iter().map(|m| m.name).collect::<Vec<_>>().join(", ");
-    Err(err(line, CriteriaProblem::UnknownMetric { name: name.to_string(), known }))
+    let known = survey::METRICS
+        .iter()
+        .map(|m| m.name)
+        .collect::<Vec<_>>()
+        .join(", ");
+    Err(err(
+        line,
+        CriteriaProblem::UnknownMetric {
+            name: name.to_string(),
+            known,
+        },
+    ))
 }
 
 pub(crate) fn validate(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError> {
@@ -118,13 +156,33 @@ pub(crate) fn validate(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError>
         check_metric(&r.metric, l.metric.or(l.item))?;
         for (v, field, line) in [(r.min, "min", l.min), (r.max, "max", l.max)] {
             if v.is_some_and(|v| !v.is_finite()) {
-                return Err(err(line.or(l.item), CriteriaProblem::NotFinite { metric: r.metric.clone(), field }));
+                return Err(err(
+                    line.or(l.item),
+                    CriteriaProblem::NotFinite {
+                        metric: r.metric.clone(),
+                        field,
+                    },
+                ));
             }
         }
         match (r.min, r.max) {
-            (None, None) => return Err(err(l.item, CriteriaProblem::NoBound { metric: r.metric.clone() })),
+            (None, None) => {
+                return Err(err(
+                    l.item,
+                    CriteriaProblem::NoBound {
+                        metric: r.metric.clone(),
+                    },
+                ))
+            }
             (Some(min), Some(max)) if min > max => {
-                return Err(err(l.min.or(l.item), CriteriaProblem::MinAboveMax { metric: r.metric.clone(), min, max }))
+                return Err(err(
+                    l.min.or(l.item),
+                    CriteriaProblem::MinAboveMax {
+                        metric: r.metric.clone(),
+                        min,
+                        max,
+                    },
+                ))
             }
             _ => {}
         }
@@ -139,28 +197,54 @@ pub(crate) fn validate(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError>
         if let Some((_, first)) = seen.iter().find(|(m, _)| *m == s.metric) {
             return Err(err(
                 l.metric.or(l.item),
-                CriteriaProblem::DuplicateCriterion { metric: s.metric.clone(), first_line: *first },
+                CriteriaProblem::DuplicateCriterion {
+                    metric: s.metric.clone(),
+                    first_line: *first,
+                },
             ));
         }
         seen.push((&s.metric, l.item.unwrap_or(0)));
-        for (v, field, line) in
-            [(s.worst, "worst", l.worst), (s.ideal, "ideal", l.ideal), (s.weight, "weight", l.weight)]
-        {
+        for (v, field, line) in [
+            (s.worst, "worst", l.worst),
+            (s.ideal, "ideal", l.ideal),
+            (s.weight, "weight", l.weight),
+        ] {
             if !v.is_finite() {
-                return Err(err(line.or(l.item), CriteriaProblem::NotFinite { metric: s.metric.clone(), field }));
+                return Err(err(
+                    line.or(l.item),
+                    CriteriaProblem::NotFinite {
+                        metric: s.metric.clone(),
+                        field,
+                    },
+                ));
             }
         }
         if s.weight < 0.0 {
             return Err(err(
                 l.weight.or(l.item),
-                CriteriaProblem::NegativeWeight { metric: s.metric.clone(), weight: s.weight },
+                CriteriaProblem::NegativeWeight {
+                    metric: s.metric.clone(),
+                    weight: s.weight,
+                },
             ));
         }
         let bad = |reason: String, line: Option<usize>| {
-            err(line.or(l.item), CriteriaProblem::BadUtility { metric: s.metric.clone(), reason })
+            err(
+                line.or(l.item),
+                CriteriaProblem::BadUtility {
+                    metric: s.metric.clone(),
+                    reason,
+                },
+            )
         };
         if s.worst == s.ideal {
-            return Err(bad(format!("worst and ideal are both {}: no direction to prefer", s.worst), l.ideal));
+            return Err(bad(
+                format!(
+                    "worst and ideal are both {}: no direction to prefer",
+                    s.worst
+                ),
+                l.ideal,
+            ));
         }
         if let UtilityShape::Breakpoints { points } = &s.shape {
             check_points(points, s.worst, s.ideal).map_err(|reason| bad(reason, l.points))?;
@@ -171,19 +255,110 @@ pub(crate) fn validate(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError>
         return Err(err(line, CriteriaProblem::AllWeightsZero));
     }
     let r = &c.robustness;
-    let robust = |m: &str| err(lines.robustness, CriteriaProblem::BadRobustness(m.to_string()));
+    let robust = |m: &str| {
+        err(
+            lines.robustness,
+            CriteriaProblem::BadRobustness(m.to_string()),
+        )
+    };
     if r.samples == 0 || r.samples > MAX_SAMPLES {
-        return Err(robust(&format!("samples must be between 1 and {MAX_SAMPLES}")));
+        return Err(robust(&format!(
+            "samples must be between 1 and {MAX_SAMPLES}"
+        )));
     }
     if r.top_n == 0 || r.pool == 0 {
         return Err(robust("top_n and pool must be at least 1"));
     }
     if let WeightSampling::AroundChosen { spread } = r.sampling {
         if !(0.0..1.0).contains(&spread) {
-            return Err(robust("spread must be in [0, 1): a factor 1 - spread must stay positive"));
+            return Err(robust(
+                "spread must be in [0, 1): a factor 1 - spread must stay positive",
+            ));
         }
     }
+    if let Some(spec) = &c.structure {
+        check_structure(spec, &lines.structure)?;
+    }
     Ok(())
+}
+
+/// The reflector's numbers, each refused at its own line with the criteria file's key name.
+fn check_structure(s: &StructureSpec, l: &StructureLines) -> Result<(), CriteriaError> {
+    let bad = |line: Option<usize>, m: String| {
+        Err(err(line.or(l.table), CriteriaProblem::BadStructure(m)))
+    };
+    let positive = |v: f64| v.is_finite() && v > 0.0;
+    let non_negative = |v: f64| v.is_finite() && v >= 0.0;
+    if !positive(s.aperture_m) {
+        return bad(
+            l.aperture,
+            format!(
+                "aperture_diameter_m must be a positive number of metres (got {})",
+                s.aperture_m
+            ),
+        );
+    }
+    match s.shape {
+        Shape::Paraboloid { focal_length_m } if !positive(focal_length_m) => {
+            return bad(
+                l.focal_length,
+                format!(
+                    "focal_length_m must be a positive number of metres (got {focal_length_m})"
+                ),
+            );
+        }
+        Shape::ParaboloidRatio { f_over_d } if !positive(f_over_d) => {
+            return bad(
+                l.f_over_d,
+                format!("f_over_d must be a positive number (got {f_over_d})"),
+            );
+        }
+        Shape::SphericalCap { radius_m } if !positive(radius_m) => {
+            return bad(
+                l.cap_radius,
+                format!("cap_radius_m must be a positive number of metres (got {radius_m})"),
+            );
+        }
+        Shape::SphericalCap { radius_m } if radius_m < s.aperture_m / 2.0 => {
+            return bad(
+                l.cap_radius,
+                format!(
+                    "cap_radius_m {radius_m} is less than half the {} m aperture: a sphere that small cannot span it",
+                    s.aperture_m
+                ),
+            );
+        }
+        _ => {}
+    }
+    if !(MIN_ANCHOR_COUNT..=MAX_ANCHOR_COUNT).contains(&s.anchors) {
+        return bad(
+            l.anchor_count,
+            format!(
+                "anchor_count must be from {MIN_ANCHOR_COUNT} to {MAX_ANCHOR_COUNT} (got {})",
+                s.anchors
+            ),
+        );
+    }
+    if !non_negative(s.min_clearance_m) {
+        return bad(
+            l.min_clearance,
+            format!(
+                "min_clearance_m must be zero or a positive number of metres (got {})",
+                s.min_clearance_m
+            ),
+        );
+    }
+    if !non_negative(s.max_anchor_height_difference_m) {
+        return bad(
+            l.max_anchor_height_difference,
+            format!(
+                "max_anchor_height_difference_m must be zero or a positive number of metres (got {})",
+                s.max_anchor_height_difference_m
+            ),
+        );
+    }
+    // Whatever else the fit itself refuses (kept in step with the rules above).
+    s.validate().or_else(|e| bad(l.table, e.to_string()))
 }
 
 fn check_points(points: &[[f64; 2]], worst: f64, ideal: f64) -> Result<(), String> {
@@ -200,10 +375,14 @@ fn check_points(points: &[[f64; 2]], worst: f64, ideal: f64) -> Result<(), Strin
         return Err("breakpoint utilities must lie in [0, 1]".into());
     }
     if !points.iter().any(|p| p[0] == worst && p[1] == 0.0) {
-        return Err(format!("worst ({worst}) must be a breakpoint with utility 0"));
+        return Err(format!(
+            "worst ({worst}) must be a breakpoint with utility 0"
+        ));
     }
     if !points.iter().any(|p| p[0] == ideal && p[1] == 1.0) {
-        return Err(format!("ideal ({ideal}) must be a breakpoint with utility 1"));
+        return Err(format!(
+            "ideal ({ideal}) must be a breakpoint with utility 1"
+        ));
     }
     Ok(())
 }

@@ -3,7 +3,7 @@
 
 use std::fmt::Write;
 
-use super::{Criteria, UtilityShape, WeightSampling, CRITERIA_FORMAT, CRITERIA_VERSION};
+use super::{Criteria, Shape, UtilityShape, WeightSampling, CRITERIA_FORMAT, CRITERIA_VERSION};
 
 /// Shortest text that reads back to the same f64; always carries a '.' or exponent so TOML
 /// reads it as a float.
@@ -44,7 +44,11 @@ pub(crate) fn to_toml(c: &Criteria) -> String {
     let _ = writeln!(t, "scoring = {}", quoted(c.scoring.key()));
     let r = &c.robustness;
     let _ = writeln!(t, "\n[robustness]");
-    let _ = writeln!(t, "samples = {}\nseed = {}\ntop_n = {}\npool = {}", r.samples, r.seed, r.top_n, r.pool);
+    let _ = writeln!(
+        t,
+        "samples = {}\nseed = {}\ntop_n = {}\npool = {}",
+        r.samples, r.seed, r.top_n, r.pool
+    );
     match r.sampling {
         WeightSampling::AroundChosen { spread } => {
             let _ = writeln!(t, "weights = \"around_chosen\"\nspread = {}", float(spread));
@@ -52,6 +56,37 @@ pub(crate) fn to_toml(c: &Criteria) -> String {
         WeightSampling::UniformSimplex => {
             let _ = writeln!(t, "weights = \"uniform_simplex\"");
         }
+    }
+    if let Some(s) = &c.structure {
+        let _ = writeln!(
+            t,
+            "\n[structure]\naperture_diameter_m = {}",
+            float(s.aperture_m)
+        );
+        let _ = match s.shape {
+            Shape::Paraboloid { focal_length_m } => {
+                writeln!(
+                    t,
+                    "shape = \"paraboloid\"\nfocal_length_m = {}",
+                    float(focal_length_m)
+                )
+            }
+            Shape::ParaboloidRatio { f_over_d } => {
+                writeln!(t, "shape = \"paraboloid\"\nf_over_d = {}", float(f_over_d))
+            }
+            Shape::SphericalCap { radius_m } => writeln!(
+                t,
+                "shape = \"spherical_cap\"\ncap_radius_m = {}",
+                float(radius_m)
+            ),
+        };
+        let _ = writeln!(t, "anchor_count = {}", s.anchors);
+        let _ = writeln!(t, "min_clearance_m = {}", float(s.min_clearance_m));
+        let _ = writeln!(
+            t,
+            "max_anchor_height_difference_m = {}",
+            float(s.max_anchor_height_difference_m)
+        );
     }
     for q in &c.requirements {
         let _ = writeln!(t, "\n[[requirement]]\nmetric = {}", quoted(&q.metric));
@@ -65,13 +100,22 @@ pub(crate) fn to_toml(c: &Criteria) -> String {
     }
     for s in &c.criteria {
         let _ = writeln!(t, "\n[[criterion]]\nmetric = {}", quoted(&s.metric));
-        let _ = writeln!(t, "worst = {}\nideal = {}\nweight = {}", float(s.worst), float(s.ideal), float(s.weight));
+        let _ = writeln!(
+            t,
+            "worst = {}\nideal = {}\nweight = {}",
+            float(s.worst),
+            float(s.ideal),
+            float(s.weight)
+        );
         match &s.shape {
             UtilityShape::Linear => {
                 let _ = writeln!(t, "shape = \"linear\"");
             }
             UtilityShape::Breakpoints { points } => {
-                let list: Vec<String> = points.iter().map(|p| format!("[{}, {}]", float(p[0]), float(p[1]))).collect();
+                let list: Vec<String> = points
+                    .iter()
+                    .map(|p| format!("[{}, {}]", float(p[0]), float(p[1])))
+                    .collect();
                 let _ = writeln!(t, "shape = \"breakpoints\"\npoints = [{}]", list.join(", "));
             }
         }

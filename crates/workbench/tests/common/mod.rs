@@ -160,6 +160,7 @@ pub fn test_criteria() -> siting::Criteria {
             soft("diameter_m", 1_000.0, 20_000.0),
         ],
         robustness: Default::default(),
+        structure: None,
     }
 }
 
