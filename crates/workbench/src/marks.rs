@@ -54,7 +54,9 @@ struct GridIndex {
     origin: [f32; 2],
     cell_px: [f32; 2],
     start: Vec<u32>,
-    items: Vec<u32>,
+    /// Candidate index, centre and semi-major axis in source pixels: kept here so a query
+    /// reads the cells' contents in sequence instead of the marks scattered by index.
+    items: Vec<GridItem>,
     /// Largest semi-major axis of any mark, source pixels: how far a rim reaches out of its cell.
     max_radius_px: f32,
 }
@@ -64,9 +66,9 @@ impl GridIndex {
         let (mut lo, mut hi) = ([f32::INFINITY; 2], [f32::NEG_INFINITY; 2]);
         let mut max_radius_px = 0.0f32;
         for m in marks.iter().flatten() {
-            for k in 0..2 {
-                lo[k] = lo[k].min(m.pos[k]);
-                hi[k] = hi[k].max(m.pos[k]);
+            for ((l, h), v) in lo.iter_mut().zip(hi.iter_mut()).zip(m.pos) {
+                *l = l.min(v);
+                *h = h.max(v);
             }
             let r = m.radius_px();
             if r.is_finite() {
@@ -84,7 +86,7 @@ impl GridIndex {
             origin: lo,
             cell_px,
             start: vec![0; GRID_SIDE * GRID_SIDE + 1],
-            items: vec![0; marks.iter().flatten().count()],
+            items: vec![GridItem::default(); marks.iter().flatten().count()],
             max_radius_px,
         };
         let cells: Vec<Option<usize>> = marks.iter().map(|m| m.map(|m| g.cell_of(m.pos))).collect();
@@ -96,8 +98,12 @@ impl GridIndex {
         }
         let mut fill = g.start.clone();
         for (i, c) in cells.iter().enumerate() {
-            if let Some(c) = c {
-                g.items[fill[*c] as usize] = i as u32;
+            if let (Some(c), Some(m)) = (c, &marks[i]) {
+                g.items[fill[*c] as usize] = GridItem {
+                    index: i as u32,
+                    pos: m.pos,
+                    radius_px: m.radius_px(),
+                };
                 fill[*c] += 1;
             }
         }
@@ -114,7 +120,7 @@ impl GridIndex {
 
     /// Call `f` with every candidate whose centre lies in a cell touching the source-pixel
     /// rectangle `[min col, min row, max col, max row]`.
-    fn for_each_near(&self, b: [f32; 4], mut f: impl FnMut(u32)) {
+    fn for_each_near(&self, b: [f32; 4], mut f: impl FnMut(&GridItem)) {
         if self.start.is_empty() || !(b[0] <= b[2] && b[1] <= b[3]) {
             return;
         }
@@ -125,9 +131,16 @@ impl GridIndex {
                 self.start[r * GRID_SIDE + c0] as usize,
                 self.start[r * GRID_SIDE + c1 + 1] as usize,
             );
-            self.items[a..z].iter().for_each(|&i| f(i));
+            self.items[a..z].iter().for_each(&mut f);
         }
     }
+}
+
+#[derive(Clone, Copy, Default)]
+struct GridItem {
+    index: u32,
+    pos: [f32; 2],
+    radius_px: f32,
 }
 
 /// What the in-view set was found for: the view, bit for bit.
@@ -162,6 +175,8 @@ pub struct CandidateMarks {
     in_view_for: Option<ViewKey>,
     /// Candidates drawn, best first.
     drawn: Vec<u32>,
+    /// Screen centre and radius of each drawn rim, worst first (what hovering tests).
+    drawn_on_screen: Vec<(u32, Pos2, f32)>,
     mesh: Option<(MeshKey, Arc<Mesh>)>,
 }
 
@@ -262,10 +277,8 @@ impl CandidateMarks {
         }
         let z = view.zoom as f32;
         let cull = view.rect.expand(40.0);
-        let is_visible = |m: &Mark| {
-            cull.expand(m.radius_px() * z)
-                .contains(view.to_screen(m.pos))
-        };
+        let is_visible =
+            |g: &GridItem| cull.expand(g.radius_px * z).contains(view.to_screen(g.pos));
         self.in_view.clear();
         self.in_view.resize(self.marks.len(), false);
         // The grid is asked for every centre that a rim of the largest size could reach the
@@ -279,11 +292,9 @@ impl CandidateMarks {
         };
         let (a, b) = (src(cull.min), src(cull.max));
         let bounds = [a[0] - reach, a[1] - reach, b[0] + reach, b[1] + reach];
-        let (marks, in_view) = (&self.marks, &mut self.in_view);
-        self.grid.for_each_near(bounds, |i| {
-            if let Some(m) = &marks[i as usize] {
-                in_view[i as usize] = is_visible(m);
-            }
+        let in_view = &mut self.in_view;
+        self.grid.for_each_near(bounds, |g| {
+            in_view[g.index as usize] = is_visible(g);
         });
         self.in_view_list.clear();
         self.in_view_list.extend(
@@ -333,7 +344,7 @@ impl CandidateMarks {
     }
 
     /// Triangles of every drawn rim, worst first so good rims sit on top.
-    fn build_mesh(&self, session: &Session, view: &MarkStyle, ctx: &egui::Context) -> Mesh {
+    fn build_mesh(&mut self, session: &Session, view: &MarkStyle, ctx: &egui::Context) -> Mesh {
         let ranking = &session.ranking;
         let z = view.zoom as f32;
         let ppp = ctx.pixels_per_point();
@@ -364,10 +375,12 @@ impl CandidateMarks {
             })
             .collect();
         let (mut points, mut normals) = (Vec::new(), Vec::new());
+        self.drawn_on_screen.clear();
         for (k, &(m, pass, score)) in gathered.iter().enumerate().rev() {
             let Some(m) = m else { continue };
             let centre = view.to_screen(m.pos);
             let r_screen = m.radius_px() * z;
+            self.drawn_on_screen.push((self.drawn[k], centre, r_screen));
             let colour = if pass {
                 score_colour((score - lo) / (hi - lo))
             } else {
@@ -431,12 +444,9 @@ impl CandidateMarks {
         // the better-ranked of equals.
         let mut hovered: Option<(usize, f32)> = None;
         if let Some(p) = pointer {
-            for &i in self.drawn.iter().rev() {
-                let Some(m) = self.marks[i as usize] else {
-                    continue;
-                };
-                let d = p.distance(view.to_screen(m.pos));
-                if d <= (m.radius_px() * z).max(6.0) && hovered.is_none_or(|(_, best)| d < best) {
+            for &(i, centre, r_screen) in &self.drawn_on_screen {
+                let d = p.distance(centre);
+                if d <= r_screen.max(6.0) && hovered.is_none_or(|(_, best)| d < best) {
                     hovered = Some((i as usize, d));
                 }
             }
