@@ -3,25 +3,12 @@
 //! in tests/fuzz-regressions/catalogue_read/. Each must read or give a typed error, never
 //! panic, and the two bad-row modes must agree.
 
-use std::path::{Path, PathBuf};
 
 use craters::catalogue::{self, OnBadRow};
 
-fn inputs(target: &str) -> Vec<PathBuf> {
-    let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("../..");
-    let mut files: Vec<PathBuf> = [
-        root.join("fuzz/corpus").join(target),
-        root.join("tests/fuzz-regressions").join(target),
-    ]
-    .iter()
-    .filter_map(|d| std::fs::read_dir(d).ok())
-    .flat_map(|d| d.filter_map(|e| e.ok().map(|e| e.path())))
-    .filter(|p| p.is_file() && p.file_name().is_some_and(|n| n != "README.md"))
-    .collect();
-    files.sort();
-    assert!(!files.is_empty(), "no inputs for fuzz target {target}");
-    files
-}
+#[path = "../../../tests/fuzz-regressions/inputs.rs"]
+mod replay;
+use replay::inputs;
 
 /// The catalogue_read target's steps.
 fn catalogue_steps(data: &[u8]) {

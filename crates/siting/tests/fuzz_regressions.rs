@@ -4,27 +4,13 @@
 //! panic, and accepted criteria must keep the target's promises. The survey fuzz target's
 //! ranking step is replayed here too (the survey crate cannot depend on siting).
 
-use std::path::{Path, PathBuf};
 
 use siting::{Criteria, PreparedTable};
 use survey::SurveyFile;
 
-/// Every file in the seed and regression folders of one fuzz target, sorted.
-fn inputs(target: &str) -> Vec<PathBuf> {
-    let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("../..");
-    let mut files: Vec<PathBuf> = [
-        root.join("fuzz/corpus").join(target),
-        root.join("tests/fuzz-regressions").join(target),
-    ]
-    .iter()
-    .filter_map(|d| std::fs::read_dir(d).ok())
-    .flat_map(|d| d.filter_map(|e| e.ok().map(|e| e.path())))
-    .filter(|p| p.is_file() && p.file_name().is_some_and(|n| n != "README.md"))
-    .collect();
-    files.sort();
-    assert!(!files.is_empty(), "no inputs for fuzz target {target}");
-    files
-}
+#[path = "../../../tests/fuzz-regressions/inputs.rs"]
+mod replay;
+use replay::inputs;
 
 /// The criteria_parse target's steps.
 fn criteria_steps(data: &[u8]) {

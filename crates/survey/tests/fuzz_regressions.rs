@@ -4,25 +4,13 @@
 //! survey that reads must write back to the same text and merge (as a shard) without panic.
 //! The target's ranking step is replayed in crates/siting/tests/fuzz_regressions.rs.
 
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
 use survey::SurveyFile;
 
-fn inputs(target: &str) -> Vec<PathBuf> {
-    let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("../..");
-    let mut files: Vec<PathBuf> = [
-        root.join("fuzz/corpus").join(target),
-        root.join("tests/fuzz-regressions").join(target),
-    ]
-    .iter()
-    .filter_map(|d| std::fs::read_dir(d).ok())
-    .flat_map(|d| d.filter_map(|e| e.ok().map(|e| e.path())))
-    .filter(|p| p.is_file() && p.file_name().is_some_and(|n| n != "README.md"))
-    .collect();
-    files.sort();
-    assert!(!files.is_empty(), "no inputs for fuzz target {target}");
-    files
-}
+#[path = "../../../tests/fuzz-regressions/inputs.rs"]
+mod replay;
+use replay::inputs;
 
 /// The survey_read target's steps, up to the ranking.
 fn survey_steps(data: &[u8]) {
