@@ -39,6 +39,10 @@ pub struct Ctx<'a> {
     edge_dirs: Vec<(f64, f64)>,
     /// Whether the anchor height spread takes part in the ranking (see [`Ctx::search`]).
     rank_spread: bool,
+    /// For the last offset whose excavation was asked for: (ground + clearance, sag) of every
+    /// lattice node with data inside the aperture, in lattice order. The search scores several
+    /// rotations at one offset, and each may need the excavation at another vertex height.
+    excavation_nodes: std::cell::RefCell<((f64, f64), Vec<(f64, f64)>)>,
 }
 
 /// The aperture's vertical fit at one offset.
@@ -96,6 +100,7 @@ impl<'a> Ctx<'a> {
             max_offset_m: MAX_OFFSET_FRAC * crater_diameter_m,
             edge_dirs,
             rank_spread: true,
+            excavation_nodes: std::cell::RefCell::new(((f64::NAN, f64::NAN), Vec::new())),
         }
     }
 
@@ -178,12 +183,23 @@ impl<'a> Ctx<'a> {
     /// Ground to remove so the surface with its vertex at `vertex_m` clears it by c, m^3.
     pub fn excavation_m3(&self, d: (f64, f64), vertex_m: f64) -> f64 {
         let c = self.spec.min_clearance_m;
+        let mut cache = self.excavation_nodes.borrow_mut();
+        if cache.0 != d {
+            cache.1.clear();
+            let nodes = &mut cache.1;
+            self.for_nodes(d, |_, _, g, sag| {
+                if g.is_finite() {
+                    nodes.push((g + c, sag));
+                }
+            });
+            cache.0 = d;
+        }
+        // Summed in lattice order and grouped as ((g + c) - vertex) - sag: the same value, to
+        // the bit, as summing over the lattice afresh.
         let mut v = 0.0;
-        self.for_nodes(d, |_, _, g, sag| {
-            if g.is_finite() {
-                v += (g + c - vertex_m - sag).max(0.0);
-            }
-        });
+        for &(gc, sag) in &cache.1 {
+            v += (gc - vertex_m - sag).max(0.0);
+        }
         v * self.patch.cell_m * self.patch.cell_m
     }
 

@@ -197,9 +197,10 @@ impl TileLayout {
         }
         let start = (x.floor() as usize / self.tile_px) * self.tile_px;
         let size = self.tile_px.min(len - start);
+        // As the survey run reads it: the halo stops at the raster's edges.
         Some((
-            start as isize - self.halo_px as isize,
-            (start + size + self.halo_px) as isize,
+            start.saturating_sub(self.halo_px) as isize,
+            (start + size + self.halo_px).min(len) as isize,
         ))
     }
 }
@@ -250,12 +251,7 @@ fn fit_one(
             x.floor() as isize + reach_px + 2,
         );
         match layout.tile_span(x, len) {
-            Some((t0, t1)) => {
-                let lo = lo.max(t0);
-                // Before the raster's first pixel keep the tile window's own origin, so the
-                // window-to-raster offset is the survey's exactly.
-                (if lo < 0 { t0 } else { lo }, hi.min(t1))
-            }
+            Some((t0, t1)) => (lo.max(t0), hi.min(t1)),
             None => (lo, hi),
         }
     };

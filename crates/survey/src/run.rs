@@ -319,12 +319,14 @@ pub fn run(
             if cancel.load(Ordering::Relaxed) {
                 return Err(SurveyError::Cancelled);
             }
-            let window = dem.read_window(
-                t.col as isize - halo_px as isize,
-                t.row as isize - halo_px as isize,
-                t.width + 2 * halo_px,
-                t.height + 2 * halo_px,
-            )?;
+            // The halo stops at the raster's edge: beyond it there is nothing to read, and a
+            // window padded with no-data would only cost memory and detection time.
+            let c0 = t.col.saturating_sub(halo_px);
+            let r0 = t.row.saturating_sub(halo_px);
+            let c1 = (t.col + t.width + halo_px).min(info.width);
+            let r1 = (t.row + t.height + halo_px).min(info.height);
+            let window = dem.read_window(c0 as isize, r0 as isize, c1 - c0, r1 - r0)?;
+            let (core_c, core_r) = (t.col - c0, t.row - r0);
             // A crater belongs to the tile whose core holds its centre.
             let owns = |lon: f64, lat: f64| {
                 geometry.lonlat_to_pixel(lon, lat).is_some_and(|(c, r)| {
@@ -334,10 +336,10 @@ pub fn run(
                         && r < (t.row + t.height) as f64
                 })
             };
-            let core_valid = (halo_px..halo_px + t.height)
+            let core_valid = (core_r..core_r + t.height)
                 .map(|r| {
                     window.heights_m
-                        [r * window.width + halo_px..r * window.width + halo_px + t.width]
+                        [r * window.width + core_c..r * window.width + core_c + t.width]
                         .iter()
                         .filter(|h| !h.is_nan())
                         .count() as u64

@@ -97,6 +97,8 @@ pub struct DemInfo {
 /// (opening another when none is idle), and reads of different tiles decode in parallel.
 pub struct Dem {
     idle_handles: Mutex<Vec<Dataset>>,
+    /// The band's type converts to `f32` without loss (8/16-bit integers, float32).
+    f32_exact: bool,
     info: DemInfo,
     geometry: Arc<GridGeometry>,
 }
@@ -215,7 +217,8 @@ impl Dem {
             lat_range_deg,
             crosses_180,
         };
-        Ok(Dem { idle_handles: Mutex::new(vec![ds]), info, geometry: Arc::new(geometry) })
+        let f32_exact = matches!(band_type, GdalDataType::UInt8 | GdalDataType::Int16 | GdalDataType::UInt16 | GdalDataType::Float32);
+        Ok(Dem { idle_handles: Mutex::new(vec![ds]), f32_exact, info, geometry: Arc::new(geometry) })
     }
 
     pub fn info(&self) -> &DemInfo {
@@ -251,28 +254,46 @@ impl Dem {
             return Err(outside());
         }
         let (iw, ih) = ((c1 - c0) as usize, (r1 - r0) as usize);
-        let mut raw = vec![0f64; iw * ih];
-        {
-            self.with_handle(|ds| {
-                let band = ds.rasterband(1)?;
-                band.read_into_slice::<f64>((c0, r0), (iw, ih), (iw, ih), &mut raw, None)
-            })
-            .map_err(|e| self.read_err(c0, r0, iw, ih, e))?;
-        }
         let mut heights_m = vec![f32::NAN; width * height];
+        let (dst_r0, dst_c0) = ((r0 - row) as usize, (c0 - col) as usize);
+        if self.f32_exact {
+            // Every value of the band's type is an f32: GDAL hands over half the bytes and the
+            // heights come out bit-identical to the f64 path.
+            let mut raw = vec![0f32; iw * ih];
+            self.read_raw(c0, r0, iw, ih, &mut raw)?;
+            self.convert_rows(&raw, iw, ih, &mut heights_m, width, dst_r0, dst_c0);
+        } else {
+            let mut raw = vec![0f64; iw * ih];
+            self.read_raw(c0, r0, iw, ih, &mut raw)?;
+            self.convert_rows(&raw, iw, ih, &mut heights_m, width, dst_r0, dst_c0);
+        }
+        Ok(ElevationGrid { geometry: self.geometry.clone(), col0: col, row0: row, width, height, heights_m })
+    }
+
+    fn read_raw<T: gdal::raster::GdalType + Copy>(&self, c0: isize, r0: isize, iw: usize, ih: usize, raw: &mut [T]) -> Result<(), TerrainError> {
+        self.with_handle(|ds| {
+            let band = ds.rasterband(1)?;
+            band.read_into_slice::<T>((c0, r0), (iw, ih), (iw, ih), raw, None)
+        })
+        .map_err(|e| self.read_err(c0, r0, iw, ih, e))
+    }
+
+    /// Raw band values (`iw x ih`) to heights, written into `heights_m` (rows of `width`) from
+    /// row `dst_r0`, column `dst_c0`; no-data stays NaN.
+    #[allow(clippy::too_many_arguments)]
+    fn convert_rows<T: Copy + Into<f64>>(&self, raw: &[T], iw: usize, ih: usize, heights_m: &mut [f32], width: usize, dst_r0: usize, dst_c0: usize) {
         let nodata = self.info.nodata;
         let conv = &self.info.height_convention;
         for r in 0..ih {
-            let dst_row = (r0 - row) as usize + r;
-            let dst_off = dst_row * width + (c0 - col) as usize;
-            for (c, &dn) in raw[r * iw..(r + 1) * iw].iter().enumerate() {
+            let dst_off = (dst_r0 + r) * width + dst_c0;
+            for (dst, &v) in heights_m[dst_off..dst_off + iw].iter_mut().zip(&raw[r * iw..(r + 1) * iw]) {
+                let dn: f64 = v.into();
                 let is_nodata = dn.is_nan() || nodata.is_some_and(|nd| dn == nd || (nd.is_nan() && dn.is_nan()));
                 if !is_nodata {
-                    heights_m[dst_off + c] = conv.apply(dn) as f32;
+                    *dst = conv.apply(dn) as f32;
                 }
             }
         }
-        Ok(ElevationGrid { geometry: self.geometry.clone(), col0: col, row0: row, width, height, heights_m })
     }
 
     /// Read a window of `width x height` *source* pixels at (col, row), resampled by GDAL to one
