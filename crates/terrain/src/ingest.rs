@@ -256,16 +256,31 @@ impl Dem {
         let (iw, ih) = ((c1 - c0) as usize, (r1 - r0) as usize);
         let mut heights_m = vec![f32::NAN; width * height];
         let (dst_r0, dst_c0) = ((r0 - row) as usize, (c0 - col) as usize);
-        if self.f32_exact {
-            // Every value of the band's type is an f32: GDAL hands over half the bytes and the
-            // heights come out bit-identical to the f64 path.
-            let mut raw = vec![0f32; iw * ih];
-            self.read_raw(c0, r0, iw, ih, &mut raw)?;
-            self.convert_rows(&raw, iw, ih, &mut heights_m, width, dst_r0, dst_c0);
+        // A large window is read as bands of rows, each through its own handle and converted on
+        // its own thread; a small one in one go.
+        let bands = if iw * ih >= PARALLEL_READ_MIN_PX { rayon::current_num_threads().clamp(1, 8) } else { 1 };
+        let band_rows = ih.div_ceil(bands);
+        let dst = &mut heights_m[dst_r0 * width..(dst_r0 + ih) * width];
+        let read_band = |k: usize, dst: &mut [f32]| -> Result<(), TerrainError> {
+            let (band_r0, band_h) = (r0 + (k * band_rows) as isize, dst.len() / width);
+            if self.f32_exact {
+                // Every value of the band's type is an f32: GDAL hands over half the bytes and
+                // the heights come out bit-identical to the f64 path.
+                let mut raw = vec![0f32; iw * band_h];
+                self.read_raw(c0, band_r0, iw, band_h, &mut raw)?;
+                self.convert_rows(&raw, iw, band_h, dst, width, 0, dst_c0);
+            } else {
+                let mut raw = vec![0f64; iw * band_h];
+                self.read_raw(c0, band_r0, iw, band_h, &mut raw)?;
+                self.convert_rows(&raw, iw, band_h, dst, width, 0, dst_c0);
+            }
+            Ok(())
+        };
+        if bands == 1 {
+            read_band(0, dst)?;
         } else {
-            let mut raw = vec![0f64; iw * ih];
-            self.read_raw(c0, r0, iw, ih, &mut raw)?;
-            self.convert_rows(&raw, iw, ih, &mut heights_m, width, dst_r0, dst_c0);
+            use rayon::prelude::*;
+            dst.par_chunks_mut(band_rows * width).enumerate().try_for_each(|(k, d)| read_band(k, d))?;
         }
         Ok(ElevationGrid { geometry: self.geometry.clone(), col0: col, row0: row, width, height, heights_m })
     }
@@ -401,6 +416,9 @@ pub struct RasterStats {
 
 /// IAU 2015 Moon CRS codes we can recognise when a format (GeoTIFF keys, PDS labels) does not
 /// carry the authority: the sphere and the projections this tool supports.
+/// Windows of at least this many pixels are read in parallel bands of rows.
+const PARALLEL_READ_MIN_PX: usize = 1 << 20;
+
 const IAU_2015_MOON_CODES: [u32; 5] = [30100, 30110, 30115, 30130, 30135];
 
 /// The IAU 2015 code whose definition (as PROJ gives it) equals this projection and radius.

@@ -232,3 +232,27 @@ fn missing_file_is_a_clear_error() {
     let err = Dem::open("/nonexistent/dem.tif", &Default::default()).unwrap_err();
     assert!(err.to_string().contains("no such file"), "{err}");
 }
+
+/// A window large enough to be read in parallel bands of rows (over a million pixels), hanging
+/// over the raster's top-left corner, against GDAL's own read of the same pixels.
+#[test]
+fn large_window_read_in_bands_equals_gdal() {
+    let demo = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../../demo-terrain/farside-patch.tif");
+    let dem = Dem::open(&demo, &OpenOptions::default()).expect("demo terrain is committed");
+    let (col, row, w, h) = (-37isize, -11isize, 1203usize, 1001usize);
+    let grid = dem.read_window(col, row, w, h).unwrap();
+    let ds = gdal::Dataset::open(&demo).unwrap();
+    let (iw, ih) = (w - 37, h - 11);
+    let gdal_px = ds.rasterband(1).unwrap().read_as::<f32>((0, 0), (iw, ih), (iw, ih), None).unwrap();
+    for r in 0..h {
+        for c in 0..w {
+            let ours = grid.heights_m[r * w + c];
+            if r < 11 || c < 37 {
+                assert!(ours.is_nan(), "outside the raster at ({c}, {r})");
+            } else {
+                let theirs = gdal_px.data()[(r - 11) * iw + (c - 37)];
+                assert_eq!(ours.to_bits(), theirs.to_bits(), "at ({c}, {r})");
+            }
+        }
+    }
+}
