@@ -1,8 +1,8 @@
-//! Replays the catalogue fuzz target's inputs (fuzz/fuzz_targets/catalogue_read.rs) on stable:
+//! Replays the catalogue fuzz target's inputs (fuzz/fuzz_targets/catalogue_read.rs, steps in
+//! fuzz/steps/catalogue_read.rs) on stable:
 //! the committed seeds in fuzz/corpus/catalogue_read/ and every input that once failed, kept
 //! in tests/fuzz-regressions/catalogue_read/. Each must read or give a typed error, never
 //! panic, and the two bad-row modes must agree.
-
 
 use craters::catalogue::{self, OnBadRow};
 
@@ -10,46 +10,14 @@ use craters::catalogue::{self, OnBadRow};
 mod replay;
 use replay::inputs;
 
-/// The catalogue_read target's steps.
-fn catalogue_steps(data: &[u8]) {
-    let skip = catalogue::read_csv_bytes(data, "fuzz.csv", OnBadRow::Skip);
-    let stop = catalogue::read_csv_bytes(data, "fuzz.csv", OnBadRow::Stop);
-    let Ok((rows, problems)) = skip else {
-        assert!(stop.is_err(), "Stop mode read a file Skip mode refuses");
-        return;
-    };
-    assert_eq!(
-        stop.is_ok(),
-        problems.is_empty(),
-        "Stop mode disagrees with the problems Skip mode found"
-    );
-    for r in &rows {
-        assert!(
-            (-180.0..180.0).contains(&r.lon_deg) && (-90.0..=90.0).contains(&r.lat_deg),
-            "{r:?}"
-        );
-        assert!(r.diameter_m.is_finite() && r.diameter_m > 0.0, "{r:?}");
-    }
-    let outer: Vec<(f64, f64)> = rows
-        .iter()
-        .filter(|r| r.name.is_none())
-        .map(|r| (r.lon_deg, r.lat_deg))
-        .collect();
-    let mut holes = std::collections::BTreeMap::<&str, Vec<(f64, f64)>>::new();
-    for r in &rows {
-        if let Some(n) = &r.name {
-            holes.entry(n).or_default().push((r.lon_deg, r.lat_deg));
-        }
-    }
-    let holes: Vec<Vec<(f64, f64)>> = holes.into_values().collect();
-    let _ = catalogue::equal_area_circle(terrain::MOON_RADIUS_M, &outer, &holes);
-}
+#[path = "../../../fuzz/steps/catalogue_read.rs"]
+mod steps;
 
 #[test]
 fn catalogue_fuzz_inputs_read_or_fail_with_a_typed_error() {
     for p in inputs("catalogue_read") {
         let data = std::fs::read(&p).expect("read input");
-        if let Err(panic) = std::panic::catch_unwind(|| catalogue_steps(&data)) {
+        if let Err(panic) = std::panic::catch_unwind(|| steps::run(&data)) {
             panic!(
                 "{} panicked: {:?}",
                 p.display(),

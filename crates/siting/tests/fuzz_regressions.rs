@@ -4,56 +4,23 @@
 //! panic, and accepted criteria must keep the target's promises. The survey fuzz target's
 //! ranking step is replayed here too (the survey crate cannot depend on siting).
 
-
-use siting::{Criteria, PreparedTable};
+use siting::Criteria;
 use survey::SurveyFile;
 
 #[path = "../../../tests/fuzz-regressions/inputs.rs"]
 mod replay;
 use replay::inputs;
 
-/// The criteria_parse target's steps.
-fn criteria_steps(data: &[u8]) {
-    let Ok(text) = std::str::from_utf8(data) else {
-        return;
-    };
-    let c = match Criteria::parse(text) {
-        Ok(c) => c,
-        Err(e) => {
-            let _ = e.to_string();
-            return;
-        }
-    };
-    c.validate()
-        .expect("parse accepted criteria that validate refuses");
-    let again = Criteria::parse(&c.to_toml())
-        .expect("canonical text of accepted criteria does not read back");
-    assert_eq!(again, c, "canonical text reads back as other criteria");
-    assert!(c
-        .normalised_weights()
-        .iter()
-        .all(|w| w.is_finite() && *w >= 0.0));
-    for s in &c.criteria {
-        for v in [
-            s.worst,
-            s.ideal,
-            0.5 * s.worst + 0.5 * s.ideal,
-            0.0,
-            f64::MIN,
-            f64::MAX,
-            f64::NAN,
-        ] {
-            let u = siting::utility::utility(s, Some(v));
-            assert!((0.0..=1.0).contains(&u), "utility {u} outside [0, 1]");
-        }
-    }
-}
+#[path = "../../../fuzz/steps/criteria_parse.rs"]
+mod criteria_steps;
+#[path = "../../../fuzz/steps/survey_rank.rs"]
+mod rank_steps;
 
 #[test]
 fn criteria_fuzz_inputs_parse_or_fail_with_a_typed_error() {
     for p in inputs("criteria_parse") {
         let data = std::fs::read(&p).expect("read input");
-        if let Err(panic) = std::panic::catch_unwind(|| criteria_steps(&data)) {
+        if let Err(panic) = std::panic::catch_unwind(|| criteria_steps::run(&data)) {
             panic!(
                 "{} panicked: {:?}",
                 p.display(),
@@ -72,11 +39,7 @@ fn survey_fuzz_inputs_rank_under_the_shipped_criteria_or_fail_with_a_typed_error
         )) else {
             continue;
         };
-        let result = std::panic::catch_unwind(|| {
-            if let Ok(table) = PreparedTable::new(&s, &criteria) {
-                let _ = siting::rank(&table, &criteria);
-            }
-        });
+        let result = std::panic::catch_unwind(|| rank_steps::run(&s, &criteria));
         if let Err(panic) = result {
             panic!(
                 "{} panicked in ranking: {:?}",

@@ -12,33 +12,16 @@ use survey::SurveyFile;
 mod replay;
 use replay::inputs;
 
-/// The survey_read target's steps, up to the ranking.
-fn survey_steps(data: &[u8]) {
-    let Ok(text) = std::str::from_utf8(data) else {
-        return;
-    };
-    let s = match SurveyFile::from_json(text) {
-        Ok(s) => s,
-        Err(e) => {
-            let _ = e.to_string();
-            return;
-        }
-    };
-    let again = SurveyFile::from_json(&s.to_json())
-        .expect("a survey that was read does not read back after writing");
-    assert_eq!(
-        again.to_json(),
-        s.to_json(),
-        "writing a survey that was read is not stable"
-    );
-    let _ = survey::merge(vec![s.clone()]);
-}
+#[path = "../../../fuzz/steps/survey_read.rs"]
+mod steps;
 
 #[test]
 fn survey_fuzz_inputs_read_or_fail_with_a_typed_error() {
     for p in inputs("survey_read") {
         let data = std::fs::read(&p).expect("read input");
-        if let Err(panic) = std::panic::catch_unwind(|| survey_steps(&data)) {
+        if let Err(panic) = std::panic::catch_unwind(|| {
+            steps::run(&data);
+        }) {
             panic!(
                 "{} panicked: {:?}",
                 p.display(),
