@@ -4,13 +4,15 @@
 //! measured the same way whether the crater was detected here or seeded from a catalogue.
 //! Craters knows nothing of visibility, ranking or the GUI.
 //!
-//! - [`detect`]: provisional craters from two cues, closed depressions and radial symmetry.
+//! - [`detect`]: provisional craters from three cues: closed depressions, radial symmetry and
+//!   bowl-shaped blobs.
 //! - [`measure`]: rim, floor and uncertainties of one crater in a local metric frame.
 //! - [`merge_duplicates`]: one measurement per crater across tiles and scales (R-tree).
 //! - [`survey_grid`]: all three over one window, in parallel.
 //! - [`catalogue::read`]: seeds from a crater list.
 
 pub mod catalogue;
+mod blobs;
 mod bootstrap;
 mod circle_fit;
 mod detect;

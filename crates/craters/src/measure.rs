@@ -404,7 +404,12 @@ fn measure_in(
     if rim_pts.len() < 6 {
         return Err(nm("too few rim crests near the fitted circle"));
     }
-    let has: Vec<bool> = rim_r.iter().map(|v| v.is_finite()).collect();
+    let has = rim_present(
+        &rim_r,
+        &heights_on_circle(&sc.det, (cx, cy), r),
+        &crest_det,
+        plain_level,
+    );
     let completeness = has.iter().filter(|b| **b).count() as f64 / n as f64;
     let (gap_len, gap_mid) = widest_gap(&has);
     let step_deg = 360.0 / n as f64;
@@ -484,6 +489,72 @@ fn measure_in(
         floor_height_m: fl.floor_height_m,
         rim_fit_rms_m: fit_rms,
     })
+}
+
+/// Which azimuths have a rim. Normally those with an accepted crest near the circle. Where the
+/// rim is breached, cut down below the surrounding plain somewhere (the lowest height on the
+/// circle below the plain's median), the test is the one a cut rim's own definition implies:
+/// an azimuth keeps its rim while its height on the circle stands at least halfway between
+/// the intact rim (median crest) and the deepest cut. A cut blended into the rim over some
+/// degrees then loses the azimuths cut by more than half, wherever the crest test would stop;
+/// and an intact azimuth whose crest is masked by a bump just beside it still counts (ours).
+fn rim_present(rim_r: &[f32], circle_h: &[f64], crest_det: &[f64], plain_level: f64) -> Vec<bool> {
+    let crest_present: Vec<bool> = rim_r.iter().map(|v| v.is_finite()).collect();
+    let lowest = circle_h
+        .iter()
+        .copied()
+        .filter(|h| h.is_finite())
+        .fold(f64::INFINITY, f64::min);
+    // Comparisons that fail on NaN as well (no breach found).
+    use std::cmp::Ordering::{Greater, Less};
+    if crest_det.is_empty() || lowest.partial_cmp(&plain_level) != Some(Less) {
+        return crest_present;
+    }
+    let intact = stats::median(&mut crest_det.to_vec());
+    let half = 0.5 * (intact + lowest);
+    if intact.partial_cmp(&plain_level) != Some(Greater) {
+        return crest_present;
+    }
+    let above: Vec<bool> = circle_h.iter().map(|h| *h >= half).collect();
+    // The cut: the run of azimuths below halfway around the lowest one. A breach spans tens
+    // of degrees; a narrow dip is a small crater or a pit on the rim, not a breach.
+    let n = above.len();
+    let Some(low) = circle_h.iter().position(|h| *h == lowest) else {
+        return crest_present;
+    };
+    let run = 1
+        + (1..n).take_while(|j| !above[(low + j) % n]).count()
+        + (1..n).take_while(|j| !above[(low + n - j) % n]).count();
+    if (run as f64) < MIN_BREACH_DEG * n as f64 / 360.0 {
+        return crest_present;
+    }
+    above
+}
+
+/// Narrowest cut taken for a breach (ours; the demo's breaches span 60-120 deg).
+const MIN_BREACH_DEG: f64 = 45.0;
+
+/// Detrended height of each profile where its ray crosses the circle (centre `c`, radius `r`)
+/// in the profiles' frame; NaN where the ray misses it or there is no data.
+fn heights_on_circle(p: &Profiles, c: (f64, f64), r: f64) -> Vec<f64> {
+    let (ox, oy) = (c.0 - p.cx, c.1 - p.cy);
+    let q = ox * ox + oy * oy - r * r;
+    (0..p.n_az)
+        .map(|i| {
+            let b = p.dir[i].0 * ox + p.dir[i].1 * oy;
+            let disc = b * b - q;
+            if disc.is_nan() || disc < 0.0 {
+                return f64::NAN;
+            }
+            let t = (b + disc.sqrt()) / p.dr;
+            let k = t.floor();
+            if k.is_nan() || k < 0.0 || k as usize + 1 >= p.n_r {
+                return f64::NAN;
+            }
+            let (k, f) = (k as usize, t - k);
+            p.at(i, k) * (1.0 - f) + p.at(i, k + 1) * f
+        })
+        .collect()
 }
 
 /// Longest circular run of azimuths without a crest: (length in azimuth steps, middle index).

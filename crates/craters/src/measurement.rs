@@ -72,3 +72,21 @@ mod nan_as_null {
         Ok(v.into_iter().map(|x| x.unwrap_or(f32::NAN)).collect())
     }
 }
+
+impl CraterMeasurement {
+    /// Fraction of the azimuths with a rim crest near the fitted circle (finite
+    /// `rim_crest_radius_m`). Equal to `rim_completeness` except on a breached rim, where
+    /// completeness counts azimuths by their height on the circle (docs/metrics.md): this is
+    /// how much of the rim was traced as crests, which the shape gates and the merge ask.
+    pub fn crest_fraction(&self) -> f64 {
+        let n = self.rim_crest_radius_m.len();
+        if n == 0 {
+            return self.rim_completeness;
+        }
+        self.rim_crest_radius_m
+            .iter()
+            .filter(|r| r.is_finite())
+            .count() as f64
+            / n as f64
+    }
+}

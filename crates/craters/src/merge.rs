@@ -26,13 +26,13 @@ pub fn same_crater(radius_m: f64, a: &CraterMeasurement, b: &CraterMeasurement) 
     d <= CENTRE_FRACTION * small && big <= DIAMETER_RATIO * small
 }
 
-/// Which of two duplicates to keep: whole over edge-cut, then better covered, then the more
-/// complete rim, then the tighter rim fit; position breaks the last ties.
+/// Which of two duplicates to keep: whole over edge-cut, then better covered, then the rim
+/// traced as crests on more azimuths, then the tighter rim fit; position breaks the last ties.
 fn better(a: &CraterMeasurement, b: &CraterMeasurement) -> std::cmp::Ordering {
     (b.edge_cut)
         .cmp(&a.edge_cut)
         .then(a.valid_fraction.total_cmp(&b.valid_fraction))
-        .then(a.rim_completeness.total_cmp(&b.rim_completeness))
+        .then(a.crest_fraction().total_cmp(&b.crest_fraction()))
         .then((b.rim_fit_rms_m / b.diameter_m).total_cmp(&(a.rim_fit_rms_m / a.diameter_m)))
         .then(b.centre_lat_deg.total_cmp(&a.centre_lat_deg))
         .then(b.centre_lon_deg.total_cmp(&a.centre_lon_deg))
@@ -63,8 +63,9 @@ pub fn merge_duplicates_on(radius_m: f64, mut v: Vec<CraterMeasurement>) -> Vec<
     kept
 }
 
-/// A rim traced on under 60% of the azimuths that overlaps, by more than half their mean
-/// radius, a crater whose rim is at least 0.2 more complete is taken for a piece of that
+/// A rim traced as crests ([`CraterMeasurement::crest_fraction`]) on under 60% of the
+/// azimuths that overlaps, by more than half their mean radius, a crater whose rim is traced
+/// on at least 0.2 more of them is taken for a piece of that
 /// crater's wall or of its breach, not a crater of its own (common practice, no source). A
 /// small crater on a large one's floor keeps its full rim and stays.
 fn drop_fragments(radius_m: f64, kept: Vec<CraterMeasurement>, tree: &RTree<GeomWithData<[f64; 3], usize>>) -> Vec<CraterMeasurement> {
@@ -72,7 +73,7 @@ fn drop_fragments(radius_m: f64, kept: Vec<CraterMeasurement>, tree: &RTree<Geom
     let fragment: Vec<bool> = kept
         .iter()
         .map(|m| {
-            if m.rim_completeness >= 0.6 {
+            if m.crest_fraction() >= 0.6 {
                 return false;
             }
             let p = cartesian(radius_m, m.centre_lon_deg, m.centre_lat_deg);
@@ -80,7 +81,7 @@ fn drop_fragments(radius_m: f64, kept: Vec<CraterMeasurement>, tree: &RTree<Geom
             tree.locate_within_distance(p, reach * reach).any(|q| {
                 let o = &kept[q.data];
                 let d = dist(radius_m, m, o);
-                o.rim_completeness >= m.rim_completeness + 0.2 && d < 0.25 * (m.diameter_m + o.diameter_m)
+                o.crest_fraction() >= m.crest_fraction() + 0.2 && d < 0.25 * (m.diameter_m + o.diameter_m)
             })
         })
         .collect();

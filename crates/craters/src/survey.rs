@@ -29,8 +29,9 @@ const SIMPLE_COMPLEX_TRANSITION_KM: f64 = 15.0;
 ///   size, and at most 0.4: degraded craters keep a good part of their depth, while random
 ///   hollows of rough ground are far shallower for their width (on the demo terrain, 95% of
 ///   false candidates had d/D < 0.034 and 95% of true ones d/D > 0.08);
-/// - a rim traced on at least half the azimuths, scattered by at most 6% of D about its
-///   circle, and level: rim-height standard deviation at most half the depth.
+/// - a rim traced as crests ([`CraterMeasurement::crest_fraction`]) on at least 35% of the
+///   azimuths, scattered by at most 6% of D about its circle, and level: rim-height standard
+///   deviation at most half the depth.
 ///
 /// The thresholds are common practice, no source, checked on the demo terrain and LOLA.
 pub fn looks_like_crater(m: &CraterMeasurement, opts: &DetectOptions) -> bool {
@@ -38,7 +39,7 @@ pub fn looks_like_crater(m: &CraterMeasurement, opts: &DetectOptions) -> bool {
         && m.diameter_m <= opts.diameter_max_m
         && m.depth_to_diameter >= opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(m.diameter_m)
         && m.depth_to_diameter <= 0.4
-        && m.rim_completeness >= 0.35
+        && m.crest_fraction() >= 0.35
         && m.rim_fit_rms_m <= 0.06 * m.diameter_m
         && m.rim_height_sd_m <= 0.5 * m.depth_m
 }

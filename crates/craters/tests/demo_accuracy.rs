@@ -6,9 +6,9 @@
 //! and the crest is what a rim measurement sees). The issue's targets for planted craters at
 //! least 8 px across are recall >= 0.9, precision >= 0.85, median diameter error <= 3%,
 //! median d/D error <= 0.01, and rim completeness within 0.1 of planted for breached craters.
-//! Recall and the breached completeness do not reach them yet: the test prints the scores
-//! against the targets, asserts the targets that are met and the levels reached so far for
-//! the others, so a regression fails while the gap stays visible.
+//! Recall does not reach its target yet: the test prints the scores against the targets,
+//! asserts the targets that are met and the level reached so far for recall, so a regression
+//! fails while the gap stays visible.
 
 use craters::{survey_grid, DetectOptions, MeasureOptions};
 use serde::Deserialize;
@@ -116,14 +116,14 @@ fn demo_terrain_scores_against_planted_truth() {
         println!("issue target for {name}: {}", if met { "met" } else { "NOT met" });
     }
     // The targets are for the whole patch (release builds). Issue targets met there (precision,
-    // median diameter error, median d/D error) are asserted as such; recall and the breached
-    // completeness are held at the levels reached. The central window of debug builds scores
+    // median diameter error, median d/D error, breached completeness) are asserted as such;
+    // recall is held at the level reached (0.856). The central window of debug builds scores
     // about 120 craters, too few for the same bars on recall and precision: it keeps floors.
     let whole = !cfg!(debug_assertions);
-    let (recall_floor, precision_floor) = if whole { (0.80, 0.85) } else { (0.75, 0.80) };
+    let (recall_floor, precision_floor) = if whole { (0.85, 0.85) } else { (0.75, 0.80) };
     assert!(recall >= recall_floor, "recall {recall:.3} fell below the level reached ({recall_floor}; target 0.9)");
     assert!(precision >= precision_floor, "precision {precision:.3} < {precision_floor} (issue target 0.85)");
     assert!(de <= 0.03, "median diameter error {de:.4} > 3% (issue target)");
     assert!(dde <= 0.01, "median d/D error {dde:.4} > 0.01 (issue target)");
-    assert!(ce <= 0.13, "breached completeness error {ce:.3} rose above the level reached (0.13; target 0.1)");
+    assert!(ce <= 0.1, "breached completeness error {ce:.3} > 0.1 (issue target)");
 }
