@@ -24,7 +24,16 @@ impl PartialOrd for Cell {
     }
 }
 
-const NB: [(isize, isize); 8] = [(-1, -1), (0, -1), (1, -1), (-1, 0), (1, 0), (-1, 1), (0, 1), (1, 1)];
+const NB: [(isize, isize); 8] = [
+    (-1, -1),
+    (0, -1),
+    (1, -1),
+    (-1, 0),
+    (1, 0),
+    (-1, 1),
+    (0, 1),
+    (1, 1),
+];
 
 /// Heights with every closed depression filled to its spill level.
 pub fn fill(z: &[f32], w: usize, h: usize) -> Vec<f32> {
@@ -41,7 +50,9 @@ pub fn fill(z: &[f32], w: usize, h: usize) -> Vec<f32> {
             }
             let border = i == 0 || j == 0 || i + 1 == w || j + 1 == h;
             let by_nodata = !border
-                && NB.iter().any(|&(di, dj)| z[(j as isize + dj) as usize * w + (i as isize + di) as usize].is_nan());
+                && NB.iter().any(|&(di, dj)| {
+                    z[(j as isize + dj) as usize * w + (i as isize + di) as usize].is_nan()
+                });
             if border || by_nodata {
                 closed[k] = true;
                 open.push(Cell(z[k], k as u32));
@@ -121,7 +132,12 @@ pub fn find(z: &[f32], w: usize, h: usize, min_depth: f64) -> Vec<Depression> {
             }
         }
         if maxd > min_depth {
-            out.push(Depression { ci: si / n as f64, cj: sj / n as f64, cells: n, max_depth: maxd });
+            out.push(Depression {
+                ci: si / n as f64,
+                cj: sj / n as f64,
+                cells: n,
+                max_depth: maxd,
+            });
         }
     }
     out

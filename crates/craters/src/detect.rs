@@ -56,7 +56,8 @@ pub struct DetectOptions {
 impl DetectOptions {
     /// The default range for a window: 3 pixels up to a third of the window's shorter side.
     pub fn for_grid(grid: &ElevationGrid) -> Result<DetectOptions, CraterError> {
-        let (dx, dy) = pyramid::window_pixel_size_m(grid).ok_or_else(|| CraterError::Geometry("no pixel size at the window centre".into()))?;
+        let (dx, dy) = pyramid::window_pixel_size_m(grid)
+            .ok_or_else(|| CraterError::Geometry("no pixel size at the window centre".into()))?;
         let px = dx.max(dy);
         Ok(DetectOptions {
             diameter_min_m: 3.0 * px,
@@ -110,7 +111,8 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
             opts.diameter_min_m, opts.diameter_max_m
         )));
     }
-    let (dx, dy) = pyramid::window_pixel_size_m(grid).ok_or_else(|| CraterError::Geometry("no pixel size at the window centre".into()))?;
+    let (dx, dy) = pyramid::window_pixel_size_m(grid)
+        .ok_or_else(|| CraterError::Geometry("no pixel size at the window centre".into()))?;
     let g0 = (dx * dy).sqrt();
     let window_m = (grid.width as f64 * dx).min(grid.height as f64 * dy);
     // A crater needs room for its profiles (out to 2.5 R) to be measured; ask for 2 D at least.
@@ -133,7 +135,11 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
     loop {
         let cell = g0 * 2f64.powi(level_idx as i32);
         let (band_lo, band_hi) = (BAND_LO_CELLS * cell, 2.0 * BAND_LO_CELLS * cell);
-        let lo = if level_idx == 0 { opts.diameter_min_m.min(band_lo) } else { band_lo };
+        let lo = if level_idx == 0 {
+            opts.diameter_min_m.min(band_lo)
+        } else {
+            band_lo
+        };
         if lo > d_max {
             break;
         }
@@ -157,7 +163,15 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
     Ok(suppress(out, grid.geometry.body_radius_m))
 }
 
-fn scan_level(grid: &ElevationGrid, level: &pyramid::Level, coarse: &pyramid::Level, lo: f64, hi: f64, opts: &DetectOptions, out: &mut Vec<Detection>) {
+fn scan_level(
+    grid: &ElevationGrid,
+    level: &pyramid::Level,
+    coarse: &pyramid::Level,
+    lo: f64,
+    hi: f64,
+    opts: &DetectOptions,
+    out: &mut Vec<Detection>,
+) {
     if opts.use_depressions {
         scan_depressions(grid, coarse, lo, hi, opts, out);
     }
@@ -168,7 +182,8 @@ fn scan_level(grid: &ElevationGrid, level: &pyramid::Level, coarse: &pyramid::Le
     let (w, h) = (level.width, level.height);
     let to_lonlat = |i: f64, j: f64| {
         let (c, r) = level.to_window(i, j);
-        grid.geometry.pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5)
+        grid.geometry
+            .pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5)
     };
     if opts.use_symmetry {
         let n_lo = (0.4 * lo / cell).max(1.0);
@@ -182,7 +197,13 @@ fn scan_level(grid: &ElevationGrid, level: &pyramid::Level, coarse: &pyramid::Le
         for p in radial_symmetry::peaks(&level.z, w, h, &radii, opts.min_symmetry_score) {
             let dia = (DIAMETER_PER_VOTE_RADIUS * p.radius_cells * cell).clamp(lo, hi);
             if let Some((lon, lat)) = to_lonlat(p.i as f64, p.j as f64) {
-                out.push(Detection { lon_deg: lon, lat_deg: lat, diameter_m: dia, score: p.score, cue: Cue::RadialSymmetry });
+                out.push(Detection {
+                    lon_deg: lon,
+                    lat_deg: lat,
+                    diameter_m: dia,
+                    score: p.score,
+                    cue: Cue::RadialSymmetry,
+                });
             }
         }
     }
@@ -191,7 +212,14 @@ fn scan_level(grid: &ElevationGrid, level: &pyramid::Level, coarse: &pyramid::Le
 /// Closed depressions, looked for one level coarser than the symmetry votes (craters of the
 /// band span 4-8 cells there): a filled bowl stays a closed region at that size, and the fill,
 /// the costliest step of detection, then touches a quarter of the cells.
-fn scan_depressions(grid: &ElevationGrid, level: &pyramid::Level, lo: f64, hi: f64, opts: &DetectOptions, out: &mut Vec<Detection>) {
+fn scan_depressions(
+    grid: &ElevationGrid,
+    level: &pyramid::Level,
+    lo: f64,
+    hi: f64,
+    opts: &DetectOptions,
+    out: &mut Vec<Detection>,
+) {
     let cell = level.cell_m;
     let (w, h) = (level.width, level.height);
     if w < 8 || h < 8 {
@@ -208,15 +236,31 @@ fn scan_depressions(grid: &ElevationGrid, level: &pyramid::Level, lo: f64, hi: f
             continue;
         }
         let (c, r) = level.to_window(d.ci, d.cj);
-        if let Some((lon, lat)) = grid.geometry.pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5) {
-            out.push(Detection { lon_deg: lon, lat_deg: lat, diameter_m: dia.clamp(lo, hi), score: d.max_depth / dia, cue: Cue::Depression });
+        if let Some((lon, lat)) = grid
+            .geometry
+            .pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5)
+        {
+            out.push(Detection {
+                lon_deg: lon,
+                lat_deg: lat,
+                diameter_m: dia.clamp(lo, hi),
+                score: d.max_depth / dia,
+                cue: Cue::Depression,
+            });
         }
     }
 }
 
 /// Bowl-shaped blobs, on the coarser level like the depressions (craters of the band span 4-8
 /// cells there): four scales per octave over the band, sigma = D / [`blobs::DIAMETER_PER_SIGMA`].
-fn scan_blobs(grid: &ElevationGrid, level: &pyramid::Level, lo: f64, hi: f64, opts: &DetectOptions, out: &mut Vec<Detection>) {
+fn scan_blobs(
+    grid: &ElevationGrid,
+    level: &pyramid::Level,
+    lo: f64,
+    hi: f64,
+    opts: &DetectOptions,
+    out: &mut Vec<Detection>,
+) {
     let cell = level.cell_m;
     let (w, h) = (level.width, level.height);
     if w < 8 || h < 8 {
@@ -236,8 +280,17 @@ fn scan_blobs(grid: &ElevationGrid, level: &pyramid::Level, lo: f64, hi: f64, op
     for b in blobs::find(&level.z, w, h, &sigmas, cell, opts.min_blob_ratio) {
         let dia = (blobs::DIAMETER_PER_SIGMA * b.sigma_cells * cell).clamp(lo, hi);
         let (c, r) = level.to_window(b.i as f64, b.j as f64);
-        if let Some((lon, lat)) = grid.geometry.pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5) {
-            out.push(Detection { lon_deg: lon, lat_deg: lat, diameter_m: dia, score: b.response / dia, cue: Cue::Blob });
+        if let Some((lon, lat)) = grid
+            .geometry
+            .pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5)
+        {
+            out.push(Detection {
+                lon_deg: lon,
+                lat_deg: lat,
+                diameter_m: dia,
+                score: b.response / dia,
+                cue: Cue::Blob,
+            });
         }
     }
 }

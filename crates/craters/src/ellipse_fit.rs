@@ -16,8 +16,16 @@ pub struct Ellipse {
 }
 
 fn null_vector(m: &Matrix3<f64>) -> Vector3<f64> {
-    let rows = [m.row(0).transpose(), m.row(1).transpose(), m.row(2).transpose()];
-    let cands = [rows[0].cross(&rows[1]), rows[0].cross(&rows[2]), rows[1].cross(&rows[2])];
+    let rows = [
+        m.row(0).transpose(),
+        m.row(1).transpose(),
+        m.row(2).transpose(),
+    ];
+    let cands = [
+        rows[0].cross(&rows[1]),
+        rows[0].cross(&rows[2]),
+        rows[1].cross(&rows[2]),
+    ];
     let mut best = cands[0];
     for c in &cands[1..] {
         if c.norm() > best.norm() {
@@ -33,12 +41,23 @@ pub fn fit(pts: &[(f64, f64)]) -> Option<Ellipse> {
         return None;
     }
     let n = pts.len() as f64;
-    let (mx, my) = pts.iter().fold((0.0, 0.0), |a, p| (a.0 + p.0 / n, a.1 + p.1 / n));
-    let s = (pts.iter().map(|p| (p.0 - mx).powi(2) + (p.1 - my).powi(2)).sum::<f64>() / n).sqrt();
+    let (mx, my) = pts
+        .iter()
+        .fold((0.0, 0.0), |a, p| (a.0 + p.0 / n, a.1 + p.1 / n));
+    let s = (pts
+        .iter()
+        .map(|p| (p.0 - mx).powi(2) + (p.1 - my).powi(2))
+        .sum::<f64>()
+        / n)
+        .sqrt();
     if !(s > 0.0) {
         return None;
     }
-    let (mut s1, mut s2, mut s3) = (Matrix3::<f64>::zeros(), Matrix3::<f64>::zeros(), Matrix3::<f64>::zeros());
+    let (mut s1, mut s2, mut s3) = (
+        Matrix3::<f64>::zeros(),
+        Matrix3::<f64>::zeros(),
+        Matrix3::<f64>::zeros(),
+    );
     for p in pts {
         let (x, y) = ((p.0 - mx) / s, (p.1 - my) / s);
         let d1 = Vector3::new(x * x, x * y, y * y);
@@ -79,10 +98,22 @@ pub fn fit(pts: &[(f64, f64)]) -> Option<Ellipse> {
     }
     let (ax1, ax2) = (q1.sqrt() * s, q2.sqrt() * s);
     // The smaller eigenvalue belongs to the longer axis.
-    let (vx, vy) = if b.abs() > 1e-15 { (b / 2.0, l1 - a) } else if a <= c { (1.0, 0.0) } else { (0.0, 1.0) };
+    let (vx, vy) = if b.abs() > 1e-15 {
+        (b / 2.0, l1 - a)
+    } else if a <= c {
+        (1.0, 0.0)
+    } else {
+        (0.0, 1.0)
+    };
     let az = vx.atan2(vy).to_degrees().rem_euclid(180.0);
     let (semi_major, semi_minor) = if ax1 >= ax2 { (ax1, ax2) } else { (ax2, ax1) };
-    Some(Ellipse { cx: x0 * s + mx, cy: y0 * s + my, semi_major, semi_minor, azimuth_deg: if az >= 180.0 { 0.0 } else { az } })
+    Some(Ellipse {
+        cx: x0 * s + mx,
+        cy: y0 * s + my,
+        semi_major,
+        semi_minor,
+        azimuth_deg: if az >= 180.0 { 0.0 } else { az },
+    })
 }
 
 #[cfg(test)]
@@ -98,11 +129,17 @@ mod tests {
                 let t = i as f64 / 40.0 * std::f64::consts::TAU;
                 let (u, v) = (a * t.cos(), b * t.sin());
                 // Major axis at azimuth th from north: direction (sin th, cos th).
-                (1000.0 + u * th.sin() + v * th.cos(), -500.0 + u * th.cos() - v * th.sin())
+                (
+                    1000.0 + u * th.sin() + v * th.cos(),
+                    -500.0 + u * th.cos() - v * th.sin(),
+                )
             })
             .collect();
         let e = fit(&pts).expect("fit");
-        assert!((e.semi_major - a).abs() < 1e-6 && (e.semi_minor - b).abs() < 1e-6, "{e:?}");
+        assert!(
+            (e.semi_major - a).abs() < 1e-6 && (e.semi_minor - b).abs() < 1e-6,
+            "{e:?}"
+        );
         assert!((e.cx - 1000.0).abs() < 1e-6 && (e.cy + 500.0).abs() < 1e-6);
         assert!((e.azimuth_deg - 30.0).abs() < 1e-6, "{e:?}");
     }

@@ -11,12 +11,12 @@
 //! - [`survey_grid`]: all three over one window, in parallel.
 //! - [`catalogue::read`]: seeds from a crater list.
 
-pub mod catalogue;
 mod blobs;
 mod bootstrap;
+pub mod catalogue;
 mod circle_fit;
-mod detect;
 mod depressions;
+mod detect;
 mod ellipse_fit;
 mod error;
 mod floor;

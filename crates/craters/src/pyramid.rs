@@ -32,7 +32,9 @@ impl Level {
 pub fn window_pixel_size_m(grid: &ElevationGrid) -> Option<(f64, f64)> {
     let c = grid.col0 as f64 + grid.width as f64 / 2.0;
     let r = grid.row0 as f64 + grid.height as f64 / 2.0;
-    grid.geometry.pixel_size_m_at(c, r).filter(|p| p.0 > 0.0 && p.1 > 0.0 && p.0.is_finite() && p.1.is_finite())
+    grid.geometry
+        .pixel_size_m_at(c, r)
+        .filter(|p| p.0 > 0.0 && p.1 > 0.0 && p.0.is_finite() && p.1.is_finite())
 }
 
 /// One sub-sample position along an axis: the window pixels either side and the fraction.
@@ -48,7 +50,10 @@ pub fn build(grid: &ElevationGrid, px_m: (f64, f64), cell_m: f64) -> Level {
     let (sx, sy) = (cell_m / px_m.0, cell_m / px_m.1);
     let width = ((grid.width as f64 / sx).floor() as usize).max(1);
     let height = ((grid.height as f64 / sy).floor() as usize).max(1);
-    let (mx, my) = ((sx.round() as usize).clamp(1, 4), (sy.round() as usize).clamp(1, 4));
+    let (mx, my) = (
+        (sx.round() as usize).clamp(1, 4),
+        (sy.round() as usize).clamp(1, 4),
+    );
     // Where each sub-sample falls, worked out once per column and once per row rather than
     // per cell: its two neighbouring window pixels and the fraction between them. The sums
     // below are `ElevationGrid::sample`'s bilinear formula, term for term, so the level is the
@@ -57,10 +62,15 @@ pub fn build(grid: &ElevationGrid, px_m: (f64, f64), cell_m: f64) -> Level {
         let mut taps = Vec::with_capacity(n * m);
         for i in 0..n {
             for a in 0..m {
-                let x = ((i as f64 + (a as f64 + 0.5) / m as f64) * s - 0.5).clamp(0.0, len as f64 - 1.0);
+                let x = ((i as f64 + (a as f64 + 0.5) / m as f64) * s - 0.5)
+                    .clamp(0.0, len as f64 - 1.0);
                 let x0 = x.floor() as usize;
                 let f = x - x0 as f64;
-                taps.push(Tap { lo: x0, hi: if f > 0.0 { x0 + 1 } else { x0 }, f });
+                taps.push(Tap {
+                    lo: x0,
+                    hi: if f > 0.0 { x0 + 1 } else { x0 },
+                    f,
+                });
             }
         }
         taps
@@ -75,16 +85,23 @@ pub fn build(grid: &ElevationGrid, px_m: (f64, f64), cell_m: f64) -> Level {
         for (i, v) in row.iter_mut().enumerate() {
             let (mut sum, mut n) = (0.0, 0);
             for rt in row_taps {
-                let (top, bottom) = (&hm[rt.lo * gw..rt.lo * gw + gw], &hm[rt.hi * gw..rt.hi * gw + gw]);
+                let (top, bottom) = (
+                    &hm[rt.lo * gw..rt.lo * gw + gw],
+                    &hm[rt.hi * gw..rt.hi * gw + gw],
+                );
                 let fr = rt.f;
                 for ct in &cols[i * mx..(i + 1) * mx] {
-                    let (h00, h10, h01, h11) = (top[ct.lo], top[ct.hi], bottom[ct.lo], bottom[ct.hi]);
+                    let (h00, h10, h01, h11) =
+                        (top[ct.lo], top[ct.hi], bottom[ct.lo], bottom[ct.hi]);
                     if h00.is_nan() || h10.is_nan() || h01.is_nan() || h11.is_nan() {
                         continue;
                     }
                     let (h00, h10, h01, h11) = (h00 as f64, h10 as f64, h01 as f64, h11 as f64);
                     let fc = ct.f;
-                    sum += h00 * (1.0 - fc) * (1.0 - fr) + h10 * fc * (1.0 - fr) + h01 * (1.0 - fc) * fr + h11 * fc * fr;
+                    sum += h00 * (1.0 - fc) * (1.0 - fr)
+                        + h10 * fc * (1.0 - fr)
+                        + h01 * (1.0 - fc) * fr
+                        + h11 * fc * fr;
                     n += 1;
                 }
             }
@@ -93,7 +110,14 @@ pub fn build(grid: &ElevationGrid, px_m: (f64, f64), cell_m: f64) -> Level {
             }
         }
     });
-    Level { width, height, cell_m, sx, sy, z }
+    Level {
+        width,
+        height,
+        cell_m,
+        sx,
+        sy,
+        z,
+    }
 }
 
 /// Box mean over a (2k+1)^2 neighbourhood ignoring NaN (summed-area table), for removing
@@ -137,15 +161,20 @@ mod tests {
         let (sx, sy) = (cell_m / px_m.0, cell_m / px_m.1);
         let width = ((grid.width as f64 / sx).floor() as usize).max(1);
         let height = ((grid.height as f64 / sy).floor() as usize).max(1);
-        let (mx, my) = ((sx.round() as usize).clamp(1, 4), (sy.round() as usize).clamp(1, 4));
+        let (mx, my) = (
+            (sx.round() as usize).clamp(1, 4),
+            (sy.round() as usize).clamp(1, 4),
+        );
         let mut z = vec![f32::NAN; width * height];
         for j in 0..height {
             for i in 0..width {
                 let (mut sum, mut n) = (0.0, 0);
                 for b in 0..my {
                     for a in 0..mx {
-                        let c = ((i as f64 + (a as f64 + 0.5) / mx as f64) * sx - 0.5).clamp(0.0, grid.width as f64 - 1.0);
-                        let r = ((j as f64 + (b as f64 + 0.5) / my as f64) * sy - 0.5).clamp(0.0, grid.height as f64 - 1.0);
+                        let c = ((i as f64 + (a as f64 + 0.5) / mx as f64) * sx - 0.5)
+                            .clamp(0.0, grid.width as f64 - 1.0);
+                        let r = ((j as f64 + (b as f64 + 0.5) / my as f64) * sy - 0.5)
+                            .clamp(0.0, grid.height as f64 - 1.0);
                         if let Some(h) = grid.sample(c, r) {
                             sum += h;
                             n += 1;
@@ -167,23 +196,39 @@ mod tests {
         let heights_m = (0..w * h)
             .map(|k| {
                 let (i, j) = ((k % w) as f32, (k / w) as f32);
-                if (i * 7.0 + j * 3.0) % 23.0 == 0.0 { f32::NAN } else { (i * 0.37).sin() * 80.0 + j * 1.3 + (i * j * 0.01).cos() }
+                if (i * 7.0 + j * 3.0) % 23.0 == 0.0 {
+                    f32::NAN
+                } else {
+                    (i * 0.37).sin() * 80.0 + j * 1.3 + (i * j * 0.01).cos()
+                }
             })
             .collect();
         let grid = ElevationGrid {
-            geometry: Arc::new(GridGeometry::global_simple_cylindrical(terrain::MOON_RADIUS_M, 4)),
+            geometry: Arc::new(GridGeometry::global_simple_cylindrical(
+                terrain::MOON_RADIUS_M,
+                4,
+            )),
             col0: 0,
             row0: 0,
             width: w,
             height: h,
             heights_m,
         };
-        for (px, cell) in [((30.0, 30.0), 30.0), ((30.0, 30.0), 60.0), ((21.0, 30.0), 75.0), ((30.0, 30.0), 240.0), ((30.0, 17.0), 45.5)] {
+        for (px, cell) in [
+            ((30.0, 30.0), 30.0),
+            ((30.0, 30.0), 60.0),
+            ((21.0, 30.0), 75.0),
+            ((30.0, 30.0), 240.0),
+            ((30.0, 17.0), 45.5),
+        ] {
             let level = build(&grid, px, cell);
             let reference = build_by_sampling(&grid, px, cell);
             assert_eq!(level.z.len(), reference.len());
             for (a, b) in level.z.iter().zip(&reference) {
-                assert!(a.to_bits() == b.to_bits() || (a.is_nan() && b.is_nan()), "cell {cell}: {a} != {b}");
+                assert!(
+                    a.to_bits() == b.to_bits() || (a.is_nan() && b.is_nan()),
+                    "cell {cell}: {a} != {b}"
+                );
             }
         }
     }

@@ -25,7 +25,9 @@ const ALPHA: i32 = 2;
 
 fn gaussian_blur(v: &mut [f32], w: usize, h: usize, sigma: f64) {
     let rad = (2.0 * sigma).ceil() as usize;
-    let k: Vec<f32> = (-(rad as isize)..=rad as isize).map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32).collect();
+    let k: Vec<f32> = (-(rad as isize)..=rad as isize)
+        .map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32)
+        .collect();
     let ks: f32 = k.iter().sum();
     let k: Vec<f32> = k.iter().map(|kv| kv / ks).collect();
     // Taps falling outside the window count as zero (the kernel is not renormalised there).
@@ -48,7 +50,10 @@ fn gaussian_blur(v: &mut [f32], w: usize, h: usize, sigma: f64) {
             if jj < 0 || jj as usize >= h {
                 continue;
             }
-            for (d, s) in dst.iter_mut().zip(&tmp[jj as usize * w..(jj as usize + 1) * w]) {
+            for (d, s) in dst
+                .iter_mut()
+                .zip(&tmp[jj as usize * w..(jj as usize + 1) * w])
+            {
                 *d += kv * s;
             }
         }
@@ -130,7 +135,12 @@ pub fn peaks(z: &[f32], w: usize, h: usize, radii: &[f64], min_score: f64) -> Ve
             'nb: for dj in -sup..=sup {
                 for di in -sup..=sup {
                     let (ii, jj) = (i as isize + di, j as isize + dj);
-                    if (di, dj) == (0, 0) || ii < 0 || jj < 0 || ii >= w as isize || jj >= h as isize {
+                    if (di, dj) == (0, 0)
+                        || ii < 0
+                        || jj < 0
+                        || ii >= w as isize
+                        || jj >= h as isize
+                    {
                         continue;
                     }
                     let u = total[jj as usize * w + ii as usize];
@@ -142,11 +152,23 @@ pub fn peaks(z: &[f32], w: usize, h: usize, radii: &[f64], min_score: f64) -> Ve
                 }
             }
             if is_max {
-                let (best, _) = per_radius
-                    .iter()
-                    .enumerate()
-                    .fold((0, f32::NEG_INFINITY), |b, (r, f)| if f[j * w + i] > b.1 { (r, f[j * w + i]) } else { b });
-                out.push(Peak { i, j, radius_cells: radii[best], score: v as f64 });
+                let (best, _) =
+                    per_radius
+                        .iter()
+                        .enumerate()
+                        .fold((0, f32::NEG_INFINITY), |b, (r, f)| {
+                            if f[j * w + i] > b.1 {
+                                (r, f[j * w + i])
+                            } else {
+                                b
+                            }
+                        });
+                out.push(Peak {
+                    i,
+                    j,
+                    radius_cells: radii[best],
+                    score: v as f64,
+                });
             }
         }
     }

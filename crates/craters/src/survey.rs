@@ -37,7 +37,8 @@ const SIMPLE_COMPLEX_TRANSITION_KM: f64 = 15.0;
 pub fn looks_like_crater(m: &CraterMeasurement, opts: &DetectOptions) -> bool {
     m.diameter_m >= opts.diameter_min_m
         && m.diameter_m <= opts.diameter_max_m
-        && m.depth_to_diameter >= opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(m.diameter_m)
+        && m.depth_to_diameter
+            >= opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(m.diameter_m)
         && m.depth_to_diameter <= 0.4
         && m.crest_fraction() >= 0.35
         && m.rim_fit_rms_m <= 0.06 * m.diameter_m
@@ -47,7 +48,11 @@ pub fn looks_like_crater(m: &CraterMeasurement, opts: &DetectOptions) -> bool {
 const GUESS_FACTORS: [f64; 3] = [1.0, 1.5, 1.0 / 1.5];
 
 /// Every crater found and measured in the window, duplicates merged, sorted by (lat, lon).
-pub fn survey_grid(grid: &ElevationGrid, detect_opts: &DetectOptions, measure_opts: &MeasureOptions) -> Result<Vec<CraterMeasurement>, CraterError> {
+pub fn survey_grid(
+    grid: &ElevationGrid,
+    detect_opts: &DetectOptions,
+    measure_opts: &MeasureOptions,
+) -> Result<Vec<CraterMeasurement>, CraterError> {
     let dets = detect(grid, detect_opts)?;
     let measured: Vec<CraterMeasurement> = dets
         .par_iter()
@@ -57,7 +62,9 @@ pub fn survey_grid(grid: &ElevationGrid, detect_opts: &DetectOptions, measure_op
             GUESS_FACTORS.iter().find_map(|f| {
                 let dia = f * d.diameter_m;
                 let least = detect_opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(dia);
-                measure_screened(grid, d.lon_deg, d.lat_deg, dia, measure_opts, least).ok().filter(|m| looks_like_crater(m, detect_opts))
+                measure_screened(grid, d.lon_deg, d.lat_deg, dia, measure_opts, least)
+                    .ok()
+                    .filter(|m| looks_like_crater(m, detect_opts))
             })
         })
         .collect();

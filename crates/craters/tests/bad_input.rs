@@ -8,7 +8,11 @@ use craters::{detect, measure, survey_grid, CraterError, DetectOptions, MeasureO
 #[test]
 fn window_too_small_for_the_diameter_range_is_refused_with_the_size_needed() {
     let g = grid_around(20, 20, 16.0, 180.0, 16.0, |_, _| 0.0);
-    let opts = DetectOptions { diameter_min_m: 3000.0, diameter_max_m: 9000.0, ..DetectOptions::default() };
+    let opts = DetectOptions {
+        diameter_min_m: 3000.0,
+        diameter_max_m: 9000.0,
+        ..DetectOptions::default()
+    };
     match detect(&g, &opts) {
         Err(CraterError::GridTooSmall { needed_px, .. }) => assert!(needed_px >= 200),
         other => panic!("expected GridTooSmall, got {other:?}"),
@@ -18,16 +22,29 @@ fn window_too_small_for_the_diameter_range_is_refused_with_the_size_needed() {
 #[test]
 fn all_nodata_window_is_refused_and_measuring_in_it_fails_cleanly() {
     let g = grid_around(100, 100, 16.0, 180.0, 16.0, |_, _| f64::NAN);
-    let opts = DetectOptions { diameter_min_m: 300.0, diameter_max_m: 900.0, ..DetectOptions::default() };
+    let opts = DetectOptions {
+        diameter_min_m: 300.0,
+        diameter_max_m: 900.0,
+        ..DetectOptions::default()
+    };
     assert!(matches!(detect(&g, &opts), Err(CraterError::AllNodata)));
-    assert!(matches!(survey_grid(&g, &opts, &MeasureOptions::default()), Err(CraterError::AllNodata)));
-    assert!(matches!(measure(&g, 180.0, 16.0, 600.0, &MeasureOptions::default()), Err(CraterError::NotMeasurable { .. })));
+    assert!(matches!(
+        survey_grid(&g, &opts, &MeasureOptions::default()),
+        Err(CraterError::AllNodata)
+    ));
+    assert!(matches!(
+        measure(&g, 180.0, 16.0, 600.0, &MeasureOptions::default()),
+        Err(CraterError::NotMeasurable { .. })
+    ));
 }
 
 #[test]
 fn flat_ground_has_no_crater_to_measure() {
     let g = grid_around(100, 100, 16.0, 180.0, 16.0, |_, _| 12.0);
-    assert!(matches!(measure(&g, 180.0, 16.0, 600.0, &MeasureOptions::default()), Err(CraterError::NotMeasurable { .. })));
+    assert!(matches!(
+        measure(&g, 180.0, 16.0, 600.0, &MeasureOptions::default()),
+        Err(CraterError::NotMeasurable { .. })
+    ));
 }
 
 #[test]
@@ -40,12 +57,18 @@ fn crater_cut_by_the_raster_edge_is_flagged_and_its_missing_rim_is_not_invented(
         g.lonlat(0, w / 2).expect("lonlat")
     };
     let (lon_c, lat_c) = lonlat(edge_lon, 16.0, 0.3 * d, 0.0);
-    let g = grid_around(w, w, 16.0, lon_c, lat_c, |x, y| rimmed_bowl(x.hypot(y), d / 2.0, 0.2 * d, 0.036 * d));
+    let g = grid_around(w, w, 16.0, lon_c, lat_c, |x, y| {
+        rimmed_bowl(x.hypot(y), d / 2.0, 0.2 * d, 0.036 * d)
+    });
     match measure(&g, lon_c, lat_c, d, &MeasureOptions::default()) {
         Ok(m) => {
             assert!(m.edge_cut, "edge cut not flagged");
             assert!(m.valid_fraction < 0.9, "valid {}", m.valid_fraction);
-            assert!(m.rim_completeness < 0.8, "completeness {} counts rim outside the raster", m.rim_completeness);
+            assert!(
+                m.rim_completeness < 0.8,
+                "completeness {} counts rim outside the raster",
+                m.rim_completeness
+            );
         }
         Err(CraterError::NotMeasurable { reason, .. }) => assert!(!reason.is_empty()),
         Err(e) => panic!("unexpected error {e}"),
@@ -63,8 +86,15 @@ fn catalogue_bad_rows_are_reported_by_line_or_stop_the_read() {
     .expect("write");
     let (rows, problems) = catalogue::read(&p, OnBadRow::Skip).expect("lenient read");
     assert_eq!(rows.iter().map(|r| r.line).collect::<Vec<_>>(), vec![3, 8]);
-    assert_eq!(problems.iter().map(|p| p.line).collect::<Vec<_>>(), vec![4, 5, 7, 9]);
-    assert!(problems[0].reason.contains("lon_deg"), "{}", problems[0].reason);
+    assert_eq!(
+        problems.iter().map(|p| p.line).collect::<Vec<_>>(),
+        vec![4, 5, 7, 9]
+    );
+    assert!(
+        problems[0].reason.contains("lon_deg"),
+        "{}",
+        problems[0].reason
+    );
     assert!((rows[1].lon_deg - -170.0).abs() < 1e-9 && (rows[1].diameter_m - 1500.0).abs() < 1e-9);
     match catalogue::read(&p, OnBadRow::Stop) {
         Err(CraterError::CatalogueRow { line, .. }) => assert_eq!(line, 4),

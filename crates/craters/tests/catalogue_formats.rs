@@ -31,10 +31,18 @@ fn geojson_points_and_polygons_give_centres_and_equal_area_diameters() {
     assert_eq!(rows.len(), 2, "{rows:?} {problems:?}");
     assert_eq!((rows[0].line, rows[0].name.as_deref()), (1, Some("P")));
     assert!((rows[0].diameter_m - 2500.0).abs() < 1e-9 && (rows[0].lon_deg + 179.5).abs() < 1e-12);
-    let want = 10_000.0 * ((std::f64::consts::TAU / n as f64).sin() * n as f64 / std::f64::consts::TAU).sqrt();
-    assert!((rows[1].diameter_m - want).abs() < 0.5, "{} vs {want}", rows[1].diameter_m);
+    let want = 10_000.0
+        * ((std::f64::consts::TAU / n as f64).sin() * n as f64 / std::f64::consts::TAU).sqrt();
+    assert!(
+        (rows[1].diameter_m - want).abs() < 0.5,
+        "{} vs {want}",
+        rows[1].diameter_m
+    );
     assert!(common::dist((rows[1].lon_deg, rows[1].lat_deg), (180.0, 16.0)) < 1.0);
-    assert_eq!(problems.iter().map(|p| p.line).collect::<Vec<_>>(), vec![3, 4]);
+    assert_eq!(
+        problems.iter().map(|p| p.line).collect::<Vec<_>>(),
+        vec![3, 4]
+    );
 }
 
 #[test]
@@ -46,8 +54,17 @@ fn geopackage_written_by_ogr_reads_the_same_as_csv() {
     {
         let drv = gdal::DriverManager::get_driver_by_name("GPKG").expect("GPKG driver");
         let mut ds = drv.create_vector_only(&p).expect("create");
-        let layer = ds.create_layer(LayerOptions { name: "craters", ty: gdal::vector::OGRwkbGeometryType::wkbPoint, ..Default::default() }).expect("layer");
-        FieldDefn::new("diameter_m", OGRFieldType::OFTReal).expect("field").add_to_layer(&layer).expect("add");
+        let layer = ds
+            .create_layer(LayerOptions {
+                name: "craters",
+                ty: gdal::vector::OGRwkbGeometryType::wkbPoint,
+                ..Default::default()
+            })
+            .expect("layer");
+        FieldDefn::new("diameter_m", OGRFieldType::OFTReal)
+            .expect("field")
+            .add_to_layer(&layer)
+            .expect("add");
         let g = Geometry::from_wkt("POINT (179.75 15.5)").expect("wkt");
         let mut f = gdal::vector::Feature::new(layer.defn()).expect("feature");
         f.set_geometry(g).expect("geometry");
@@ -57,5 +74,9 @@ fn geopackage_written_by_ogr_reads_the_same_as_csv() {
     let (rows, problems) = catalogue::read(&p, OnBadRow::Stop).expect("read");
     assert!(problems.is_empty());
     assert_eq!(rows.len(), 1);
-    assert!((rows[0].lon_deg - 179.75).abs() < 1e-9 && (rows[0].lat_deg - 15.5).abs() < 1e-9 && rows[0].diameter_m == 4200.0);
+    assert!(
+        (rows[0].lon_deg - 179.75).abs() < 1e-9
+            && (rows[0].lat_deg - 15.5).abs() < 1e-9
+            && rows[0].diameter_m == 4200.0
+    );
 }

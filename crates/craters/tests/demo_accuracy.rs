@@ -33,7 +33,11 @@ struct Planted {
 }
 
 fn demo_dir() -> PathBuf {
-    std::env::var_os("QUIETBOWL_DEMO_DIR").map(PathBuf::from).unwrap_or_else(|| PathBuf::from(concat!(env!("CARGO_MANIFEST_DIR"), "/../../demo-terrain")))
+    std::env::var_os("QUIETBOWL_DEMO_DIR")
+        .map(PathBuf::from)
+        .unwrap_or_else(|| {
+            PathBuf::from(concat!(env!("CARGO_MANIFEST_DIR"), "/../../demo-terrain"))
+        })
 }
 
 const PIXEL_M: f64 = 30.0;
@@ -45,7 +49,11 @@ fn dist(a: (f64, f64), b: (f64, f64)) -> f64 {
 
 fn median(mut v: Vec<f64>) -> f64 {
     v.sort_by(|a, b| a.total_cmp(b));
-    if v.is_empty() { f64::NAN } else { v[v.len() / 2] }
+    if v.is_empty() {
+        f64::NAN
+    } else {
+        v[v.len() / 2]
+    }
 }
 
 #[test]
@@ -56,12 +64,23 @@ fn demo_terrain_scores_against_planted_truth() {
         println!("SKIPPED: demo terrain not found in {} (generate it with the synthetic crate's make_demo)", dir.display());
         return;
     }
-    let truth: Truth = serde_json::from_str(&std::fs::read_to_string(&truth_path).expect("read truth")).expect("parse truth");
+    let truth: Truth =
+        serde_json::from_str(&std::fs::read_to_string(&truth_path).expect("read truth"))
+            .expect("parse truth");
     let dem = terrain::Dem::open(&tif, &Default::default()).expect("open demo");
     // Debug builds (the CI suite) score the central 800 x 800 px to stay within seconds;
     // release builds score the whole patch.
-    let grid = if cfg!(debug_assertions) { dem.read_window(650, 650, 700, 700) } else { dem.read_all() }.expect("read demo");
-    let opts = DetectOptions { diameter_min_m: 0.8 * MIN_PX * PIXEL_M, diameter_max_m: 10_000.0, ..DetectOptions::default() };
+    let grid = if cfg!(debug_assertions) {
+        dem.read_window(650, 650, 700, 700)
+    } else {
+        dem.read_all()
+    }
+    .expect("read demo");
+    let opts = DetectOptions {
+        diameter_min_m: 0.8 * MIN_PX * PIXEL_M,
+        diameter_max_m: 10_000.0,
+        ..DetectOptions::default()
+    };
     let found = survey_grid(&grid, &opts, &MeasureOptions::default()).expect("survey");
     let geom = &grid.geometry;
     // Only craters whose measurement disc (1.5 R) lies inside the raster are scored.
@@ -73,47 +92,89 @@ fn demo_terrain_scores_against_planted_truth() {
         })
     };
     let is_match = |m: &craters::CraterMeasurement, p: &Planted| {
-        dist((m.centre_lon_deg, m.centre_lat_deg), (p.lon_deg, p.lat_deg)) <= 0.25 * p.rim_crest_diameter_m
+        dist((m.centre_lon_deg, m.centre_lat_deg), (p.lon_deg, p.lat_deg))
+            <= 0.25 * p.rim_crest_diameter_m
             && (m.diameter_m / p.rim_crest_diameter_m - 1.0).abs() <= 0.2
     };
     let bins = [8.0, 16.0, 32.0, 64.0, 128.0, f64::INFINITY];
-    let bin_of = |d_m: f64| bins.windows(2).position(|w| d_m / PIXEL_M >= w[0] && d_m / PIXEL_M < w[1]);
+    let bin_of = |d_m: f64| {
+        bins.windows(2)
+            .position(|w| d_m / PIXEL_M >= w[0] && d_m / PIXEL_M < w[1])
+    };
     let mut rec = vec![(0usize, 0usize); bins.len() - 1];
     let mut prec = vec![(0usize, 0usize); bins.len() - 1];
     let (mut d_err, mut dd_err, mut compl_err) = (Vec::new(), Vec::new(), Vec::new());
-    for p in truth.craters.iter().filter(|p| inside(p.lon_deg, p.lat_deg, p.rim_crest_diameter_m)) {
-        let Some(b) = bin_of(p.rim_crest_diameter_m) else { continue };
+    for p in truth
+        .craters
+        .iter()
+        .filter(|p| inside(p.lon_deg, p.lat_deg, p.rim_crest_diameter_m))
+    {
+        let Some(b) = bin_of(p.rim_crest_diameter_m) else {
+            continue;
+        };
         rec[b].1 += 1;
         if let Some(m) = found.iter().filter(|m| is_match(m, p)).min_by(|a, b| {
-            (a.diameter_m / p.rim_crest_diameter_m - 1.0).abs().total_cmp(&(b.diameter_m / p.rim_crest_diameter_m - 1.0).abs())
+            (a.diameter_m / p.rim_crest_diameter_m - 1.0)
+                .abs()
+                .total_cmp(&(b.diameter_m / p.rim_crest_diameter_m - 1.0).abs())
         }) {
             rec[b].0 += 1;
             d_err.push((m.diameter_m / p.rim_crest_diameter_m - 1.0).abs());
             dd_err.push((m.depth_to_diameter - p.depth_m / p.rim_crest_diameter_m).abs());
             if p.gap_width_deg.is_some() {
                 compl_err.push((m.rim_completeness - p.rim_completeness).abs());
-                println!("breached crater {}: completeness {:.2} planted {:.2}", p.id, m.rim_completeness, p.rim_completeness);
+                println!(
+                    "breached crater {}: completeness {:.2} planted {:.2}",
+                    p.id, m.rim_completeness, p.rim_completeness
+                );
             }
         }
     }
-    for m in found.iter().filter(|m| inside(m.centre_lon_deg, m.centre_lat_deg, m.diameter_m)) {
-        let Some(b) = bin_of(m.diameter_m) else { continue };
+    for m in found
+        .iter()
+        .filter(|m| inside(m.centre_lon_deg, m.centre_lat_deg, m.diameter_m))
+    {
+        let Some(b) = bin_of(m.diameter_m) else {
+            continue;
+        };
         prec[b].1 += 1;
         prec[b].0 += truth.craters.iter().any(|p| is_match(m, p)) as usize;
     }
     println!("bin (px)      recall            precision");
     for (i, w) in bins.windows(2).enumerate() {
-        println!("{:>4}-{:<6} {:4}/{:<4} {:5.2}   {:4}/{:<4} {:5.2}", w[0], w[1], rec[i].0, rec[i].1, rec[i].0 as f64 / rec[i].1.max(1) as f64, prec[i].0, prec[i].1, prec[i].0 as f64 / prec[i].1.max(1) as f64);
+        println!(
+            "{:>4}-{:<6} {:4}/{:<4} {:5.2}   {:4}/{:<4} {:5.2}",
+            w[0],
+            w[1],
+            rec[i].0,
+            rec[i].1,
+            rec[i].0 as f64 / rec[i].1.max(1) as f64,
+            prec[i].0,
+            prec[i].1,
+            prec[i].0 as f64 / prec[i].1.max(1) as f64
+        );
     }
     let sum = |v: &[(usize, usize)]| v.iter().fold((0, 0), |a, b| (a.0 + b.0, a.1 + b.1));
     let (r, p) = (sum(&rec), sum(&prec));
-    let (recall, precision) = (r.0 as f64 / r.1.max(1) as f64, p.0 as f64 / p.1.max(1) as f64);
+    let (recall, precision) = (
+        r.0 as f64 / r.1.max(1) as f64,
+        p.0 as f64 / p.1.max(1) as f64,
+    );
     let (de, dde) = (median(d_err), median(dd_err));
     let ce = compl_err.iter().copied().fold(0.0, f64::max);
     println!("all >= {MIN_PX} px: recall {recall:.3}, precision {precision:.3}, median |dD/D| {de:.4}, median |d(d/D)| {dde:.4}, worst breached completeness error {ce:.3}");
-    let targets = [("recall", recall >= 0.9), ("precision", precision >= 0.85), ("diameter error", de <= 0.03), ("d/D error", dde <= 0.01), ("breached completeness", ce <= 0.1)];
+    let targets = [
+        ("recall", recall >= 0.9),
+        ("precision", precision >= 0.85),
+        ("diameter error", de <= 0.03),
+        ("d/D error", dde <= 0.01),
+        ("breached completeness", ce <= 0.1),
+    ];
     for (name, met) in targets {
-        println!("issue target for {name}: {}", if met { "met" } else { "NOT met" });
+        println!(
+            "issue target for {name}: {}",
+            if met { "met" } else { "NOT met" }
+        );
     }
     // The targets are for the whole patch (release builds). Issue targets met there (precision,
     // median diameter error, median d/D error, breached completeness) are asserted as such;
@@ -121,9 +182,24 @@ fn demo_terrain_scores_against_planted_truth() {
     // about 120 craters, too few for the same bars on recall and precision: it keeps floors.
     let whole = !cfg!(debug_assertions);
     let (recall_floor, precision_floor) = if whole { (0.85, 0.85) } else { (0.75, 0.80) };
-    assert!(recall >= recall_floor, "recall {recall:.3} fell below the level reached ({recall_floor}; target 0.9)");
-    assert!(precision >= precision_floor, "precision {precision:.3} < {precision_floor} (issue target 0.85)");
-    assert!(de <= 0.03, "median diameter error {de:.4} > 3% (issue target)");
-    assert!(dde <= 0.01, "median d/D error {dde:.4} > 0.01 (issue target)");
-    assert!(ce <= 0.1, "breached completeness error {ce:.3} > 0.1 (issue target)");
+    assert!(
+        recall >= recall_floor,
+        "recall {recall:.3} fell below the level reached ({recall_floor}; target 0.9)"
+    );
+    assert!(
+        precision >= precision_floor,
+        "precision {precision:.3} < {precision_floor} (issue target 0.85)"
+    );
+    assert!(
+        de <= 0.03,
+        "median diameter error {de:.4} > 3% (issue target)"
+    );
+    assert!(
+        dde <= 0.01,
+        "median d/D error {dde:.4} > 0.01 (issue target)"
+    );
+    assert!(
+        ce <= 0.1,
+        "breached completeness error {ce:.3} > 0.1 (issue target)"
+    );
 }

@@ -36,7 +36,12 @@ const GAZETTEER: &[(&str, f64, f64, f64)] = &[
 fn lola_dir() -> Option<PathBuf> {
     let dir = std::env::var_os("QUIETBOWL_LOLA_DIR")
         .map(PathBuf::from)
-        .unwrap_or_else(|| PathBuf::from(concat!(env!("CARGO_MANIFEST_DIR"), "/../../../shared/data/lola-ldem4")));
+        .unwrap_or_else(|| {
+            PathBuf::from(concat!(
+                env!("CARGO_MANIFEST_DIR"),
+                "/../../../shared/data/lola-ldem4"
+            ))
+        });
     dir.join("LDEM_4.LBL").exists().then_some(dir)
 }
 
@@ -60,11 +65,22 @@ fn window(all: &ElevationGrid, lon: f64, lat: f64, half_m: f64) -> ElevationGrid
             heights_m[j * w + i] = all.heights_m[rr as usize * all.width + cc];
         }
     }
-    ElevationGrid { geometry: Arc::new((*geom).clone()), col0: c0, row0: r0, width: w, height: h, heights_m }
+    ElevationGrid {
+        geometry: Arc::new((*geom).clone()),
+        col0: c0,
+        row0: r0,
+        width: w,
+        height: h,
+        heights_m,
+    }
 }
 
 fn matches(m: &craters::CraterMeasurement, lon: f64, lat: f64, d_m: f64) -> bool {
-    let off = terrain::geodesy::distance_m(terrain::MOON_RADIUS_M, (m.centre_lon_deg, m.centre_lat_deg), (lon, lat));
+    let off = terrain::geodesy::distance_m(
+        terrain::MOON_RADIUS_M,
+        (m.centre_lon_deg, m.centre_lat_deg),
+        (lon, lat),
+    );
     off <= 0.25 * d_m && (m.diameter_m / d_m - 1.0).abs() <= 0.2
 }
 
@@ -76,7 +92,11 @@ fn large_craters_on_lola_ldem4_match_the_iau_gazetteer() {
     };
     let dem = Dem::open(dir.join("LDEM_4.LBL"), &OpenOptions::default()).expect("open LDEM_4");
     let all = dem.read_all().expect("read LDEM_4");
-    let detect_opts = DetectOptions { diameter_min_m: 60_000.0, diameter_max_m: 400_000.0, ..DetectOptions::default() };
+    let detect_opts = DetectOptions {
+        diameter_min_m: 60_000.0,
+        diameter_max_m: 400_000.0,
+        ..DetectOptions::default()
+    };
     let (mut detected, mut seeded) = (0, 0);
     for &(name, lat, lon_e, d_km) in GAZETTEER {
         let d_m = d_km * 1000.0;
@@ -88,9 +108,18 @@ fn large_craters_on_lola_ldem4_match_the_iau_gazetteer() {
         let seed_ok = seed.as_ref().is_ok_and(|m| matches(m, lon, lat, d_m));
         println!(
             "{name:14} D {d_km:6.1} km  detected: {}  seeded: {}",
-            hit.map_or("no".to_string(), |m| format!("D {:6.1} km d/D {:.3} completeness {:.2}", m.diameter_m / 1e3, m.depth_to_diameter, m.rim_completeness)),
+            hit.map_or("no".to_string(), |m| format!(
+                "D {:6.1} km d/D {:.3} completeness {:.2}",
+                m.diameter_m / 1e3,
+                m.depth_to_diameter,
+                m.rim_completeness
+            )),
             match &seed {
-                Ok(m) => format!("D {:6.1} km{}", m.diameter_m / 1e3, if seed_ok { "" } else { " (no match)" }),
+                Ok(m) => format!(
+                    "D {:6.1} km{}",
+                    m.diameter_m / 1e3,
+                    if seed_ok { "" } else { " (no match)" }
+                ),
                 Err(e) => format!("error {e}"),
             }
         );
@@ -101,6 +130,8 @@ fn large_craters_on_lola_ldem4_match_the_iau_gazetteer() {
     let (recall, seed_recall) = (detected as f64 / n, seeded as f64 / n);
     println!("LOLA LDEM_4 recall: detected {detected}/{} = {recall:.2}; measured from gazetteer seeds {seeded}/{} = {seed_recall:.2}", GAZETTEER.len(), GAZETTEER.len());
     assert!(recall >= 0.8, "detection recall {recall:.2} below 0.8");
-    assert!(seed_recall >= 0.8, "seeded measurement recall {seed_recall:.2} below 0.8");
+    assert!(
+        seed_recall >= 0.8,
+        "seeded measurement recall {seed_recall:.2} below 0.8"
+    );
 }
-

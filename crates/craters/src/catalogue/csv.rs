@@ -43,20 +43,41 @@ fn columns(header: &[String]) -> Result<Columns, String> {
     let (diameter, diameter_scale) = match (find("diameter_m"), find("diameter_km")) {
         (Some(i), None) => (i, 1.0),
         (None, Some(i)) => (i, 1000.0),
-        (Some(_), Some(_)) => return Err("the header has both diameter_m and diameter_km; keep one".into()),
+        (Some(_), Some(_)) => {
+            return Err("the header has both diameter_m and diameter_km; keep one".into())
+        }
         (None, None) => return Err("the header has no diameter_m or diameter_km column".into()),
     };
-    Ok(Columns { lon, lat, diameter, diameter_scale, name: find("name") })
+    Ok(Columns {
+        lon,
+        lat,
+        diameter,
+        diameter_scale,
+        name: find("name"),
+    })
 }
 
-pub fn read(path: &Path, sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>) -> Result<(), CraterError> {
-    let bytes = std::fs::read(path).map_err(|e| CraterError::Catalogue { path: path.into(), reason: e.to_string() })?;
+pub fn read(
+    path: &Path,
+    sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>,
+) -> Result<(), CraterError> {
+    let bytes = std::fs::read(path).map_err(|e| CraterError::Catalogue {
+        path: path.into(),
+        reason: e.to_string(),
+    })?;
     parse(&bytes, path, sink)
 }
 
 /// The CSV text of a catalogue already in memory; `path` only names it in errors.
-pub fn parse(bytes: &[u8], path: &Path, sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>) -> Result<(), CraterError> {
-    let fail = |reason: String| CraterError::Catalogue { path: path.into(), reason };
+pub fn parse(
+    bytes: &[u8],
+    path: &Path,
+    sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>,
+) -> Result<(), CraterError> {
+    let fail = |reason: String| CraterError::Catalogue {
+        path: path.into(),
+        reason,
+    };
     let text = std::str::from_utf8(bytes).map_err(|e| fail(format!("not UTF-8 text ({e})")))?;
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let mut cols: Option<Columns> = None;
@@ -77,22 +98,39 @@ pub fn parse(bytes: &[u8], path: &Path, sink: &mut dyn FnMut(Result<CatalogueRow
             }
         };
         let Some(c) = &cols else {
-            cols = Some(columns(&fields).map_err(|r| fail(format!("line {line}: {r}. Expected a header such as lon_deg,lat_deg,diameter_km,name")))?);
+            cols = Some(columns(&fields).map_err(|r| {
+                fail(format!(
+                    "line {line}: {r}. Expected a header such as lon_deg,lat_deg,diameter_km,name"
+                ))
+            })?);
             continue;
         };
         let need = c.lon.max(c.lat).max(c.diameter) + 1;
         if fields.len() < need {
-            sink(Err(RowProblem { line, reason: format!("{} fields, the header asks for at least {need}", fields.len()) }))?;
+            sink(Err(RowProblem {
+                line,
+                reason: format!(
+                    "{} fields, the header asks for at least {need}",
+                    fields.len()
+                ),
+            }))?;
             continue;
         }
         let num = |idx: usize, what: &str| -> Result<f64, RowProblem> {
-            fields[idx].parse::<f64>().map_err(|_| RowProblem { line, reason: format!("{what} '{}' is not a number", fields[idx]) })
+            fields[idx].parse::<f64>().map_err(|_| RowProblem {
+                line,
+                reason: format!("{what} '{}' is not a number", fields[idx]),
+            })
         };
         let row = (|| {
             let lon = num(c.lon, "lon_deg")?;
             let lat = num(c.lat, "lat_deg")?;
             let d = num(c.diameter, "diameter")? * c.diameter_scale;
-            let name = c.name.and_then(|n| fields.get(n)).filter(|s| !s.is_empty()).cloned();
+            let name = c
+                .name
+                .and_then(|n| fields.get(n))
+                .filter(|s| !s.is_empty())
+                .cloned();
             check(line, lon, lat, d, name)
         })();
         sink(row)?;

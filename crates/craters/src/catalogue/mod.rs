@@ -51,23 +51,47 @@ pub enum OnBadRow {
 }
 
 /// Read a catalogue. Returns the good rows and the problems with the skipped ones.
-pub fn read(path: impl AsRef<Path>, on_bad: OnBadRow) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
+pub fn read(
+    path: impl AsRef<Path>,
+    on_bad: OnBadRow,
+) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
     read_on(path, on_bad, terrain::MOON_RADIUS_M)
 }
 
 /// As [`read`], on a body of `radius_m` (used for polygon areas).
-pub fn read_on(path: impl AsRef<Path>, on_bad: OnBadRow, radius_m: f64) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
+pub fn read_on(
+    path: impl AsRef<Path>,
+    on_bad: OnBadRow,
+    radius_m: f64,
+) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
     let path = path.as_ref();
     if !path.exists() {
-        return Err(CraterError::Catalogue { path: path.into(), reason: "no such file".into() });
+        return Err(CraterError::Catalogue {
+            path: path.into(),
+            reason: "no such file".into(),
+        });
     }
-    let ext = path.extension().and_then(|e| e.to_str()).unwrap_or("").to_ascii_lowercase();
-    collect(path, on_bad, |sink| if ext == "csv" || ext == "txt" { csv::read(path, sink) } else { ogr::read(path, radius_m, sink) })
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .unwrap_or("")
+        .to_ascii_lowercase();
+    collect(path, on_bad, |sink| {
+        if ext == "csv" || ext == "txt" {
+            csv::read(path, sink)
+        } else {
+            ogr::read(path, radius_m, sink)
+        }
+    })
 }
 
 /// Read a CSV catalogue held in memory (the bytes of a `.csv` file), exactly as [`read`] reads
 /// one from disk. `name` only labels errors (a file name, or e.g. `<clipboard>`).
-pub fn read_csv_bytes(bytes: &[u8], name: impl AsRef<Path>, on_bad: OnBadRow) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
+pub fn read_csv_bytes(
+    bytes: &[u8],
+    name: impl AsRef<Path>,
+    on_bad: OnBadRow,
+) -> Result<(Vec<CatalogueRow>, Vec<RowProblem>), CraterError> {
     let name = name.as_ref();
     collect(name, on_bad, |sink| csv::parse(bytes, name, sink))
 }
@@ -86,7 +110,11 @@ fn collect(
         match r {
             Ok(row) => rows.push(row),
             Err(p) if on_bad == OnBadRow::Stop => {
-                return Err(CraterError::CatalogueRow { path: path.into(), line: p.line, reason: p.reason });
+                return Err(CraterError::CatalogueRow {
+                    path: path.into(),
+                    line: p.line,
+                    reason: p.reason,
+                });
             }
             Err(p) => problems.push(p),
         }
@@ -97,7 +125,13 @@ fn collect(
 }
 
 /// Check and normalise one crater's numbers.
-fn check(line: usize, lon: f64, lat: f64, diameter_m: f64, name: Option<String>) -> Result<CatalogueRow, RowProblem> {
+fn check(
+    line: usize,
+    lon: f64,
+    lat: f64,
+    diameter_m: f64,
+    name: Option<String>,
+) -> Result<CatalogueRow, RowProblem> {
     let bad = |reason: String| RowProblem { line, reason };
     if !lon.is_finite() || !(-180.0..=360.0).contains(&lon) {
         return Err(bad(format!("longitude {lon} is outside -180..360")));
@@ -106,16 +140,28 @@ fn check(line: usize, lon: f64, lat: f64, diameter_m: f64, name: Option<String>)
         return Err(bad(format!("latitude {lat} is outside -90..90")));
     }
     if !(diameter_m.is_finite() && diameter_m > 0.0) {
-        return Err(bad(format!("diameter {diameter_m} m is not a positive number")));
+        return Err(bad(format!(
+            "diameter {diameter_m} m is not a positive number"
+        )));
     }
-    Ok(CatalogueRow { line, lon_deg: terrain::projection::wrap_deg_180(lon), lat_deg: lat, diameter_m, name })
+    Ok(CatalogueRow {
+        line,
+        lon_deg: terrain::projection::wrap_deg_180(lon),
+        lat_deg: lat,
+        diameter_m,
+        name,
+    })
 }
 
 /// Circle of equal area to a closed ring of lon/lat vertices (outer ring minus holes): centre
 /// (area centroid, shoelace formula) and diameter, computed in a local azimuthal equidistant
 /// frame around the vertices' mean, which keeps areas true to well under a percent for rings
 /// up to a few hundred kilometres across.
-pub fn equal_area_circle(radius_m: f64, outer: &[(f64, f64)], holes: &[Vec<(f64, f64)>]) -> Option<(f64, f64, f64)> {
+pub fn equal_area_circle(
+    radius_m: f64,
+    outer: &[(f64, f64)],
+    holes: &[Vec<(f64, f64)>],
+) -> Option<(f64, f64, f64)> {
     if outer.len() < 3 {
         return None;
     }
@@ -123,7 +169,9 @@ pub fn equal_area_circle(radius_m: f64, outer: &[(f64, f64)], holes: &[Vec<(f64,
     let l0 = outer[0].0;
     let unwrap = |l: f64| l0 + terrain::projection::wrap_deg_180(l - l0);
     let n = outer.len() as f64;
-    let (ml, mp) = outer.iter().fold((0.0, 0.0), |a, p| (a.0 + unwrap(p.0) / n, a.1 + p.1 / n));
+    let (ml, mp) = outer
+        .iter()
+        .fold((0.0, 0.0), |a, p| (a.0 + unwrap(p.0) / n, a.1 + p.1 / n));
     let frame = LocalFrame::new(radius_m, ml, mp);
     let ring = |r: &[(f64, f64)]| -> (f64, f64, f64) {
         let pts: Vec<(f64, f64)> = r.iter().map(|p| frame.to_local(p.0, p.1)).collect();

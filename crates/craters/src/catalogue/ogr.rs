@@ -23,19 +23,31 @@ fn polygon_circle(radius_m: f64, g: &Geometry) -> Option<(f64, f64, f64)> {
             return None;
         }
         let outer = ring(&p.get_geometry(0));
-        let holes: Vec<Vec<(f64, f64)>> = (1..p.geometry_count()).map(|i| ring(&p.get_geometry(i))).collect();
+        let holes: Vec<Vec<(f64, f64)>> = (1..p.geometry_count())
+            .map(|i| ring(&p.get_geometry(i)))
+            .collect();
         equal_area_circle(radius_m, &outer, &holes)
     };
     match gdal::vector::geometry_type_flatten(g.geometry_type()) {
         T::wkbPolygon => one(g),
-        T::wkbMultiPolygon => (0..g.geometry_count()).filter_map(|i| one(&g.get_geometry(i))).max_by(|a, b| a.2.total_cmp(&b.2)),
+        T::wkbMultiPolygon => (0..g.geometry_count())
+            .filter_map(|i| one(&g.get_geometry(i)))
+            .max_by(|a, b| a.2.total_cmp(&b.2)),
         _ => None,
     }
 }
 
-pub fn read(path: &Path, radius_m: f64, sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>) -> Result<(), CraterError> {
-    let fail = |reason: String| CraterError::Catalogue { path: path.into(), reason };
-    let ds = Dataset::open(path).map_err(|e| fail(format!("not a vector file GDAL reads ({e})")))?;
+pub fn read(
+    path: &Path,
+    radius_m: f64,
+    sink: &mut dyn FnMut(Result<CatalogueRow, RowProblem>) -> Result<(), CraterError>,
+) -> Result<(), CraterError> {
+    let fail = |reason: String| CraterError::Catalogue {
+        path: path.into(),
+        reason,
+    };
+    let ds =
+        Dataset::open(path).map_err(|e| fail(format!("not a vector file GDAL reads ({e})")))?;
     if ds.layer_count() == 0 {
         return Err(fail("the file has no vector layer".into()));
     }
@@ -47,9 +59,19 @@ pub fn read(path: &Path, radius_m: f64, sink: &mut dyn FnMut(Result<CatalogueRow
     }
     for (k, f) in layer.features().enumerate() {
         let line = k + 1;
-        let bad = |reason: &str| RowProblem { line, reason: reason.to_string() };
-        let name = f.field_index("name").ok().and_then(|i| f.field_as_string(i).ok().flatten());
-        let attr = |n: &str| f.field_index(n).ok().and_then(|i| f.field_as_double(i).ok().flatten());
+        let bad = |reason: &str| RowProblem {
+            line,
+            reason: reason.to_string(),
+        };
+        let name = f
+            .field_index("name")
+            .ok()
+            .and_then(|i| f.field_as_string(i).ok().flatten());
+        let attr = |n: &str| {
+            f.field_index(n)
+                .ok()
+                .and_then(|i| f.field_as_double(i).ok().flatten())
+        };
         let diameter_attr = match (attr("diameter_m"), attr("diameter_km")) {
             (Some(m), _) => Some(m),
             (None, Some(km)) => Some(km * 1000.0),
@@ -63,13 +85,18 @@ pub fn read(path: &Path, radius_m: f64, sink: &mut dyn FnMut(Result<CatalogueRow
                         let (x, y, _) = g.get_point(0);
                         check(line, x, y, d, name)
                     }
-                    None => Err(bad("point feature without a numeric diameter_m or diameter_km attribute")),
+                    None => Err(bad(
+                        "point feature without a numeric diameter_m or diameter_km attribute",
+                    )),
                 },
                 T::wkbPolygon | T::wkbMultiPolygon => match polygon_circle(radius_m, g) {
                     Some((lon, lat, d)) => check(line, lon, lat, d, name),
                     None => Err(bad("polygon is empty or has no area")),
                 },
-                _ => Err(bad(&format!("geometry type {} is neither a point nor a polygon", g.geometry_name()))),
+                _ => Err(bad(&format!(
+                    "geometry type {} is neither a point nor a polygon",
+                    g.geometry_name()
+                ))),
             },
         };
         sink(row)?;

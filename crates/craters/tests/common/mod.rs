@@ -10,26 +10,54 @@ pub const PIXEL_M: f64 = 30.0;
 /// A `w` x `h` window whose centre pixel sits at (180 E, `lat_deg`), heights from `f(x, y)`
 /// where (x, y) are metres east/north of (`lon_c`, `lat_c`) in the exact azimuthal
 /// equidistant frame.
-pub fn grid_around(w: usize, h: usize, lat_deg: f64, lon_c: f64, lat_c: f64, f: impl Fn(f64, f64) -> f64) -> ElevationGrid {
+pub fn grid_around(
+    w: usize,
+    h: usize,
+    lat_deg: f64,
+    lon_c: f64,
+    lat_c: f64,
+    f: impl Fn(f64, f64) -> f64,
+) -> ElevationGrid {
     let r = MOON_RADIUS_M;
     let y_c = r * lat_deg.to_radians();
     let geometry = GridGeometry {
         width: w,
         height: h,
-        geotransform: [-(w as f64) / 2.0 * PIXEL_M, PIXEL_M, 0.0, y_c + h as f64 / 2.0 * PIXEL_M, 0.0, -PIXEL_M],
-        projection: MapProjection::Equirectangular { lon0_deg: 180.0, lat_ts_deg: 0.0, false_easting_m: 0.0, false_northing_m: 0.0 },
+        geotransform: [
+            -(w as f64) / 2.0 * PIXEL_M,
+            PIXEL_M,
+            0.0,
+            y_c + h as f64 / 2.0 * PIXEL_M,
+            0.0,
+            -PIXEL_M,
+        ],
+        projection: MapProjection::Equirectangular {
+            lon0_deg: 180.0,
+            lat_ts_deg: 0.0,
+            false_easting_m: 0.0,
+            false_northing_m: 0.0,
+        },
         body_radius_m: r,
     };
     let frame = LocalFrame::new(r, lon_c, lat_c);
     let mut heights_m = vec![f32::NAN; w * h];
     for row in 0..h {
         for col in 0..w {
-            let (lon, lat) = geometry.pixel_to_lonlat(col as f64 + 0.5, row as f64 + 0.5).expect("inside projection");
+            let (lon, lat) = geometry
+                .pixel_to_lonlat(col as f64 + 0.5, row as f64 + 0.5)
+                .expect("inside projection");
             let (x, y) = frame.to_local(lon, lat);
             heights_m[row * w + col] = f(x, y) as f32;
         }
     }
-    ElevationGrid { geometry: Arc::new(geometry), col0: 0, row0: 0, width: w, height: h, heights_m }
+    ElevationGrid {
+        geometry: Arc::new(geometry),
+        col0: 0,
+        row0: 0,
+        width: w,
+        height: h,
+        heights_m,
+    }
 }
 
 /// Rimmed paraboloid: floor at h - d, rim crest h at r = R, ejecta h (R/r)^3 outside
