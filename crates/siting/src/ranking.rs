@@ -1,7 +1,8 @@
 //! The prepared candidate table and the weighted ranking over it.
 //!
 //! Everything that does not depend on the weights (metric look-up, utilities, requirement
-//! checks, Pareto flags) is done once in [`PreparedTable::new`] and stored column by column;
+//! checks, Pareto flags, the tie order within passing and within failing candidates) is done
+//! once in [`PreparedTable::new`] and stored column by column;
 //! [`rank`] then forms the weighted sum (or product) over contiguous columns and sorts, so a
 //! weight change re-ranks hundreds of thousands of candidates within a GUI frame.
 
@@ -33,12 +34,19 @@ pub struct PreparedTable {
     /// `failures[i].is_empty()`, kept flat: the re-rank reads it for every candidate.
     passed: Vec<bool>,
     pareto: Vec<bool>,
-    /// Candidate indices ordered by (id, position): the tie-break, fixed per survey.
-    tie_order: Vec<u32>,
+    /// Indices of the candidates that pass, ordered by (id, position): the tie-break, fixed
+    /// per survey and requirements, so a re-rank only sorts by score within each group.
+    tie_passing: Vec<u32>,
+    /// The same for the candidates that fail a requirement.
+    tie_failing: Vec<u32>,
 }
 
 fn shape_only(c: &SoftCriterion) -> SoftCriterion {
-    SoftCriterion { weight: 0.0, why: String::new(), ..c.clone() }
+    SoftCriterion {
+        weight: 0.0,
+        why: String::new(),
+        ..c.clone()
+    }
 }
 
 fn metric_column(survey: &SurveyFile, name: &str) -> Vec<Option<f64>> {
@@ -56,7 +64,12 @@ impl PreparedTable {
         let utilities: Vec<Vec<f64>> = criteria
             .criteria
             .iter()
-            .map(|c| metric_column(survey, &c.metric).par_iter().map(|v| crate::utility::utility(c, *v)).collect())
+            .map(|c| {
+                metric_column(survey, &c.metric)
+                    .par_iter()
+                    .map(|v| crate::utility::utility(c, *v))
+                    .collect()
+            })
             .collect();
         let mut failures: Vec<Vec<FailedRequirement>> = vec![Vec::new(); n];
         for req in &criteria.requirements {
@@ -73,9 +86,11 @@ impl PreparedTable {
         let ids: Vec<u32> = survey.candidates.iter().map(|c| c.id).collect();
         let mut tie_order: Vec<u32> = (0..n as u32).collect();
         tie_order.sort_by_key(|&i| (ids[i as usize], i));
+        let (tie_passing, tie_failing) = tie_order.iter().partition(|&&i| passed[i as usize]);
         Ok(PreparedTable {
             ids,
-            tie_order,
+            tie_passing,
+            tie_failing,
             requirements: criteria.requirements.clone(),
             shapes: criteria.criteria.iter().map(shape_only).collect(),
             utilities,
@@ -88,9 +103,16 @@ impl PreparedTable {
 
     /// Bring the table up to date with edited criteria, recomputing only what changed.
     /// Returns true when anything was recomputed. Weight-only edits cost nothing here.
-    pub fn refresh(&mut self, survey: &SurveyFile, criteria: &Criteria) -> Result<bool, SitingError> {
+    pub fn refresh(
+        &mut self,
+        survey: &SurveyFile,
+        criteria: &Criteria,
+    ) -> Result<bool, SitingError> {
         if survey.candidates.len() != self.len() {
-            return Err(SitingError::SurveyMismatch { survey: survey.candidates.len(), table: self.len() });
+            return Err(SitingError::SurveyMismatch {
+                survey: survey.candidates.len(),
+                table: self.len(),
+            });
         }
         if self.stale_reason(criteria).is_none() {
             return Ok(false);
@@ -158,8 +180,12 @@ impl PreparedTable {
     }
 
     pub(crate) fn log_columns(&self) -> &[Vec<f64>] {
-        self.log_utilities
-            .get_or_init(|| self.utilities.iter().map(|col| col.par_iter().map(|u| u.ln()).collect()).collect())
+        self.log_utilities.get_or_init(|| {
+            self.utilities
+                .iter()
+                .map(|col| col.par_iter().map(|u| u.ln()).collect())
+                .collect()
+        })
     }
 }
 
@@ -186,57 +212,92 @@ pub fn rank(table: &PreparedTable, criteria: &Criteria) -> Result<Ranking, Sitin
     }
     criteria.validate()?;
     let weights = criteria.normalised_weights();
-    let scores = score_all(table, &weights, criteria.scoring);
-    let order = order_by_score(table, &scores);
-    let mut ranks = vec![0u32; scores.len()];
-    for (r, &i) in order.iter().enumerate() {
-        ranks[i as usize] = r as u32 + 1;
-    }
-    Ok(Ranking { method: criteria.scoring, weights, scores, ranks, order })
+    let (scores, bounds) = score_all(table, &weights, criteria.scoring);
+    let groups = [
+        crate::order::Group {
+            values: &table.tie_passing,
+            key_min: bounds[0].0,
+            key_max: bounds[0].1,
+        },
+        crate::order::Group {
+            values: &table.tie_failing,
+            key_min: bounds[1].0,
+            key_max: bounds[1].1,
+        },
+    ];
+    let sorted =
+        crate::order::sort_groups(&groups, scores.len(), |i| score_key(scores[i as usize]));
+    Ok(Ranking {
+        method: criteria.scoring,
+        weights,
+        scores,
+        ranks: sorted.ranks,
+        order: sorted.order,
+    })
 }
 
-/// Scores of all candidates under normalised `weights`.
-pub(crate) fn score_all(table: &PreparedTable, weights: &[f64], method: ScoreMethod) -> Vec<f64> {
+/// Sort key of a score in [0, 1]: non-negative f64 bit patterns order like the values, so
+/// the complement sorts the best score first.
+fn score_key(score: f64) -> u64 {
+    (u64::MAX >> 1) - score.max(0.0).to_bits()
+}
+
+/// Least and greatest sort key of the passing (first) and failing (second) candidates;
+/// (MAX, 0) for an empty group.
+type KeyBounds = [(u64, u64); 2];
+
+fn widen(a: KeyBounds, b: KeyBounds) -> KeyBounds {
+    [
+        (a[0].0.min(b[0].0), a[0].1.max(b[0].1)),
+        (a[1].0.min(b[1].0), a[1].1.max(b[1].1)),
+    ]
+}
+
+/// Scores of all candidates under normalised `weights`, with the key bounds the sort needs
+/// (gathered here, while the scores are at hand, to spare the sort a pass over them).
+fn score_all(table: &PreparedTable, weights: &[f64], method: ScoreMethod) -> (Vec<f64>, KeyBounds) {
     let n = table.len();
     let mut scores = vec![0.0f64; n];
     let (columns, exp) = match method {
         ScoreMethod::WeightedSum => (table.columns(), false),
         ScoreMethod::WeightedProduct => (table.log_columns(), true),
     };
-    scores.par_chunks_mut(CHUNK).enumerate().for_each(|(k, out)| {
-        let (start, len) = (k * CHUNK, out.len());
-        for (col, &w) in columns.iter().zip(weights) {
-            // A zero weight leaves the criterion out; in the product it must not meet ln(0).
-            if w == 0.0 {
-                continue;
+    let empty: KeyBounds = [(u64::MAX, 0); 2];
+    let bounds = scores
+        .par_chunks_mut(CHUNK)
+        .enumerate()
+        .map(|(k, out)| {
+            let (start, len) = (k * CHUNK, out.len());
+            for (col, &w) in columns.iter().zip(weights) {
+                // A zero weight leaves the criterion out; in the product it must not meet ln(0).
+                if w == 0.0 {
+                    continue;
+                }
+                for (s, u) in out.iter_mut().zip(&col[start..start + len]) {
+                    *s += w * u;
+                }
             }
-            for (s, u) in out.iter_mut().zip(&col[start..start + len]) {
-                *s += w * u;
+            if exp {
+                for s in out.iter_mut() {
+                    *s = s.exp();
+                }
             }
-        }
-        if exp {
-            for s in out.iter_mut() {
-                *s = s.exp();
+            // Rounding in the sum may step a hair outside [0, 1]; scores are defined inside it.
+            let mut b = empty;
+            for (s, &pass) in out.iter_mut().zip(&table.passed[start..start + len]) {
+                *s = if s.is_finite() {
+                    s.clamp(0.0, 1.0)
+                } else {
+                    0.0
+                };
+                let key = score_key(*s);
+                let g = &mut b[usize::from(!pass)];
+                *g = (g.0.min(key), g.1.max(key));
             }
-        }
-        // Rounding in the sum may step a hair outside [0, 1]; scores are defined inside it.
-        for s in out.iter_mut() {
-            *s = if s.is_finite() { s.clamp(0.0, 1.0) } else { 0.0 };
-        }
-    });
-    scores
-}
-
-/// Candidate indices best first: passing before failing, score descending, then id and
-/// position (the table's fixed tie order, kept by the stable sort).
-fn order_by_score(table: &PreparedTable, scores: &[f64]) -> Vec<u32> {
-    // Non-negative f64 bit patterns sort like the values and stay below 2^63, so
-    // (failed, -score) packs into one u64 key.
-    let key = |i: u32| {
-        let i = i as usize;
-        (u64::from(!table.passed[i]) << 63) | ((u64::MAX >> 1) - scores[i].max(0.0).to_bits())
-    };
-    crate::order::sorted_values(&table.tie_order, key)
+            b
+        })
+        .reduce(|| empty, widen);
+    (scores, bounds)
 }
 
 /// One row of a ranking, for tables and exports.
@@ -264,16 +325,26 @@ impl<'a> RankedEntry<'a> {
     }
     /// Utilities in criteria order.
     pub fn utilities(&self) -> Vec<f64> {
-        (0..self.table.criterion_count()).map(|c| self.table.utility(c, self.index)).collect()
+        (0..self.table.criterion_count())
+            .map(|c| self.table.utility(c, self.index))
+            .collect()
     }
 }
 
 impl Ranking {
     /// Rows best first.
-    pub fn entries<'a>(&'a self, table: &'a PreparedTable) -> impl Iterator<Item = RankedEntry<'a>> + 'a {
+    pub fn entries<'a>(
+        &'a self,
+        table: &'a PreparedTable,
+    ) -> impl Iterator<Item = RankedEntry<'a>> + 'a {
         self.order.iter().map(move |&i| {
             let i = i as usize;
-            RankedEntry { rank: self.ranks[i], index: i, score: self.scores[i], table }
+            RankedEntry {
+                rank: self.ranks[i],
+                index: i,
+                score: self.scores[i],
+                table,
+            }
         })
     }
 }

@@ -18,6 +18,88 @@ use terrain::{Dem, GridGeometry, MapProjection};
 /// Key under which the app keeps its own settings in eframe's storage.
 const STORAGE_KEY: &str = "quietbowl-workbench";
 
+/// A DEM opened without a survey beside it is surveyed at once only up to this many pixels;
+/// a larger one opens for viewing and the window offers the survey instead. 25 Mpx is about
+/// half a minute at [`SURVEY_PX_PER_S`] (common practice, no source: the wait a person
+/// accepts without being asked).
+pub const ASK_BEFORE_SURVEY_ABOVE_PX: u64 = 25_000_000;
+
+/// Pixels per second a survey with the default options gets through, for the estimate shown
+/// with the offer: the demo survey, 4 Mpx in 5.2-6.8 s wall on the project machine (two
+/// shared cores; docs/performance.md, "## Survey"). Rate depends on the diameter range and
+/// the load, hence "roughly".
+pub const SURVEY_PX_PER_S: f64 = 700_000.0;
+
+/// A survey the window did not start by itself because the raster is large.
+#[derive(Clone, Debug, PartialEq)]
+pub struct SurveyOffer {
+    pub dem_path: PathBuf,
+    pub width_px: usize,
+    pub height_px: usize,
+}
+
+impl SurveyOffer {
+    pub fn pixels(&self) -> u64 {
+        self.width_px as u64 * self.height_px as u64
+    }
+
+    /// Rough duration of the survey at [`SURVEY_PX_PER_S`], seconds.
+    pub fn estimate_s(&self) -> f64 {
+        self.pixels() as f64 / SURVEY_PX_PER_S
+    }
+
+    /// What the offer says, in one line.
+    pub fn describe(&self) -> String {
+        format!(
+            "{} has no survey yet. It is large: {} x {} px ({}), so it was opened for viewing \
+             only. A survey would take roughly {}.",
+            self.dem_path
+                .file_name()
+                .map(|n| n.to_string_lossy().into_owned())
+                .unwrap_or_default(),
+            group_thousands(self.width_px as u64),
+            group_thousands(self.height_px as u64),
+            megapixels(self.pixels()),
+            duration_words(self.estimate_s()),
+        )
+    }
+}
+
+/// 20000 -> "20,000".
+fn group_thousands(v: u64) -> String {
+    let digits = v.to_string();
+    let mut out = String::new();
+    for (k, c) in digits.chars().enumerate() {
+        if k > 0 && (digits.len() - k) % 3 == 0 {
+            out.push(',');
+        }
+        out.push(c);
+    }
+    out
+}
+
+fn megapixels(px: u64) -> String {
+    let mpx = px as f64 / 1e6;
+    if mpx >= 10.0 {
+        format!("{mpx:.0} Mpx")
+    } else {
+        format!("{mpx:.1} Mpx")
+    }
+}
+
+/// A duration as a person would say it: "40 s", "12 min", "3.5 h".
+fn duration_words(s: f64) -> String {
+    if !s.is_finite() || s < 0.0 {
+        "an unknown time".into()
+    } else if s < 90.0 {
+        format!("{:.0} s", s.max(1.0))
+    } else if s < 5400.0 {
+        format!("{:.0} min", s / 60.0)
+    } else {
+        format!("{:.1} h", s / 3600.0)
+    }
+}
+
 #[derive(Default, serde::Serialize, serde::Deserialize)]
 struct Remembered {
     last_dir: Option<PathBuf>,
@@ -43,6 +125,10 @@ pub struct WorkbenchApp {
     pending_study: Option<(siting::Study, PathBuf)>,
     /// Runs a survey when a DEM without one is opened (wired in by the binary).
     pub survey_runner: Option<job::SurveyRunner>,
+    /// Rasters larger than this (pixels) are not surveyed on opening; the survey is offered.
+    pub ask_before_survey_above_px: u64,
+    /// The survey offered for the open DEM, if it was too large to start unasked.
+    pub survey_offer: Option<SurveyOffer>,
 }
 
 impl WorkbenchApp {
@@ -63,6 +149,8 @@ impl WorkbenchApp {
             select_rank_on_load: None,
             pending_study: None,
             survey_runner: None,
+            ask_before_survey_above_px: ASK_BEFORE_SURVEY_ABOVE_PX,
+            survey_offer: None,
         }
     }
 
@@ -99,18 +187,33 @@ impl WorkbenchApp {
     }
 
     /// Open a DEM for the terrain view; with `survey_it`, also read the survey saved beside it
-    /// or, failing that, run one in the background.
+    /// or, failing that, run one in the background (a large raster only when asked to:
+    /// see [`ASK_BEFORE_SURVEY_ABOVE_PX`]).
     pub fn open_dem(&mut self, ctx: &egui::Context, path: &Path, survey_it: bool) {
         match Dem::open(path, &Default::default()) {
             Ok(dem) => {
+                let offer = SurveyOffer {
+                    dem_path: path.to_path_buf(),
+                    width_px: dem.width(),
+                    height_px: dem.height(),
+                };
                 self.terrain = Some(TerrainLayer::new(Arc::new(dem), ctx));
                 self.map.refit();
                 self.status = format!("Opened {}", path.display());
+                self.survey_offer = None;
                 // A survey saved beside the DEM is read with it.
                 let beside = path.with_extension("survey.json");
                 if survey_it {
                     if beside.exists() {
                         self.job = Some(job::load_survey(beside, ctx));
+                    } else if self.survey_runner.is_some()
+                        && offer.pixels() > self.ask_before_survey_above_px
+                    {
+                        self.status = format!(
+                            "Opened {} for viewing; it is too large to survey unasked.",
+                            path.display()
+                        );
+                        self.survey_offer = Some(offer);
                     } else if let Some(runner) = self.survey_runner.clone() {
                         self.job = Some(job::run_survey(runner, path.to_path_buf(), ctx));
                     } else {
@@ -122,6 +225,55 @@ impl WorkbenchApp {
                 }
             }
             Err(e) => self.status = format!("Could not open {}: {e}", path.display()),
+        }
+    }
+
+    /// Start the offered survey of the open DEM in the background (progress and cancel in
+    /// the status bar).
+    pub fn start_offered_survey(&mut self, ctx: &egui::Context) {
+        let (Some(offer), Some(runner)) = (self.survey_offer.take(), self.survey_runner.clone())
+        else {
+            return;
+        };
+        if self.job.is_some() {
+            self.status = "Another task is running; the survey can start when it ends.".into();
+            self.survey_offer = Some(offer);
+            return;
+        }
+        self.status = format!(
+            "Surveying {} in the background (roughly {}).",
+            offer.dem_path.display(),
+            duration_words(offer.estimate_s())
+        );
+        self.job = Some(job::run_survey(runner, offer.dem_path, ctx));
+    }
+
+    /// The offer of a survey of a large DEM, above the map.
+    fn survey_offer_ui(&mut self, ui: &mut egui::Ui) {
+        let Some(offer) = &self.survey_offer else {
+            return;
+        };
+        let text = offer.describe();
+        let mut start = false;
+        let mut dismiss = false;
+        egui::Frame::group(ui.style())
+            .fill(Color32::from_rgb(48, 44, 30))
+            .show(ui, |ui| {
+                ui.set_width(ui.available_width());
+                ui.label(RichText::new(text).color(Color32::from_rgb(240, 225, 170)));
+                ui.horizontal(|ui| {
+                    start = ui
+                        .button("Survey it in the background")
+                        .on_hover_text("Progress and Cancel appear in the status bar")
+                        .clicked();
+                    dismiss = ui.button("Just view it").clicked();
+                });
+            });
+        if start {
+            self.start_offered_survey(ui.ctx());
+        } else if dismiss {
+            self.survey_offer = None;
+            self.status = "Viewing only; File > Survey the open terrain starts a survey.".into();
         }
     }
 
@@ -159,6 +311,7 @@ impl WorkbenchApp {
     ) {
         let dem_path = PathBuf::from(&survey.input.path);
         self.status = format!("{} candidates", survey.candidates.len());
+        self.survey_offer = None;
         self.session.set_survey(survey, path);
         self.after_survey(ctx, Some(dem_path));
     }
@@ -286,6 +439,7 @@ impl WorkbenchApp {
         self.poll_job(&ctx);
         if let Some((study, path)) = self.pending_study.take() {
             let dem = PathBuf::from(&study.dem_path);
+            self.survey_offer = None;
             self.session.adopt_study(study, Some(path));
             self.after_survey(&ctx, Some(dem));
         }
@@ -318,6 +472,22 @@ impl WorkbenchApp {
                     }
                     if ui.button("Export shortlist…").clicked() {
                         self.export.open = true;
+                    }
+                    let can_survey = self.terrain.is_some()
+                        && self.job.is_none()
+                        && self.survey_runner.is_some();
+                    if ui
+                        .add_enabled(can_survey, egui::Button::new("Survey the open terrain"))
+                        .clicked()
+                    {
+                        if self.survey_offer.is_none() {
+                            self.survey_offer = self.terrain.as_ref().map(|t| SurveyOffer {
+                                dem_path: t.dem.info().path.clone(),
+                                width_px: t.dem.width(),
+                                height_px: t.dem.height(),
+                            });
+                        }
+                        self.start_offered_survey(&ctx);
                     }
                     ui.separator();
                     if ui.button("Quit").clicked() {
@@ -401,6 +571,7 @@ impl WorkbenchApp {
                 self.table.ui(ui, &mut self.session);
             });
         egui::CentralPanel::default().show(ui, |ui| {
+            self.survey_offer_ui(ui);
             let frame = self.frame();
             self.map
                 .ui(ui, &mut self.session, self.terrain.as_mut(), frame);

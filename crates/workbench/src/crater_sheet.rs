@@ -54,13 +54,13 @@ impl CraterSheet {
         };
         let m = &c.crater;
         ui.heading(format!("Crater sheet: {}", candidate_label(c.id)));
-        match session.ranking.rank.get(index).copied().flatten() {
+        match session.ranking.rank(index) {
             Some(r) => {
                 ui.label(
                     RichText::new(format!(
                         "Rank {r} of {}, score {:.3}",
                         session.ranking.passing_count(),
-                        session.ranking.score[index]
+                        session.ranking.score(index).unwrap_or(0.0)
                     ))
                     .strong(),
                 );

@@ -9,61 +9,75 @@ use survey::SurveyFile;
 
 pub use siting::{Criteria, PreparedTable, Requirement, SmaaResult, SoftCriterion};
 
-/// What the views read of a ranking, indexed like `survey.candidates`.
+/// What the views read of a ranking, indexed like `survey.candidates`: a view onto the
+/// library's own ranking and the table it was ranked on, shared rather than copied (a
+/// weight drag re-ranks every frame, and copying 500,000 rows per frame costs more than
+/// reading the few that are drawn).
 #[derive(Clone, Debug, Default)]
 pub struct Ranking {
-    /// Score in [0, 1] per candidate, higher is better.
-    pub score: Vec<f64>,
-    /// Passes every hard requirement.
-    pub pass: Vec<bool>,
-    /// 1-based rank among passing candidates; `None` for failed ones.
-    pub rank: Vec<Option<u32>>,
-    /// Candidate indices, best first (passing by score, then failed).
-    pub order: Vec<u32>,
     /// Bumped on every new ranking so views know to refresh their caches.
     pub generation: u64,
     /// The library's own ranking, for exports.
     pub full: Option<Arc<siting::Ranking>>,
+    /// The table the ranking was made from: pass/fail and reasons.
+    table: Option<Arc<PreparedTable>>,
 }
 
 impl Ranking {
     pub fn len(&self) -> usize {
-        self.score.len()
+        self.full.as_ref().map_or(0, |f| f.scores.len())
     }
 
     pub fn is_empty(&self) -> bool {
-        self.score.is_empty()
+        self.len() == 0
+    }
+
+    /// Candidate indices, best first (passing by score, then failed).
+    pub fn order(&self) -> &[u32] {
+        self.full.as_ref().map_or(&[], |f| &f.order)
+    }
+
+    /// Score in [0, 1] of candidate `index`, higher is better.
+    pub fn score(&self, index: usize) -> Option<f64> {
+        self.full.as_ref()?.scores.get(index).copied()
+    }
+
+    /// Candidate `index` passes every hard requirement.
+    pub fn passed(&self, index: usize) -> bool {
+        self.table
+            .as_ref()
+            .is_some_and(|t| index < t.len() && t.passed(index))
+    }
+
+    /// 1-based rank of candidate `index` among passing candidates; `None` for failed ones.
+    pub fn rank(&self, index: usize) -> Option<u32> {
+        if !self.passed(index) {
+            return None;
+        }
+        // Passing candidates come first, so their place in the whole order is their rank.
+        self.place(index)
+    }
+
+    /// 1-based place of candidate `index` in the whole order (failed ones after all that pass).
+    pub fn place(&self, index: usize) -> Option<u32> {
+        self.full.as_ref()?.ranks.get(index).copied()
     }
 
     pub fn passing_count(&self) -> usize {
-        if self.order.len() == self.pass.len() {
-            // `order` lists every passing candidate before any failed one.
-            self.order
-                .partition_point(|&i| self.pass.get(i as usize).copied().unwrap_or(false))
-        } else {
-            self.pass.iter().filter(|p| **p).count()
-        }
+        // `order` lists every passing candidate before any failed one.
+        self.order().partition_point(|&i| self.passed(i as usize))
     }
 
     /// Lowest and highest score among passing candidates, if any pass. `order` sorts those
     /// that pass by score, so its ends give the range without reading every score.
     pub fn passing_score_range(&self) -> Option<(f64, f64)> {
-        if self.order.len() == self.pass.len() && self.score.len() == self.pass.len() {
-            let n = self.passing_count();
-            let at = |k: usize| {
-                let i = *self.order.get(k)? as usize;
-                self.score.get(i).copied()
-            };
-            return if n > 0 { at(n - 1).zip(at(0)) } else { None };
+        let n = self.passing_count();
+        let at = |k: usize| self.score(*self.order().get(k)? as usize);
+        if n > 0 {
+            at(n - 1).zip(at(0))
+        } else {
+            None
         }
-        self.score
-            .iter()
-            .zip(&self.pass)
-            .filter(|(_, p)| **p)
-            .fold(None, |r, (s, _)| {
-                let (lo, hi) = r.unwrap_or((*s, *s));
-                Some((lo.min(*s), hi.max(*s)))
-            })
     }
 }
 
@@ -86,7 +100,7 @@ pub fn prepare(
 
 /// Rank with `siting` and turn the result into the views' form.
 pub fn rank(
-    table: &PreparedTable,
+    table: &Arc<PreparedTable>,
     criteria: &Criteria,
     generation: u64,
 ) -> Result<Ranking, String> {
@@ -95,31 +109,17 @@ pub fn rank(
     Ok(out)
 }
 
-/// [`rank`] into an earlier ranking, re-using its buffers (a weight drag re-ranks every
-/// frame: fresh megabytes each time cost more than filling old ones). Left as it was on error.
+/// [`rank`] into an earlier ranking (left as it was on error).
 pub fn rank_into(
-    table: &PreparedTable,
+    table: &Arc<PreparedTable>,
     criteria: &Criteria,
     generation: u64,
     out: &mut Ranking,
 ) -> Result<(), String> {
     let full = siting::rank(table, criteria).map_err(|e| e.to_string())?;
-    let n = full.scores.len();
-    out.pass.clear();
-    out.pass.extend((0..n).map(|i| table.passed(i)));
-    out.rank.clear();
-    out.rank.extend(
-        out.pass
-            .iter()
-            .zip(&full.ranks)
-            .map(|(p, r)| p.then_some(*r)),
-    );
-    out.score.clear();
-    out.score.extend_from_slice(&full.scores);
-    out.order.clear();
-    out.order.extend_from_slice(&full.order);
-    out.generation = generation;
     out.full = Some(Arc::new(full));
+    out.table = Some(table.clone());
+    out.generation = generation;
     Ok(())
 }
 

@@ -76,7 +76,7 @@ impl MapView {
             .selected
             .and_then(|i| session.candidate(i).map(|c| (i, c.id)))
         {
-            Some((i, id)) => match session.ranking.rank.get(i).copied().flatten() {
+            Some((i, id)) => match session.ranking.rank(i) {
                 Some(r) => format!("Marked on map: {} (rank {r})", candidate_label(id)),
                 None => format!(
                     "Marked on map: {} (fails a requirement)",
@@ -419,11 +419,11 @@ pub fn hover_card(ui: &mut egui::Ui, session: &Session, index: usize) {
         c.crater.diameter_m / 1000.0,
         c.crater.depth_to_diameter
     ));
-    match session.ranking.rank.get(index).copied().flatten() {
+    match session.ranking.rank(index) {
         Some(r) => {
             ui.label(format!(
                 "Rank {r}, score {:.3}",
-                session.ranking.score[index]
+                session.ranking.score(index).unwrap_or(0.0)
             ));
         }
         None => {

@@ -26,6 +26,8 @@ const OUTLINE_BUDGET: usize = 6_000;
 const MARK_BUDGET: usize = 20_000;
 /// Side of a dot, points: the area of a disc of radius 1.5.
 const DOT_SIDE_PT: f32 = 2.66;
+/// From this many drawn marks on, the mesh is built in two halves on both cores.
+const PARALLEL_MARKS: usize = 4_096;
 /// Cells along each side of the grid index of mark centres.
 const GRID_SIDE: usize = 256;
 
@@ -312,7 +314,7 @@ impl CandidateMarks {
     fn choose_drawn(&mut self, session: &Session) {
         let ranking = &session.ranking;
         self.drawn.clear();
-        if ranking.order.len() != self.marks.len() {
+        if ranking.order().len() != self.marks.len() {
             self.drawn
                 .extend(self.in_view_list.iter().take(MARK_BUDGET));
             return;
@@ -331,7 +333,7 @@ impl CandidateMarks {
             }
             // Many: walk the ranking until the budget is full.
             _ => {
-                for &i in &ranking.order {
+                for &i in ranking.order() {
                     if self.in_view.get(i as usize).copied().unwrap_or(false) {
                         self.drawn.push(i);
                         if self.drawn.len() == MARK_BUDGET {
@@ -343,10 +345,12 @@ impl CandidateMarks {
         }
     }
 
-    /// Triangles of every drawn rim, worst first so good rims sit on top.
+    /// Triangles of every drawn rim, worst first so good rims sit on top. A long list is
+    /// split in two, the worse part and the better part built side by side on both cores,
+    /// then joined in that order: the same triangles in the same order as one pass would
+    /// give. Outlines cost far more than dots and only the best `OUTLINE_BUDGET` of a dense
+    /// view get them, so a dense view is split in the middle of those.
     fn build_mesh(&mut self, session: &Session, view: &MarkStyle, ctx: &egui::Context) -> Mesh {
-        let ranking = &session.ranking;
-        let z = view.zoom as f32;
         let ppp = ctx.pixels_per_point();
         let feathering = ctx.tessellation_options(|o| {
             if o.feathering {
@@ -355,60 +359,33 @@ impl CandidateMarks {
                 0.0
             }
         });
-        let dense = self.drawn.len() > OUTLINE_BUDGET;
-        let (lo, hi) = self.score_range;
-        let mut mesh = Mesh::default();
-        mesh.reserve_vertices(self.drawn.len().min(OUTLINE_BUDGET) * 40 + self.drawn.len() * 4);
-        // Gathered first in a loop of independent loads: the drawn candidates lie scattered
-        // over arrays of hundreds of thousands, and a long loop body would wait for each.
-        let gathered: Vec<(Option<Mark>, bool, f64)> = self
-            .drawn
-            .iter()
-            .map(|&i| {
-                let i = i as usize;
-                let pass = ranking.pass.get(i).copied().unwrap_or(false);
-                (
-                    self.marks[i],
-                    pass,
-                    ranking.score.get(i).copied().unwrap_or(0.0),
-                )
-            })
-            .collect();
-        let (mut points, mut normals) = (Vec::new(), Vec::new());
-        self.drawn_on_screen.clear();
-        for (k, &(m, pass, score)) in gathered.iter().enumerate().rev() {
-            let Some(m) = m else { continue };
-            let centre = view.to_screen(m.pos);
-            let r_screen = m.radius_px() * z;
-            self.drawn_on_screen.push((self.drawn[k], centre, r_screen));
-            let colour = if pass {
-                score_colour((score - lo) / (hi - lo))
-            } else {
-                Color32::from_rgba_unmultiplied(150, 150, 150, 110)
-            };
-            if r_screen < 2.0 || (dense && (r_screen < 3.0 || k >= OUTLINE_BUDGET)) {
-                if view.rect.expand(DOT_SIDE_PT).contains(centre) {
-                    mesh.add_colored_rect(
-                        Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT)),
-                        colour,
-                    );
-                }
-                continue;
-            }
-            let width = if pass { 1.8 } else { 1.0 };
-            // Rims wholly off the map are left out, as the tessellator's coarse culling would.
-            let reach = m.semi_major_m.max(m.semi_minor_m) / m.px_m[0].min(m.px_m[1]).max(1e-6) * z
-                + width
-                + feathering;
-            if !view
-                .rect
-                .intersects(Rect::from_center_size(centre, Vec2::splat(2.0 * reach)))
-            {
-                continue;
-            }
-            ellipse_points_into(&m, centre, z, &mut points);
-            stroke_loop(&points, width, colour, feathering, &mut normals, &mut mesh);
+        let style = MeshStyle {
+            view,
+            feathering,
+            dense: self.drawn.len() > OUTLINE_BUDGET,
+            score_range: self.score_range,
+        };
+        let (marks, drawn) = (&self.marks, &self.drawn);
+        let ranking = &session.ranking;
+        let build =
+            |range: std::ops::Range<usize>| build_mesh_part(marks, drawn, ranking, &style, range);
+        let n = drawn.len();
+        let split = if style.dense {
+            OUTLINE_BUDGET / 2
+        } else {
+            n / 2
+        };
+        let ((mut mesh, mut on_screen), rest) = if n >= PARALLEL_MARKS {
+            let (worse, better) = rayon::join(|| build(split..n), || build(0..split));
+            (worse, Some(better))
+        } else {
+            (build(0..n), None)
+        };
+        if let Some((m, o)) = rest {
+            mesh.append(m);
+            on_screen.extend(o);
         }
+        self.drawn_on_screen = on_screen;
         mesh
     }
 
@@ -466,6 +443,86 @@ impl CandidateMarks {
         }
         hovered.map(|(i, _)| i)
     }
+}
+
+/// What every part of the mesh is drawn with.
+struct MeshStyle<'a> {
+    view: &'a MarkStyle,
+    feathering: f32,
+    /// Too many marks for all to be outlines.
+    dense: bool,
+    /// Scores mapped to the ends of the colour scale.
+    score_range: (f64, f64),
+}
+
+/// Triangles of the drawn candidates at positions `range` of `drawn` (best first), built
+/// worst first, with the screen centre and radius of each (worst first, for hovering).
+fn build_mesh_part(
+    marks: &[Option<Mark>],
+    drawn: &[u32],
+    ranking: &crate::engine::Ranking,
+    style: &MeshStyle,
+    range: std::ops::Range<usize>,
+) -> (Mesh, Vec<(u32, Pos2, f32)>) {
+    let view = style.view;
+    let z = view.zoom as f32;
+    let (lo, hi) = style.score_range;
+    let feathering = style.feathering;
+    let part = drawn.get(range.clone()).unwrap_or(&[]);
+    let mut mesh = Mesh::default();
+    let outlines = OUTLINE_BUDGET.saturating_sub(range.start).min(part.len());
+    mesh.reserve_vertices(outlines * 40 + part.len() * 4);
+    // Gathered first in a loop of independent loads: the drawn candidates lie scattered
+    // over arrays of hundreds of thousands, and a long loop body would wait for each.
+    let gathered: Vec<(Option<Mark>, bool, f64)> = part
+        .iter()
+        .map(|&i| {
+            let i = i as usize;
+            (
+                marks.get(i).copied().flatten(),
+                ranking.passed(i),
+                ranking.score(i).unwrap_or(0.0),
+            )
+        })
+        .collect();
+    let (mut points, mut normals) = (Vec::new(), Vec::new());
+    let mut on_screen = Vec::with_capacity(part.len());
+    for (j, &(m, pass, score)) in gathered.iter().enumerate().rev() {
+        let Some(m) = m else { continue };
+        // Place in the whole drawn list: decides outline or dot.
+        let k = range.start + j;
+        let centre = view.to_screen(m.pos);
+        let r_screen = m.radius_px() * z;
+        on_screen.push((part[j], centre, r_screen));
+        let colour = if pass {
+            score_colour((score - lo) / (hi - lo))
+        } else {
+            Color32::from_rgba_unmultiplied(150, 150, 150, 110)
+        };
+        if r_screen < 2.0 || (style.dense && (r_screen < 3.0 || k >= OUTLINE_BUDGET)) {
+            if view.rect.expand(DOT_SIDE_PT).contains(centre) {
+                mesh.add_colored_rect(
+                    Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT)),
+                    colour,
+                );
+            }
+            continue;
+        }
+        let width = if pass { 1.8 } else { 1.0 };
+        // Rims wholly off the map are left out, as the tessellator's coarse culling would.
+        let reach = m.semi_major_m.max(m.semi_minor_m) / m.px_m[0].min(m.px_m[1]).max(1e-6) * z
+            + width
+            + feathering;
+        if !view
+            .rect
+            .intersects(Rect::from_center_size(centre, Vec2::splat(2.0 * reach)))
+        {
+            continue;
+        }
+        ellipse_points_into(&m, centre, z, &mut points);
+        stroke_loop(&points, width, colour, feathering, &mut normals, &mut mesh);
+    }
+    (mesh, on_screen)
 }
 
 /// Screen outline of a rim: the fitted ellipse, major axis at its azimuth from north.

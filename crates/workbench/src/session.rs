@@ -107,7 +107,7 @@ impl Session {
             self.ranking = Ranking::default();
             return;
         };
-        // The new ranking is written over the old one's buffers (left as they were on error).
+        // The last good ranking stays on screen when the edited criteria cannot be ranked.
         let mut ranking = std::mem::take(&mut self.ranking);
         let result =
             engine::prepare(&survey, &self.criteria, self.prepared.as_ref()).and_then(|table| {
@@ -147,7 +147,11 @@ impl Session {
 
     /// Index of the candidate ranked `rank` (1-based) among those that pass.
     pub fn index_of_rank(&self, rank: u32) -> Option<usize> {
-        self.ranking.rank.iter().position(|r| *r == Some(rank))
+        let i = *self
+            .ranking
+            .order()
+            .get(usize::try_from(rank).ok()?.checked_sub(1)?)? as usize;
+        (self.ranking.rank(i) == Some(rank)).then_some(i)
     }
 
     pub fn review_mut(&mut self, id: u32) -> &mut CandidateReview {

@@ -4,6 +4,7 @@
 use crate::session::{candidate_label, Session};
 use egui::{Align, Color32, RichText};
 use egui_extras::{Column, TableBuilder};
+use std::sync::Arc;
 use survey::METRICS;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -31,6 +32,9 @@ pub struct CandidateTable {
     pub status: StatusFilter,
     /// Candidate indices in display order, rebuilt only when its key changes.
     rows: Vec<u32>,
+    /// Set instead of `rows` when the list is the ranking as it is (the common case while
+    /// weights move): the ranking's own order, shared, not copied.
+    rows_are_ranking: Option<Arc<siting::Ranking>>,
     rows_key: Option<ViewKey>,
 }
 
@@ -42,6 +46,7 @@ impl Default for CandidateTable {
             filter_text: String::new(),
             status: StatusFilter::All,
             rows: Vec::new(),
+            rows_are_ranking: None,
             rows_key: None,
         }
     }
@@ -63,7 +68,10 @@ fn format_value(v: Option<f64>, unit: &str) -> String {
 impl CandidateTable {
     /// Candidate indices as currently listed.
     pub fn rows(&self) -> &[u32] {
-        &self.rows
+        match &self.rows_are_ranking {
+            Some(r) => &r.order,
+            None => &self.rows,
+        }
     }
 
     fn rebuild(&mut self, session: &Session) {
@@ -78,6 +86,7 @@ impl CandidateTable {
         if self.rows_key.as_ref() == Some(&key) {
             return;
         }
+        self.rows_are_ranking = None;
         let Some(survey) = &session.survey else {
             self.rows.clear();
             self.rows_key = Some(key);
@@ -86,7 +95,7 @@ impl CandidateTable {
         let r = &session.ranking;
         let needle = self.filter_text.trim().to_lowercase();
         let keep = |i: usize| {
-            let pass = r.pass.get(i).copied().unwrap_or(false);
+            let pass = r.passed(i);
             let status_ok = match self.status {
                 StatusFilter::All => true,
                 StatusFilter::Passing => pass,
@@ -104,16 +113,18 @@ impl CandidateTable {
                             .any(|s| s.to_lowercase().contains(&needle))))
         };
         let unfiltered = needle.is_empty() && self.status == StatusFilter::All;
-        let mut rows: Vec<u32> = match self.sort {
-            // The common case while weights move: the ranking as it is, copied, not filtered.
-            SortKey::Rank | SortKey::Score if unfiltered => {
-                let mut rows = std::mem::take(&mut self.rows);
-                rows.clear();
-                rows.extend_from_slice(&r.order);
-                rows
+        let by_rank = matches!(self.sort, SortKey::Rank | SortKey::Score);
+        if by_rank && unfiltered && !self.descending {
+            if let Some(full) = r.full.as_ref().filter(|f| f.order.len() == r.len()) {
+                self.rows.clear();
+                self.rows_are_ranking = Some(full.clone());
+                self.rows_key = Some(key);
+                return;
             }
+        }
+        let mut rows: Vec<u32> = match self.sort {
             SortKey::Rank | SortKey::Score => r
-                .order
+                .order()
                 .iter()
                 .copied()
                 .filter(|&i| keep(i as usize))
@@ -208,7 +219,7 @@ impl CandidateTable {
             ui.separator();
             ui.label(format!(
                 "{} shown of {} ({} pass)",
-                self.rows.len(),
+                self.rows().len(),
                 session.candidate_count(),
                 session.ranking.passing_count()
             ));
@@ -218,7 +229,7 @@ impl CandidateTable {
             session.scroll_table_to_selection = false;
             session
                 .selected
-                .and_then(|s| self.rows.iter().position(|&r| r as usize == s))
+                .and_then(|s| self.rows().iter().position(|&r| r as usize == s))
         } else {
             None
         };
@@ -292,13 +303,17 @@ impl CandidateTable {
                         }
                     })
                     .body(|body| {
-                        body.rows(row_h, self.rows.len(), |mut row| {
-                            let i = self.rows[row.index()] as usize;
+                        let rows = self.rows();
+                        body.rows(row_h, rows.len(), |mut row| {
+                            let Some(&i) = rows.get(row.index()) else {
+                                return;
+                            };
+                            let i = i as usize;
                             let c = &survey.candidates[i];
                             let selected = session.selected == Some(i);
                             row.set_selected(selected);
-                            let pass = session.ranking.pass.get(i).copied().unwrap_or(false);
-                            let rank = session.ranking.rank.get(i).copied().flatten();
+                            let pass = session.ranking.passed(i);
+                            let rank = session.ranking.rank(i);
                             row.col(|ui| {
                                 ui.label(rank.map_or("–".into(), |r| r.to_string()));
                             });
@@ -309,10 +324,7 @@ impl CandidateTable {
                                     .clicked();
                             });
                             row.col(|ui| {
-                                ui.label(format!(
-                                    "{:.3}",
-                                    session.ranking.score.get(i).copied().unwrap_or(0.0)
-                                ));
+                                ui.label(format!("{:.3}", session.ranking.score(i).unwrap_or(0.0)));
                             });
                             row.col(|ui| {
                                 if pass {

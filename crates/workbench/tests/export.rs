@@ -44,5 +44,5 @@ fn saved_study_reopens_with_decisions_and_criteria() {
         Some("smooth floor")
     );
     assert_eq!(reopened.criteria.criteria[0].weight, 3.0);
-    assert_eq!(reopened.ranking.order, session.ranking.order);
+    assert_eq!(reopened.ranking.order(), session.ranking.order());
 }

@@ -42,20 +42,20 @@ fn table_lists_every_candidate_of_the_survey() {
 #[test]
 fn raising_a_weight_slider_changes_the_order() {
     let mut h = harness();
-    let before = h.state().session.ranking.order.clone();
+    let before = h.state().session.ranking.order().to_vec();
     h.get_by_role_and_label(egui::Role::Slider, "roughness_rms_m [m]")
         .set_value_accesskit(5.0);
     h.run_steps(8);
-    let after = h.state().session.ranking.order.clone();
+    let after = h.state().session.ranking.order().to_vec();
     assert_ne!(before, after, "ranking order did not change");
     // The smoothest floor (candidate 2) should now lead, and the table follows in the same frame.
     assert_eq!(
-        h.state().session.ranking.order[0] as usize,
+        h.state().session.ranking.order()[0] as usize,
         index_of_id(&h, 2)
     );
     assert_eq!(
         h.state().table.rows()[0],
-        h.state().session.ranking.order[0]
+        h.state().session.ranking.order()[0]
     );
 }
 
@@ -90,7 +90,7 @@ fn failing_filter_lists_only_failed_candidates() {
         .table
         .rows()
         .iter()
-        .all(|&i| !s.ranking.pass[i as usize]));
+        .all(|&i| !s.ranking.passed(i as usize)));
 }
 
 #[test]
