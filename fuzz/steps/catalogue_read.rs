@@ -17,13 +17,24 @@ pub fn run(data: &[u8]) {
         assert!(stop.is_err(), "Stop mode read a file Skip mode refuses");
         return;
     };
-    assert_eq!(stop.is_ok(), problems.is_empty(), "Stop mode disagrees with the problems Skip mode found");
+    assert_eq!(
+        stop.is_ok(),
+        problems.is_empty(),
+        "Stop mode disagrees with the problems Skip mode found"
+    );
     for r in &rows {
-        assert!((-180.0..180.0).contains(&r.lon_deg) && (-90.0..=90.0).contains(&r.lat_deg), "{r:?}");
+        assert!(
+            (-180.0..180.0).contains(&r.lon_deg) && (-90.0..=90.0).contains(&r.lat_deg),
+            "{r:?}"
+        );
         assert!(r.diameter_m.is_finite() && r.diameter_m > 0.0, "{r:?}");
     }
     // Unnamed rows are the outer ring; rows sharing a name are one hole.
-    let outer: Vec<(f64, f64)> = rows.iter().filter(|r| r.name.is_none()).map(|r| (r.lon_deg, r.lat_deg)).collect();
+    let outer: Vec<(f64, f64)> = rows
+        .iter()
+        .filter(|r| r.name.is_none())
+        .map(|r| (r.lon_deg, r.lat_deg))
+        .collect();
     let mut holes = std::collections::BTreeMap::<&str, Vec<(f64, f64)>>::new();
     for r in &rows {
         if let Some(n) = &r.name {

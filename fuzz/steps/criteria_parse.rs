@@ -20,12 +20,25 @@ pub fn run(data: &[u8]) {
             return;
         }
     };
-    c.validate().expect("parse accepted criteria that validate refuses");
-    let again = Criteria::parse(&c.to_toml()).expect("canonical text of accepted criteria does not read back");
+    c.validate()
+        .expect("parse accepted criteria that validate refuses");
+    let again = Criteria::parse(&c.to_toml())
+        .expect("canonical text of accepted criteria does not read back");
     assert_eq!(again, c, "canonical text reads back as other criteria");
-    assert!(c.normalised_weights().iter().all(|w| w.is_finite() && *w >= 0.0));
+    assert!(c
+        .normalised_weights()
+        .iter()
+        .all(|w| w.is_finite() && *w >= 0.0));
     for s in &c.criteria {
-        for v in [s.worst, s.ideal, 0.5 * s.worst + 0.5 * s.ideal, 0.0, f64::MIN, f64::MAX, f64::NAN] {
+        for v in [
+            s.worst,
+            s.ideal,
+            0.5 * s.worst + 0.5 * s.ideal,
+            0.0,
+            f64::MIN,
+            f64::MAX,
+            f64::NAN,
+        ] {
             let u = siting::utility::utility(s, Some(v));
             assert!((0.0..=1.0).contains(&u), "utility {u} outside [0, 1]");
         }

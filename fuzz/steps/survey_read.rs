@@ -18,8 +18,13 @@ pub fn run(data: &[u8]) -> Option<SurveyFile> {
             return None;
         }
     };
-    let again = SurveyFile::from_json(&s.to_json()).expect("a survey that was read does not read back after writing");
-    assert_eq!(again.to_json(), s.to_json(), "writing a survey that was read is not stable");
+    let again = SurveyFile::from_json(&s.to_json())
+        .expect("a survey that was read does not read back after writing");
+    assert_eq!(
+        again.to_json(),
+        s.to_json(),
+        "writing a survey that was read is not stable"
+    );
     let _ = survey::merge(vec![s.clone()]);
     Some(s)
 }

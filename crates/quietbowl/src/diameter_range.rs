@@ -10,7 +10,10 @@ fn bound_m(s: &str) -> Result<f64, String> {
     } else {
         (s, 1.0)
     };
-    let v: f64 = num.trim().parse().map_err(|_| format!("'{s}' is not a diameter (examples: 800, 800m, 0.8km)"))?;
+    let v: f64 = num
+        .trim()
+        .parse()
+        .map_err(|_| format!("'{s}' is not a diameter (examples: 800, 800m, 0.8km)"))?;
     if !(v.is_finite() && v > 0.0) {
         return Err(format!("'{s}' must be a positive diameter"));
     }
@@ -19,12 +22,24 @@ fn bound_m(s: &str) -> Result<f64, String> {
 
 /// Parse `MIN..MAX` into metres; either side may be empty to keep the default.
 pub fn parse(s: &str) -> Result<(Option<f64>, Option<f64>), String> {
-    let (lo, hi) = s.split_once("..").ok_or_else(|| format!("'{s}' is not a range; write MIN..MAX, e.g. 800..2000 or 0.8km..2km"))?;
-    let lo = if lo.trim().is_empty() { None } else { Some(bound_m(lo)?) };
-    let hi = if hi.trim().is_empty() { None } else { Some(bound_m(hi)?) };
+    let (lo, hi) = s.split_once("..").ok_or_else(|| {
+        format!("'{s}' is not a range; write MIN..MAX, e.g. 800..2000 or 0.8km..2km")
+    })?;
+    let lo = if lo.trim().is_empty() {
+        None
+    } else {
+        Some(bound_m(lo)?)
+    };
+    let hi = if hi.trim().is_empty() {
+        None
+    } else {
+        Some(bound_m(hi)?)
+    };
     if let (Some(a), Some(b)) = (lo, hi) {
         if a > b {
-            return Err(format!("the range {s} runs backwards (min {a} m > max {b} m)"));
+            return Err(format!(
+                "the range {s} runs backwards (min {a} m > max {b} m)"
+            ));
         }
     }
     Ok((lo, hi))

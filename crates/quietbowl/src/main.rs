@@ -69,7 +69,11 @@ fn main() -> ExitCode {
         Command::Survey(a) => commands::survey::run(a),
         Command::Site(a) => commands::site::run(a),
         Command::Rank(a) => commands::rank::run(a),
-        Command::Workbench { file, select_rank, screenshot } => commands::workbench(file, select_rank, screenshot),
+        Command::Workbench {
+            file,
+            select_rank,
+            screenshot,
+        } => commands::workbench(file, select_rank, screenshot),
         Command::Merge { parts, out } => commands::merge(&parts, &out),
     };
     match result {

@@ -82,7 +82,9 @@ fn benches(c: &mut Criterion) {
     let table = PreparedTable::new(&survey, &criteria).expect("table");
     let passing = (0..table.len()).filter(|&i| table.passed(i)).count();
     let front = (0..table.len()).filter(|&i| table.pareto(i)).count();
-    println!("500,000 candidates: {passing} pass the hard requirements, {front} on the Pareto front");
+    println!(
+        "500,000 candidates: {passing} pass the hard requirements, {front} on the Pareto front"
+    );
 
     let runs = 100;
     let (cpu0, wall0) = (cpu_seconds(), std::time::Instant::now());
@@ -116,9 +118,13 @@ fn benches(c: &mut Criterion) {
     let mut smaa_criteria = criteria.clone();
     smaa_criteria.robustness.samples = 10_000;
     smaa_criteria.robustness.pool = 1_000;
-    g.bench_function("smaa_10k_draws_top_1000", |b| b.iter(|| smaa(&table, &smaa_criteria).expect("smaa")));
+    g.bench_function("smaa_10k_draws_top_1000", |b| {
+        b.iter(|| smaa(&table, &smaa_criteria).expect("smaa"))
+    });
     g.measurement_time(Duration::from_secs(30));
-    g.bench_function("prepare_table_500k", |b| b.iter(|| PreparedTable::new(&survey, &criteria).expect("table")));
+    g.bench_function("prepare_table_500k", |b| {
+        b.iter(|| PreparedTable::new(&survey, &criteria).expect("table"))
+    });
     g.finish();
 }
 

@@ -13,9 +13,15 @@ static COUNTER: AtomicU64 = AtomicU64::new(0);
 
 /// A temporary path beside `target` that keeps its extension (GDAL picks drivers by it).
 fn temp_path(target: &Path) -> PathBuf {
-    let name = target.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_else(|| "out".into());
+    let name = target
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "out".into());
     let n = COUNTER.fetch_add(1, Ordering::Relaxed);
-    let ext = target.extension().map(|e| format!(".{}", e.to_string_lossy())).unwrap_or_default();
+    let ext = target
+        .extension()
+        .map(|e| format!(".{}", e.to_string_lossy()))
+        .unwrap_or_default();
     target.with_file_name(format!(".{name}.partial-{}-{n}{ext}", std::process::id()))
 }
 
@@ -35,8 +41,13 @@ where
     F: FnOnce(&Path) -> std::io::Result<()>,
 {
     let tmp = temp_path(path);
-    let io = |source| SitingError::Write { path: path.to_path_buf(), source };
-    let result = fill(&tmp).and_then(|()| File::open(&tmp)?.sync_all()).and_then(|()| std::fs::rename(&tmp, path));
+    let io = |source| SitingError::Write {
+        path: path.to_path_buf(),
+        source,
+    };
+    let result = fill(&tmp)
+        .and_then(|()| File::open(&tmp)?.sync_all())
+        .and_then(|()| std::fs::rename(&tmp, path));
     if let Err(e) = result {
         // The temporary file may not exist (creation failed); nothing else to clean.
         let _ = std::fs::remove_file(&tmp);

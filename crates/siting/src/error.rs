@@ -12,9 +12,15 @@ pub enum SitingError {
     #[error("survey has {survey} candidates but the prepared table has {table}: they do not belong together")]
     SurveyMismatch { survey: usize, table: usize },
     #[error("cannot write {path}: {source}")]
-    Write { path: PathBuf, source: std::io::Error },
+    Write {
+        path: PathBuf,
+        source: std::io::Error,
+    },
     #[error("cannot read {path}: {source}")]
-    Read { path: PathBuf, source: std::io::Error },
+    Read {
+        path: PathBuf,
+        source: std::io::Error,
+    },
     #[error("GDAL could not write the GeoPackage {path}: {message}")]
     Gdal { path: PathBuf, message: String },
     #[error("study file: {0}")]

@@ -20,7 +20,9 @@ pub mod study;
 pub mod table;
 pub mod utility;
 
-pub use criteria::{Criteria, CriteriaError, Requirement, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling};
+pub use criteria::{
+    Criteria, CriteriaError, Requirement, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling,
+};
 pub use error::SitingError;
 pub use export::Provenance;
 pub use ranking::{rank, FailedRequirement, PreparedTable, RankedEntry, Ranking};

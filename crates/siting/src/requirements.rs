@@ -24,9 +24,21 @@ impl FailedRequirement {
         match (self.value, self.min, self.max) {
             (None, _, _) => format!("{} not measured", self.metric),
             (Some(v), Some(min), _) if v < min => {
-                format!("{} {} below min {} by {}", self.metric, g(v), g(min), g(min - v))
+                format!(
+                    "{} {} below min {} by {}",
+                    self.metric,
+                    g(v),
+                    g(min),
+                    g(min - v)
+                )
             }
-            (Some(v), _, Some(max)) => format!("{} {} above max {} by {}", self.metric, g(v), g(max), g(v - max)),
+            (Some(v), _, Some(max)) => format!(
+                "{} {} above max {} by {}",
+                self.metric,
+                g(v),
+                g(max),
+                g(v - max)
+            ),
             (Some(v), _, None) => format!("{} {} outside bounds", self.metric, g(v)),
         }
     }

@@ -72,8 +72,13 @@ pub fn smaa_with(
     checked.robustness = settings.clone();
     checked.validate()?;
     let ranking = rank(table, criteria)?;
-    let pool: Vec<u32> =
-        ranking.order.iter().copied().filter(|&i| table.passed(i as usize)).take(settings.pool).collect();
+    let pool: Vec<u32> = ranking
+        .order
+        .iter()
+        .copied()
+        .filter(|&i| table.passed(i as usize))
+        .take(settings.pool)
+        .collect();
     let (k, m) = (pool.len(), table.criterion_count());
     let product = criteria.scoring == ScoreMethod::WeightedProduct;
     // Row-major copy of the pool's utilities (or their logs): one contiguous row per draw.
@@ -99,11 +104,21 @@ pub fn smaa_with(
     for t in tallies {
         first.iter_mut().zip(&t.first).for_each(|(a, b)| *a += b);
         top.iter_mut().zip(&t.top).for_each(|(a, b)| *a += b);
-        weight_sums.iter_mut().zip(&t.weight_sums).for_each(|(a, b)| *a += b);
+        weight_sums
+            .iter_mut()
+            .zip(&t.weight_sums)
+            .for_each(|(a, b)| *a += b);
     }
     let n = settings.samples as f64;
     let central_weights = (0..k)
-        .map(|j| (first[j] > 0).then(|| weight_sums[j * m..(j + 1) * m].iter().map(|s| s / first[j] as f64).collect()))
+        .map(|j| {
+            (first[j] > 0).then(|| {
+                weight_sums[j * m..(j + 1) * m]
+                    .iter()
+                    .map(|s| s / first[j] as f64)
+                    .collect()
+            })
+        })
         .collect();
     Ok(SmaaResult {
         settings: settings.clone(),
@@ -145,26 +160,39 @@ fn run_block(
 ) -> Tally {
     let mut rng = ChaCha8Rng::seed_from_u64(s.seed);
     rng.set_stream(block);
-    let mut t = Tally { first: vec![0; k], top: vec![0; k], weight_sums: vec![0.0; k * m] };
+    let mut t = Tally {
+        first: vec![0; k],
+        top: vec![0; k],
+        weight_sums: vec![0.0; k * m],
+    };
     let mut w = vec![0.0; m];
     let mut scores = vec![0.0; k];
     let mut idx: Vec<usize> = (0..k).collect();
     // Higher score first; equal scores by rank under the chosen weights, so ties never
     // depend on the sort's internals.
-    let better = |scores: &[f64], a: usize, b: usize| scores[b].total_cmp(&scores[a]).then(a.cmp(&b));
+    let better =
+        |scores: &[f64], a: usize, b: usize| scores[b].total_cmp(&scores[a]).then(a.cmp(&b));
     for _ in 0..count {
         draw_weights(&mut rng, base, s.sampling, &mut w);
         for (j, score) in scores.iter_mut().enumerate() {
             let row = &rows[j * m..(j + 1) * m];
             // Weight 0 must not meet ln(0) in the product form.
-            *score = row.iter().zip(&w).filter(|(_, &w)| w != 0.0).map(|(u, w)| w * u).sum();
+            *score = row
+                .iter()
+                .zip(&w)
+                .filter(|(_, &w)| w != 0.0)
+                .map(|(u, w)| w * u)
+                .sum();
         }
         if k == 0 {
             continue;
         }
         let best = (1..k).fold(0, |b, j| if better(&scores, j, b).is_lt() { j } else { b });
         t.first[best] += 1;
-        t.weight_sums[best * m..(best + 1) * m].iter_mut().zip(&w).for_each(|(a, b)| *a += b);
+        t.weight_sums[best * m..(best + 1) * m]
+            .iter_mut()
+            .zip(&w)
+            .for_each(|(a, b)| *a += b);
         if k <= s.top_n {
             t.top.iter_mut().for_each(|c| *c += 1);
         } else {

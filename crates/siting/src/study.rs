@@ -100,20 +100,34 @@ impl Study {
         let mut value: Value = serde_json::from_str(text)?;
         let format = value.get("format").and_then(Value::as_str);
         if format != Some(STUDY_FORMAT) {
-            return Err(StudyError::NotAStudy { found: format.map(str::to_string) });
+            return Err(StudyError::NotAStudy {
+                found: format.map(str::to_string),
+            });
         }
-        let version = value.get("schema_version").and_then(Value::as_u64).ok_or(StudyError::NoVersion)?;
+        let version = value
+            .get("schema_version")
+            .and_then(Value::as_u64)
+            .ok_or(StudyError::NoVersion)?;
         if version > u64::from(STUDY_VERSION) {
-            return Err(StudyError::Newer { found: version, supported: STUDY_VERSION });
+            return Err(StudyError::Newer {
+                found: version,
+                supported: STUDY_VERSION,
+            });
         }
         let mut v = version;
         while v < u64::from(STUDY_VERSION) {
             value = migrate(v, value)?;
             v += 1;
         }
-        if let Some(sv) = value.pointer("/survey/schema_version").and_then(Value::as_u64) {
+        if let Some(sv) = value
+            .pointer("/survey/schema_version")
+            .and_then(Value::as_u64)
+        {
             if sv != u64::from(survey::SCHEMA_VERSION) {
-                return Err(StudyError::SurveyVersion { found: sv as u32, supported: survey::SCHEMA_VERSION });
+                return Err(StudyError::SurveyVersion {
+                    found: sv as u32,
+                    supported: survey::SCHEMA_VERSION,
+                });
             }
         }
         let study: Study = serde_json::from_value(value)?;
@@ -133,14 +147,22 @@ impl Study {
     }
 
     pub fn open(path: &Path) -> Result<Study, SitingError> {
-        let text =
-            std::fs::read_to_string(path).map_err(|source| SitingError::Read { path: path.to_path_buf(), source })?;
+        let text = std::fs::read_to_string(path).map_err(|source| SitingError::Read {
+            path: path.to_path_buf(),
+            source,
+        })?;
         Ok(Study::from_json(&text)?)
     }
 
     /// Record a decision and note on candidate `id`.
     pub fn review(&mut self, id: u32, decision: Decision, note: impl Into<String>) {
-        self.reviews.insert(id, CandidateReview { decision, note: note.into() });
+        self.reviews.insert(
+            id,
+            CandidateReview {
+                decision,
+                note: note.into(),
+            },
+        );
     }
 }
 

@@ -50,10 +50,26 @@ pub fn render_table(
     }
     let mut head = format!(
         "{:>5} {:>7} {:>10} {:>8} {:>8} {:>6} {:>6} {:>6} {:>7} {:>7} {:>6} {:>4}",
-        "rank", "id", "lon_deg", "lat_deg", "diam_m", "d/D", "compl", "tilt", "earth", "gc_sep", "score", "pass"
+        "rank",
+        "id",
+        "lon_deg",
+        "lat_deg",
+        "diam_m",
+        "d/D",
+        "compl",
+        "tilt",
+        "earth",
+        "gc_sep",
+        "score",
+        "pass"
     );
     if let Some(s) = smaa {
-        let _ = write!(head, " {:>6} {:>7}", "P(1)", format!("P(<={})", s.settings.top_n));
+        let _ = write!(
+            head,
+            " {:>6} {:>7}",
+            "P(1)",
+            format!("P(<={})", s.settings.top_n)
+        );
     }
     let _ = writeln!(out, "{head}");
     let mut notes = Vec::new();
@@ -61,7 +77,11 @@ pub fn render_table(
         let i = e.index;
         let c = &survey.candidates[i].crater;
         let lon = terrain::projection::wrap_deg_180(c.centre_lon_deg);
-        let pass = if e.passed() { "yes".to_string() } else { format!("no{}", e.failures().len()) };
+        let pass = if e.passed() {
+            "yes".to_string()
+        } else {
+            format!("no{}", e.failures().len())
+        };
         let mut line = format!(
             "{:>5} {:>7} {:>10.4} {:>8.4} {:>8} {:>6} {:>6} {:>6} {:>7} {:>7} {:>6.3} {:>4}",
             e.rank,

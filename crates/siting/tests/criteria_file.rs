@@ -17,10 +17,21 @@ fn line_of(text: &str, needle: &str) -> usize {
 #[test]
 fn shipped_reflector_criteria_parse_and_cover_the_brief() {
     let c = Criteria::default_reflector();
-    let req = |m: &str| c.requirements.iter().find(|r| r.metric == m).unwrap_or_else(|| panic!("requirement {m}"));
+    let req = |m: &str| {
+        c.requirements
+            .iter()
+            .find(|r| r.metric == m)
+            .unwrap_or_else(|| panic!("requirement {m}"))
+    };
     // Ranges from the project brief (issue 5): diameter about 0.8-2 km, d/D about 0.15-0.3.
-    assert_eq!((req("diameter_m").min, req("diameter_m").max), (Some(800.0), Some(2000.0)));
-    assert_eq!((req("depth_to_diameter").min, req("depth_to_diameter").max), (Some(0.15), Some(0.3)));
+    assert_eq!(
+        (req("diameter_m").min, req("diameter_m").max),
+        (Some(800.0), Some(2000.0))
+    );
+    assert_eq!(
+        (req("depth_to_diameter").min, req("depth_to_diameter").max),
+        (Some(0.15), Some(0.3))
+    );
     assert!(req("earth_clearance_deg").min.unwrap() > 0.0);
     assert_eq!(req("far_side_band").min, Some(1.0));
     let soft: Vec<&str> = c.criteria.iter().map(|s| s.metric.as_str()).collect();
@@ -37,7 +48,11 @@ fn shipped_reflector_criteria_parse_and_cover_the_brief() {
         assert!(soft.contains(&m), "soft criterion on {m}");
     }
     // d/D peaks near 0.2 (Pike 1977, from memory; "common practice" per the brief).
-    let dd = c.criteria.iter().find(|s| s.metric == "depth_to_diameter").unwrap();
+    let dd = c
+        .criteria
+        .iter()
+        .find(|s| s.metric == "depth_to_diameter")
+        .unwrap();
     assert_eq!(dd.ideal, 0.2);
     assert!(matches!(dd.shape, UtilityShape::Breakpoints { .. }));
 }
@@ -48,7 +63,11 @@ fn every_default_value_is_explained_in_a_comment() {
     let lines: Vec<&str> = DEFAULT_REFLECTOR_TOML.lines().collect();
     for (i, l) in lines.iter().enumerate() {
         if l.starts_with("metric = ") {
-            assert!(lines[i + 1].starts_with('#'), "no explanation after line {}: {l}", i + 1);
+            assert!(
+                lines[i + 1].starts_with('#'),
+                "no explanation after line {}: {l}",
+                i + 1
+            );
         }
     }
 }
@@ -66,21 +85,32 @@ fn problem_and_line(text: &str) -> (CriteriaProblem, Option<usize>) {
     (e.problem, e.line)
 }
 
-const GOOD: &str = "[[criterion]]\nmetric = \"floor_tilt_deg\"\nworst = 10.0\nideal = 0.0\nweight = 1.0\n";
+const GOOD: &str =
+    "[[criterion]]\nmetric = \"floor_tilt_deg\"\nworst = 10.0\nideal = 0.0\nweight = 1.0\n";
 
 #[test]
 fn unknown_metric_is_refused_at_its_line() {
-    let t = criteria_text(&format!("{GOOD}\n[[requirement]]\nmetric = \"crater_beauty\"\nmin = 1.0\n"));
+    let t = criteria_text(&format!(
+        "{GOOD}\n[[requirement]]\nmetric = \"crater_beauty\"\nmin = 1.0\n"
+    ));
     let (p, line) = problem_and_line(&t);
-    assert!(matches!(p, CriteriaProblem::UnknownMetric { ref name, .. } if name == "crater_beauty"), "{p:?}");
+    assert!(
+        matches!(p, CriteriaProblem::UnknownMetric { ref name, .. } if name == "crater_beauty"),
+        "{p:?}"
+    );
     assert_eq!(line, Some(line_of(&t, "metric = \"crater_beauty\"")));
     let msg = Criteria::parse(&t).unwrap_err().to_string();
-    assert!(msg.starts_with(&format!("line {}:", line.unwrap())) && msg.contains("diameter_m"), "{msg}");
+    assert!(
+        msg.starts_with(&format!("line {}:", line.unwrap())) && msg.contains("diameter_m"),
+        "{msg}"
+    );
 }
 
 #[test]
 fn min_above_max_is_refused_at_its_line() {
-    let t = criteria_text(&format!("{GOOD}\n[[requirement]]\nmetric = \"diameter_m\"\nmin = 3000.0\nmax = 800.0\n"));
+    let t = criteria_text(&format!(
+        "{GOOD}\n[[requirement]]\nmetric = \"diameter_m\"\nmin = 3000.0\nmax = 800.0\n"
+    ));
     let (p, line) = problem_and_line(&t);
     assert!(matches!(p, CriteriaProblem::MinAboveMax { .. }), "{p:?}");
     assert_eq!(line, Some(line_of(&t, "min = 3000.0")));
@@ -88,7 +118,9 @@ fn min_above_max_is_refused_at_its_line() {
 
 #[test]
 fn negative_weight_is_refused_at_its_line() {
-    let t = criteria_text("[[criterion]]\nmetric = \"floor_tilt_deg\"\nworst = 10.0\nideal = 0.0\nweight = -2.0\n");
+    let t = criteria_text(
+        "[[criterion]]\nmetric = \"floor_tilt_deg\"\nworst = 10.0\nideal = 0.0\nweight = -2.0\n",
+    );
     let (p, line) = problem_and_line(&t);
     assert!(matches!(p, CriteriaProblem::NegativeWeight { .. }), "{p:?}");
     assert_eq!(line, Some(line_of(&t, "weight = -2.0")));
@@ -115,44 +147,74 @@ fn syntax_error_gives_line_and_column() {
 fn misspelt_key_is_refused_at_its_line() {
     let t = criteria_text(&GOOD.replace("weight = 1.0", "wieght = 1.0"));
     let e = Criteria::parse(&t).unwrap_err();
-    assert!(e.to_string().contains("wieght") || e.to_string().contains("weight"), "{e}");
+    assert!(
+        e.to_string().contains("wieght") || e.to_string().contains("weight"),
+        "{e}"
+    );
     assert!(e.line.is_some());
 }
 
 #[test]
 fn other_refusals_name_the_problem() {
-    let cases =
-        [
-            ("no soft criteria", criteria_text(""), "no soft criteria"),
-            (
-                "no bound",
-                criteria_text(&format!("{GOOD}[[requirement]]\nmetric = \"diameter_m\"\n")),
-                "neither min nor max",
-            ),
-            ("worst = ideal", criteria_text(&GOOD.replace("ideal = 0.0", "ideal = 10.0")), "no direction"),
-            ("shape", criteria_text(&GOOD.replace("weight = 1.0", "weight = 1.0\nshape = \"wiggly\"")), "wiggly"),
-            (
-                "points order",
-                criteria_text(&GOOD.replace(
-                    "weight = 1.0",
-                    "weight = 1.0\nshape = \"breakpoints\"\npoints = [[10.0, 0.0], [0.0, 1.0]]",
-                )),
-                "strictly increasing",
-            ),
-            (
-                "worst not a point",
-                criteria_text(&GOOD.replace(
-                    "weight = 1.0",
-                    "weight = 1.0\nshape = \"breakpoints\"\npoints = [[0.0, 1.0], [5.0, 0.0]]",
-                )),
-                "worst (10)",
-            ),
-            ("duplicate", criteria_text(&format!("{GOOD}\n{GOOD}")), "already has a soft criterion"),
-            ("version", criteria_text(GOOD).replace("version = 1", "version = 7"), "version 7"),
-            ("format", criteria_text(GOOD).replace("quietbowl-criteria", "something-else"), "not a criteria file"),
-            ("robustness", criteria_text(&format!("[robustness]\nspread = 1.5\n{GOOD}")), "spread"),
-            ("nan", criteria_text(&GOOD.replace("worst = 10.0", "worst = nan")), "not a finite number"),
-        ];
+    let cases = [
+        ("no soft criteria", criteria_text(""), "no soft criteria"),
+        (
+            "no bound",
+            criteria_text(&format!("{GOOD}[[requirement]]\nmetric = \"diameter_m\"\n")),
+            "neither min nor max",
+        ),
+        (
+            "worst = ideal",
+            criteria_text(&GOOD.replace("ideal = 0.0", "ideal = 10.0")),
+            "no direction",
+        ),
+        (
+            "shape",
+            criteria_text(&GOOD.replace("weight = 1.0", "weight = 1.0\nshape = \"wiggly\"")),
+            "wiggly",
+        ),
+        (
+            "points order",
+            criteria_text(&GOOD.replace(
+                "weight = 1.0",
+                "weight = 1.0\nshape = \"breakpoints\"\npoints = [[10.0, 0.0], [0.0, 1.0]]",
+            )),
+            "strictly increasing",
+        ),
+        (
+            "worst not a point",
+            criteria_text(&GOOD.replace(
+                "weight = 1.0",
+                "weight = 1.0\nshape = \"breakpoints\"\npoints = [[0.0, 1.0], [5.0, 0.0]]",
+            )),
+            "worst (10)",
+        ),
+        (
+            "duplicate",
+            criteria_text(&format!("{GOOD}\n{GOOD}")),
+            "already has a soft criterion",
+        ),
+        (
+            "version",
+            criteria_text(GOOD).replace("version = 1", "version = 7"),
+            "version 7",
+        ),
+        (
+            "format",
+            criteria_text(GOOD).replace("quietbowl-criteria", "something-else"),
+            "not a criteria file",
+        ),
+        (
+            "robustness",
+            criteria_text(&format!("[robustness]\nspread = 1.5\n{GOOD}")),
+            "spread",
+        ),
+        (
+            "nan",
+            criteria_text(&GOOD.replace("worst = 10.0", "worst = nan")),
+            "not a finite number",
+        ),
+    ];
     for (what, text, expect) in cases {
         let e = Criteria::parse(&text).expect_err(what);
         assert!(e.to_string().contains(expect), "{what}: {e}");

@@ -18,10 +18,16 @@ fn csv_has_provenance_then_header_with_units_then_rows() {
     let text = to_csv_string(&f.set()).unwrap();
     let lines: Vec<&str> = text.lines().collect();
     let header_at = lines.iter().position(|l| !l.starts_with('#')).unwrap();
-    assert!(lines[..header_at].iter().any(|l| *l == format!("# dem_sha256: {}", "ab".repeat(32))));
+    assert!(lines[..header_at]
+        .iter()
+        .any(|l| *l == format!("# dem_sha256: {}", "ab".repeat(32))));
     assert!(lines[..header_at].contains(&"# date: 2025-01-02T03:04:05Z"));
-    assert!(lines[..header_at].iter().any(|l| l.starts_with("# criteria | format = \"quietbowl-criteria\"")));
-    assert!(lines[..header_at].iter().any(|l| l.starts_with("# screening_caution: Screening estimates")));
+    assert!(lines[..header_at]
+        .iter()
+        .any(|l| l.starts_with("# criteria | format = \"quietbowl-criteria\"")));
+    assert!(lines[..header_at]
+        .iter()
+        .any(|l| l.starts_with("# screening_caution: Screening estimates")));
     let header: Vec<&str> = lines[header_at].split(',').collect();
     for col in [
         "rank [1]",
@@ -43,8 +49,14 @@ fn csv_has_provenance_then_header_with_units_then_rows() {
         assert_eq!(row.split(',').count(), header.len(), "{row}");
     }
     // The unmeasured candidate: empty cell for its Earth clearance.
-    let col = header.iter().position(|c| *c == "earth_clearance_deg [deg]").unwrap();
-    let row5 = lines[header_at + 1..].iter().find(|r| r.split(',').nth(1) == Some("5")).unwrap();
+    let col = header
+        .iter()
+        .position(|c| *c == "earth_clearance_deg [deg]")
+        .unwrap();
+    let row5 = lines[header_at + 1..]
+        .iter()
+        .find(|r| r.split(',').nth(1) == Some("5"))
+        .unwrap();
     assert_eq!(row5.split(',').nth(col), Some(""));
 }
 
@@ -55,7 +67,11 @@ fn csv_opens_with_gdal_and_keeps_values() {
     write_csv(&Fixture::new().set(), &path).unwrap();
     // GDAL's CSV reader has no comment syntax; read the table part as a plain CSV copy.
     let text = std::fs::read_to_string(&path).unwrap();
-    let body: String = text.lines().filter(|l| !l.starts_with('#')).map(|l| format!("{l}\n")).collect();
+    let body: String = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .map(|l| format!("{l}\n"))
+        .collect();
     let plain = dir.path().join("plain.csv");
     std::fs::write(&plain, body).unwrap();
     let ds = gdal::Dataset::open(&plain).unwrap();
@@ -74,26 +90,43 @@ fn check_gpkg(path: &Path) {
     let srs = layer.spatial_ref().expect("layer CRS");
     // IAU 2015 Moon geographic CRS (PROJ >= 8.2 database; domain notes 2). GDAL rebuilds the
     // layer CRS from the stored WKT1, whose AUTHORITY node spells the authority "IAU".
-    assert!(matches!(srs.auth_name().as_deref(), Some("IAU" | "IAU_2015")), "{:?}", srs.auth_name());
+    assert!(
+        matches!(srs.auth_name().as_deref(), Some("IAU" | "IAU_2015")),
+        "{:?}",
+        srs.auth_name()
+    );
     assert_eq!(srs.auth_code().unwrap(), 30100);
     assert!((srs.semi_major().unwrap() - 1_737_400.0).abs() < 1e-6);
     // The GeoPackage's own CRS table (OGC 12-128 req. 11) names the authority in full.
     let sql = "SELECT s.organization, s.organization_coordsys_id FROM gpkg_spatial_ref_sys s \
                JOIN gpkg_geometry_columns g ON g.srs_id = s.srs_id";
-    let mut rs = ds.execute_sql(sql, None, gdal::vector::sql::Dialect::SQLITE).unwrap().unwrap();
+    let mut rs = ds
+        .execute_sql(sql, None, gdal::vector::sql::Dialect::SQLITE)
+        .unwrap()
+        .unwrap();
     let row = rs.features().next().unwrap();
     assert_eq!(row.field_as_string(0).unwrap().as_deref(), Some("IAU_2015"));
     assert_eq!(row.field_as_integer64(1).unwrap(), Some(30100));
     drop(row);
     drop(rs);
     let mut layer = ds.layer_by_name(LAYER_NAME).unwrap();
-    assert_eq!(ds.metadata_item("dem_sha256", "").as_deref(), Some("ab".repeat(32).as_str()));
-    assert!(ds.metadata_item("criteria_toml", "").unwrap().contains("quietbowl-criteria"));
+    assert_eq!(
+        ds.metadata_item("dem_sha256", "").as_deref(),
+        Some("ab".repeat(32).as_str())
+    );
+    assert!(ds
+        .metadata_item("criteria_toml", "")
+        .unwrap()
+        .contains("quietbowl-criteria"));
     let mut ranks = Vec::new();
     for feat in layer.features() {
         let g = feat.geometry().expect("rim geometry");
         assert_eq!(g.geometry_name(), "MULTIPOLYGON");
-        ranks.push(feat.field_as_integer64(feat.field_index("rank").unwrap()).unwrap().unwrap());
+        ranks.push(
+            feat.field_as_integer64(feat.field_index("rank").unwrap())
+                .unwrap()
+                .unwrap(),
+        );
     }
     assert_eq!(ranks, vec![1, 2, 3, 4, 5]);
 }
@@ -107,7 +140,10 @@ fn gpkg_reads_back_with_gdal_in_the_iau_moon_crs() {
     // Replacing an existing file works the same way.
     write_gpkg(&Fixture::new().set(), &path).unwrap();
     check_gpkg(&path);
-    let leftovers: Vec<_> = std::fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let leftovers: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(leftovers.len(), 1, "{leftovers:?}");
 }
 
@@ -117,10 +153,16 @@ fn same_inputs_give_byte_identical_csv_and_gpkg() {
     let p = |n: &str| dir.path().join(n);
     write_csv(&Fixture::new().set(), &p("a.csv")).unwrap();
     write_csv(&Fixture::new().set(), &p("b.csv")).unwrap();
-    assert_eq!(std::fs::read(p("a.csv")).unwrap(), std::fs::read(p("b.csv")).unwrap());
+    assert_eq!(
+        std::fs::read(p("a.csv")).unwrap(),
+        std::fs::read(p("b.csv")).unwrap()
+    );
     write_gpkg(&Fixture::new().set(), &p("a.gpkg")).unwrap();
     write_gpkg(&Fixture::new().set(), &p("b.gpkg")).unwrap();
-    assert!(std::fs::read(p("a.gpkg")).unwrap() == std::fs::read(p("b.gpkg")).unwrap(), "GeoPackage reruns differ");
+    assert!(
+        std::fs::read(p("a.gpkg")).unwrap() == std::fs::read(p("b.gpkg")).unwrap(),
+        "GeoPackage reruns differ"
+    );
 }
 
 #[test]
@@ -134,7 +176,10 @@ fn failed_write_leaves_the_old_file_intact() {
     });
     assert!(r.is_err());
     assert_eq!(std::fs::read(&path).unwrap(), b"old contents");
-    let names: Vec<_> = std::fs::read_dir(dir.path()).unwrap().map(|e| e.unwrap().file_name()).collect();
+    let names: Vec<_> = std::fs::read_dir(dir.path())
+        .unwrap()
+        .map(|e| e.unwrap().file_name())
+        .collect();
     assert_eq!(names.len(), 1, "temporary file removed: {names:?}");
 }
 

@@ -41,11 +41,20 @@ fn export_reads_back_with_geojson_crate_with_foreign_members() {
     assert_eq!(fm["reference_frame"]["body"], "Moon");
     assert_eq!(fm["provenance"]["dem_sha256"], "ab".repeat(32));
     assert_eq!(fm["provenance"]["date"], "2025-01-02T03:04:05Z");
-    assert!(fm["provenance"]["criteria_toml"].as_str().unwrap().contains("quietbowl-criteria"));
-    assert!(fm["screening_caution"].as_str().unwrap().starts_with("Screening estimates"));
+    assert!(fm["provenance"]["criteria_toml"]
+        .as_str()
+        .unwrap()
+        .contains("quietbowl-criteria"));
+    assert!(fm["screening_caution"]
+        .as_str()
+        .unwrap()
+        .starts_with("Screening estimates"));
     let bbox = fc.bbox.as_ref().expect("collection bbox");
     // All features lie between 150 E and 170.5 W, across the antimeridian: west > east.
-    assert!(bbox[0] > 149.0 && bbox[0] < 150.0 && bbox[2] > -170.5 && bbox[2] < -170.0, "{bbox:?}");
+    assert!(
+        bbox[0] > 149.0 && bbox[0] < 150.0 && bbox[2] > -170.5 && bbox[2] < -170.0,
+        "{bbox:?}"
+    );
     for feat in &fc.features {
         let p = feat.properties.as_ref().unwrap();
         for key in [
@@ -66,9 +75,17 @@ fn export_reads_back_with_geojson_crate_with_foreign_members() {
         assert!(feat.bbox.is_some());
     }
     // The unmeasured candidate fails on every visibility requirement, with the reason.
-    let unmeasured = fc.features.iter().find(|f| f.id == Some(geojson::feature::Id::Number(5.into()))).unwrap();
-    let fails = unmeasured.properties.as_ref().unwrap()["failed_requirements"].as_array().unwrap();
-    assert!(fails.iter().any(|s| s.as_str() == Some("earth_clearance_deg not measured")));
+    let unmeasured = fc
+        .features
+        .iter()
+        .find(|f| f.id == Some(geojson::feature::Id::Number(5.into())))
+        .unwrap();
+    let fails = unmeasured.properties.as_ref().unwrap()["failed_requirements"]
+        .as_array()
+        .unwrap();
+    assert!(fails
+        .iter()
+        .any(|s| s.as_str() == Some("earth_clearance_deg not measured")));
     assert!(unmeasured.properties.as_ref().unwrap()["earth_clearance_deg"].is_null());
 }
 
@@ -80,7 +97,10 @@ fn every_exterior_ring_is_counter_clockwise_and_closed() {
         for poly in polygons(feat.geometry.as_ref().unwrap()) {
             let ring = &poly[0];
             assert_eq!(ring.first(), ring.last(), "ring closed (RFC 7946 3.1.6)");
-            assert!(area2(ring) > 0.0, "exterior ring counter-clockwise (RFC 7946 3.1.6)");
+            assert!(
+                area2(ring) > 0.0,
+                "exterior ring counter-clockwise (RFC 7946 3.1.6)"
+            );
             assert!(ring.iter().all(|p| (-180.0..=180.0).contains(&p[0])));
         }
     }
@@ -90,7 +110,11 @@ fn every_exterior_ring_is_counter_clockwise_and_closed() {
 fn crater_centred_on_180_is_split_at_the_antimeridian() {
     let f = Fixture::new();
     let fc = parse(&to_geojson_string(&f.set()).unwrap());
-    let feat = fc.features.iter().find(|f| f.id == Some(geojson::feature::Id::Number(1.into()))).unwrap();
+    let feat = fc
+        .features
+        .iter()
+        .find(|f| f.id == Some(geojson::feature::Id::Number(1.into())))
+        .unwrap();
     let parts = polygons(feat.geometry.as_ref().unwrap());
     // RFC 7946 3.1.9: a geometry crossing the antimeridian is cut into parts either side.
     assert_eq!(parts.len(), 2, "MultiPolygon of two parts");
@@ -140,7 +164,11 @@ fn ogrinfo_opens_the_export() {
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("rank.geojson");
     write_geojson(&Fixture::new().set(), &path).unwrap();
-    let out = match Command::new("ogrinfo").args(["-ro", "-al", "-so"]).arg(&path).output() {
+    let out = match Command::new("ogrinfo")
+        .args(["-ro", "-al", "-so"])
+        .arg(&path)
+        .output()
+    {
         Ok(o) => o,
         Err(e) => {
             println!("SKIPPED: ogrinfo not runnable ({e}); GDAL/OGR check not done");
@@ -148,16 +176,31 @@ fn ogrinfo_opens_the_export() {
         }
     };
     let text = String::from_utf8_lossy(&out.stdout);
-    assert!(out.status.success(), "ogrinfo failed: {}", String::from_utf8_lossy(&out.stderr));
+    assert!(
+        out.status.success(),
+        "ogrinfo failed: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
     assert!(text.contains("Feature Count: 5"), "{text}");
     // Polygons and, where split at the antimeridian, multipolygons: GDAL reports the mix.
     assert!(text.contains("Geometry: Unknown (any)"), "{text}");
     assert!(text.contains("diameter_m: Real"), "{text}");
     // Full read of every feature, geometry included: no error.
-    let full = Command::new("ogrinfo").args(["-ro", "-al", "-q"]).arg(&path).output().unwrap();
-    assert!(full.status.success() && full.stderr.is_empty(), "{}", String::from_utf8_lossy(&full.stderr));
+    let full = Command::new("ogrinfo")
+        .args(["-ro", "-al", "-q"])
+        .arg(&path)
+        .output()
+        .unwrap();
+    assert!(
+        full.status.success() && full.stderr.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&full.stderr)
+    );
     let shown = String::from_utf8_lossy(&full.stdout);
-    assert!(shown.contains("MULTIPOLYGON (((") && shown.contains("  POLYGON (("), "{shown}");
+    assert!(
+        shown.contains("MULTIPOLYGON (((") && shown.contains("  POLYGON (("),
+        "{shown}"
+    );
 }
 
 #[test]

@@ -6,7 +6,9 @@ mod common;
 use common::{criteria, good, survey, with_crater, with_vis};
 use proptest::prelude::*;
 use siting::utility::utility;
-use siting::{rank, Criteria, PreparedTable, ScoreMethod, SitingError, SoftCriterion, UtilityShape};
+use siting::{
+    rank, Criteria, PreparedTable, ScoreMethod, SitingError, SoftCriterion, UtilityShape,
+};
 
 const TWO: &str = r#"
 [[requirement]]
@@ -66,7 +68,9 @@ fn linear_and_breakpoint_utilities_match_hand_values() {
         metric: "depth_to_diameter".into(),
         worst: 0.3,
         ideal: 0.2,
-        shape: UtilityShape::Breakpoints { points: vec![[0.15, 0.0], [0.2, 1.0], [0.3, 0.0]] },
+        shape: UtilityShape::Breakpoints {
+            points: vec![[0.15, 0.0], [0.2, 1.0], [0.3, 0.0]],
+        },
         weight: 1.0,
         why: String::new(),
     };
@@ -88,7 +92,11 @@ fn weighted_sum_ranking_matches_hand_worked_example() {
     // Scores: A 0.6 + 0.1 = 0.7; B 0.375 + 0.25 = 0.625; C 0.75; D 0.525 + 0.05 = 0.575; E 0.7.
     let expect = [0.7, 0.625, 0.75, 0.575, 0.7];
     for (i, e) in expect.iter().enumerate() {
-        assert!((r.scores[i] - e).abs() < 1e-12, "candidate {i}: {} vs {e}", r.scores[i]);
+        assert!(
+            (r.scores[i] - e).abs() < 1e-12,
+            "candidate {i}: {} vs {e}",
+            r.scores[i]
+        );
     }
     // Passing first (C, A, B), then failing by score, E (0.7) before D (0.575).
     let ids: Vec<u32> = r.entries(&t).map(|e| e.id()).collect();
@@ -104,7 +112,10 @@ fn failed_requirements_list_every_bound_and_margin() {
     let d = t.failures(3);
     assert_eq!(d.len(), 1);
     // 2300 - 2000 = 300 above the max.
-    assert_eq!((d[0].metric.as_str(), d[0].value, d[0].margin), ("diameter_m", Some(2300.0), Some(300.0)));
+    assert_eq!(
+        (d[0].metric.as_str(), d[0].value, d[0].margin),
+        ("diameter_m", Some(2300.0), Some(300.0))
+    );
     assert_eq!(d[0].describe(), "diameter_m 2300 above max 2000 by 300");
     // 800 - 700 = 100 below the min.
     assert_eq!(t.failures(4)[0].margin, Some(100.0));
@@ -167,7 +178,11 @@ fn pareto_flags_match_hand_checked_set() {
 
 #[test]
 fn ties_are_broken_by_candidate_id() {
-    let s = survey(vec![good(9, 180.0, 0.0), good(3, 181.0, 0.0), good(7, 182.0, 0.0)]);
+    let s = survey(vec![
+        good(9, 180.0, 0.0),
+        good(3, 181.0, 0.0),
+        good(7, 182.0, 0.0),
+    ]);
     let c = criteria(TWO);
     let t = PreparedTable::new(&s, &c).unwrap();
     let r = rank(&t, &c).unwrap();
@@ -184,7 +199,10 @@ fn weight_change_reranks_without_rebuilding_but_shape_change_needs_refresh() {
     c.criteria[0].weight = 1.0;
     c.criteria[1].weight = 3.0;
     let r = rank(&t, &c).unwrap();
-    assert_eq!(r.entries(&t).take(3).map(|e| e.id()).collect::<Vec<_>>(), vec![10, 30, 20]);
+    assert_eq!(
+        r.entries(&t).take(3).map(|e| e.id()).collect::<Vec<_>>(),
+        vec![10, 30, 20]
+    );
     c.criteria[0].worst = 20.0;
     assert!(matches!(rank(&t, &c), Err(SitingError::StaleTable(_))));
     assert!(t.refresh(&s, &c).unwrap());

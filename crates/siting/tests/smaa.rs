@@ -38,7 +38,13 @@ fn trade_off(us: &[(f64, f64)]) -> survey::SurveyFile {
 }
 
 fn settings(samples: usize, sampling: WeightSampling, top_n: usize) -> RobustnessSettings {
-    RobustnessSettings { samples, seed: 42, sampling, top_n, pool: 1000 }
+    RobustnessSettings {
+        samples,
+        seed: 42,
+        sampling,
+        top_n,
+        pool: 1000,
+    }
 }
 
 #[test]
@@ -67,7 +73,10 @@ fn dominating_candidate_ranks_first_under_every_weight() {
     let s = trade_off(&[(0.9, 0.9), (0.8, 0.5), (0.5, 0.8), (0.1, 0.1)]);
     let c = criteria(TWO);
     let t = PreparedTable::new(&s, &c).unwrap();
-    for sampling in [WeightSampling::UniformSimplex, WeightSampling::AroundChosen { spread: 0.9 }] {
+    for sampling in [
+        WeightSampling::UniformSimplex,
+        WeightSampling::AroundChosen { spread: 0.9 },
+    ] {
         let r = smaa_with(&t, &c, &settings(2000, sampling, 2)).unwrap();
         assert_eq!(r.probabilities(0), Some((1.0, 1.0)));
         // Candidate 3 is dominated by everyone: never in the top 2.
@@ -98,8 +107,13 @@ fn uniform_simplex_acceptabilities_match_hand_derivation() {
     assert_eq!(p(2).1, 1.0);
     assert!((p(0).1 - 0.5).abs() < tol, "{:?}", p(0));
     // Central weight of A: mean of (w, 1 - w) over w in (0.6, 1]: (0.8, 0.2).
-    let cw = r.central_weights[r.pool.iter().position(|&i| i == 0).unwrap()].clone().unwrap();
-    assert!((cw[0] - 0.8).abs() < 0.01 && (cw[1] - 0.2).abs() < 0.01, "{cw:?}");
+    let cw = r.central_weights[r.pool.iter().position(|&i| i == 0).unwrap()]
+        .clone()
+        .unwrap();
+    assert!(
+        (cw[0] - 0.8).abs() < 0.01 && (cw[1] - 0.2).abs() < 0.01,
+        "{cw:?}"
+    );
 }
 
 #[test]
@@ -111,7 +125,12 @@ fn around_chosen_weights_stay_within_the_spread() {
     let s = trade_off(&[(1.0, 0.0), (0.0, 1.0), (0.6, 0.6)]);
     let c = criteria(TWO);
     let t = PreparedTable::new(&s, &c).unwrap();
-    let r = smaa_with(&t, &c, &settings(3000, WeightSampling::AroundChosen { spread: 0.2 }, 1)).unwrap();
+    let r = smaa_with(
+        &t,
+        &c,
+        &settings(3000, WeightSampling::AroundChosen { spread: 0.2 }, 1),
+    )
+    .unwrap();
     assert_eq!(r.probabilities(2), Some((1.0, 1.0)));
 }
 
@@ -119,7 +138,9 @@ fn around_chosen_weights_stay_within_the_spread() {
 fn failing_candidates_are_left_out_of_the_pool() {
     let mut s = trade_off(&[(0.9, 0.9), (0.5, 0.5)]);
     s.candidates[0].crater.diameter_m = 5000.0;
-    let c = criteria(&format!("[[requirement]]\nmetric = \"diameter_m\"\nmax = 2000.0\n{TWO}"));
+    let c = criteria(&format!(
+        "[[requirement]]\nmetric = \"diameter_m\"\nmax = 2000.0\n{TWO}"
+    ));
     let t = PreparedTable::new(&s, &c).unwrap();
     let r = smaa(&t, &c).unwrap();
     assert_eq!(r.pool, vec![1]);

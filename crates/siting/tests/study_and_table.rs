@@ -9,8 +9,16 @@ use siting::{Criteria, SitingError, SCREENING_CAUTION};
 
 fn study() -> Study {
     let mut s = Study::new(common::random_survey(20, 5), Criteria::default_reflector());
-    s.review(3, Decision::Accepted, "rim anchors look good on the hillshade");
-    s.review(7, Decision::Rejected, "boulder field on the floor, \"see\" notes");
+    s.review(
+        3,
+        Decision::Accepted,
+        "rim anchors look good on the hillshade",
+    );
+    s.review(
+        7,
+        Decision::Rejected,
+        "boulder field on the floor, \"see\" notes",
+    );
     s
 }
 
@@ -26,7 +34,10 @@ fn study_saves_and_reopens_unchanged() {
     // Saving again gives the same bytes.
     let again = dir.path().join("again.json");
     back.save(&again).unwrap();
-    assert_eq!(std::fs::read(&path).unwrap(), std::fs::read(&again).unwrap());
+    assert_eq!(
+        std::fs::read(&path).unwrap(),
+        std::fs::read(&again).unwrap()
+    );
 }
 
 fn with_version(v: serde_json::Value) -> String {
@@ -38,7 +49,9 @@ fn with_version(v: serde_json::Value) -> String {
 #[test]
 fn older_layout_is_refused_with_the_reason() {
     match Study::from_json(&with_version(serde_json::json!(0))) {
-        Err(StudyError::CannotMigrate { found: 0, reason }) => assert!(reason.contains("predates"), "{reason}"),
+        Err(StudyError::CannotMigrate { found: 0, reason }) => {
+            assert!(reason.contains("predates"), "{reason}")
+        }
         other => panic!("expected a refusal, got {other:?}"),
     }
 }
@@ -54,9 +67,18 @@ fn newer_layout_is_refused_with_the_reason() {
 fn missing_version_and_foreign_files_are_refused() {
     let mut j: serde_json::Value = serde_json::from_str(&study().to_json().unwrap()).unwrap();
     j.as_object_mut().unwrap().remove("schema_version");
-    assert!(matches!(Study::from_json(&j.to_string()), Err(StudyError::NoVersion)));
-    assert!(matches!(Study::from_json("{\"type\":\"FeatureCollection\"}"), Err(StudyError::NotAStudy { .. })));
-    assert!(matches!(Study::from_json("not json"), Err(StudyError::Json(_))));
+    assert!(matches!(
+        Study::from_json(&j.to_string()),
+        Err(StudyError::NoVersion)
+    ));
+    assert!(matches!(
+        Study::from_json("{\"type\":\"FeatureCollection\"}"),
+        Err(StudyError::NotAStudy { .. })
+    ));
+    assert!(matches!(
+        Study::from_json("not json"),
+        Err(StudyError::Json(_))
+    ));
     let e = Study::open(std::path::Path::new("/nonexistent/x.json")).unwrap_err();
     assert!(matches!(e, SitingError::Read { .. }));
 }
@@ -65,10 +87,16 @@ fn missing_version_and_foreign_files_are_refused() {
 fn edited_study_with_inconsistent_checksum_or_criteria_is_refused() {
     let mut j: serde_json::Value = serde_json::from_str(&study().to_json().unwrap()).unwrap();
     j["dem_sha256"] = serde_json::json!("00");
-    assert!(matches!(Study::from_json(&j.to_string()), Err(StudyError::ChecksumMismatch { .. })));
+    assert!(matches!(
+        Study::from_json(&j.to_string()),
+        Err(StudyError::ChecksumMismatch { .. })
+    ));
     let mut j: serde_json::Value = serde_json::from_str(&study().to_json().unwrap()).unwrap();
     j["criteria"]["criteria"][0]["weight"] = serde_json::json!(-1.0);
-    assert!(matches!(Study::from_json(&j.to_string()), Err(StudyError::Criteria(_))));
+    assert!(matches!(
+        Study::from_json(&j.to_string()),
+        Err(StudyError::Criteria(_))
+    ));
 }
 
 #[test]
@@ -77,13 +105,16 @@ fn table_lists_the_columns_rows_failures_and_caution() {
     let text = render_table(&f.survey, &f.table, &f.ranking, Some(&f.smaa), 10);
     let lines: Vec<&str> = text.lines().collect();
     for col in [
-        "rank", "id", "lon_deg", "lat_deg", "diam_m", "d/D", "compl", "tilt", "earth", "gc_sep", "score", "pass",
-        "P(1)",
+        "rank", "id", "lon_deg", "lat_deg", "diam_m", "d/D", "compl", "tilt", "earth", "gc_sep",
+        "score", "pass", "P(1)",
     ] {
         assert!(lines[0].contains(col), "header lacks {col}: {}", lines[0]);
     }
     assert!(lines[1].trim_start().starts_with("1 "));
-    assert!(text.contains("id 5: earth_clearance_deg not measured"), "{text}");
+    assert!(
+        text.contains("id 5: earth_clearance_deg not measured"),
+        "{text}"
+    );
     assert_eq!(lines.last().copied(), Some(SCREENING_CAUTION));
     // The longitude of the crater on 180 prints in -180..180.
     assert!(text.contains("-180.0000"), "{text}");

@@ -16,8 +16,13 @@ fn bench(c: &mut Criterion) {
     let crater = common::measured(centre, common::crest_radius(radius), shape);
     let spec = StructureSpec::default();
     let f = fit(&grid, &crater, &spec).expect("fit");
-    println!("fit_ok {} min clearance {} m headroom {} m max span {} m", f.fit_ok, f.min_clearance_m, f.headroom_m, f.max_span_m);
-    c.bench_function("fit_350m_dish_in_1500m_crater", |b| b.iter(|| fit(&grid, &crater, &spec).map(|f| f.fit_ok)));
+    println!(
+        "fit_ok {} min clearance {} m headroom {} m max span {} m",
+        f.fit_ok, f.min_clearance_m, f.headroom_m, f.max_span_m
+    );
+    c.bench_function("fit_350m_dish_in_1500m_crater", |b| {
+        b.iter(|| fit(&grid, &crater, &spec).map(|f| f.fit_ok))
+    });
 }
 
 criterion_group!(benches, bench);

@@ -27,25 +27,49 @@ const OUTLINE_POINTS: usize = 72;
 /// anchor, and reports clearance, anchors, spans and any excavation. A structure that does not
 /// fit is an `Ok` with `fit_ok = false` and the reasons; `Err` is kept for a bad spec, a crater
 /// without a traced rim, or a grid with no data there.
-pub fn fit(grid: &ElevationGrid, crater: &CraterMeasurement, spec: &StructureSpec) -> Result<StructureFit, StructureError> {
+pub fn fit(
+    grid: &ElevationGrid,
+    crater: &CraterMeasurement,
+    spec: &StructureSpec,
+) -> Result<StructureFit, StructureError> {
     spec.validate()?;
     let (lon, lat) = (crater.centre_lon_deg, crater.centre_lat_deg);
-    if !(lon.is_finite() && lat.is_finite() && crater.diameter_m.is_finite() && crater.diameter_m > 0.0) {
-        return Err(StructureError::Crater(format!("centre ({lon}, {lat}) or diameter {} m is not usable", crater.diameter_m)));
+    if !(lon.is_finite()
+        && lat.is_finite()
+        && crater.diameter_m.is_finite()
+        && crater.diameter_m > 0.0)
+    {
+        return Err(StructureError::Crater(format!(
+            "centre ({lon}, {lat}) or diameter {} m is not usable",
+            crater.diameter_m
+        )));
     }
     let crest = Crest::from_measurement(crater)?;
     let a = spec.aperture_radius_m();
     let pixel_m = pixel_size_m(grid, lon, lat)?;
-    let half = (1.05 * crest.max_radius_m()).max(crate::placement::MAX_OFFSET_FRAC * crater.diameter_m + a);
-    let cell = pixel_m.max(a / MIN_CELLS_PER_RADIUS).max(2.0 * half / (MAX_PATCH_NODES - 5.0));
-    let patch = Patch::build(grid, lon, lat, half + 2.0 * cell, cell).ok_or(StructureError::Geometry { lon_deg: lon, lat_deg: lat })?;
+    let half = (1.05 * crest.max_radius_m())
+        .max(crate::placement::MAX_OFFSET_FRAC * crater.diameter_m + a);
+    let cell = pixel_m
+        .max(a / MIN_CELLS_PER_RADIUS)
+        .max(2.0 * half / (MAX_PATCH_NODES - 5.0));
+    let patch =
+        Patch::build(grid, lon, lat, half + 2.0 * cell, cell).ok_or(StructureError::Geometry {
+            lon_deg: lon,
+            lat_deg: lat,
+        })?;
     if patch.heights_m.iter().all(|h| h.is_nan()) {
-        return Err(StructureError::NoData { lon_deg: lon, lat_deg: lat });
+        return Err(StructureError::NoData {
+            lon_deg: lon,
+            lat_deg: lat,
+        });
     }
     let mut ctx = Ctx::new(&patch, &crest, spec, crater.diameter_m);
     let best = ctx.search();
     if best.vertical.valid == 0 {
-        return Err(StructureError::NoData { lon_deg: lon, lat_deg: lat });
+        return Err(StructureError::NoData {
+            lon_deg: lon,
+            lat_deg: lat,
+        });
     }
     let mut out = assemble(&ctx, &best);
     out.clearance_map = clearance_map(grid, &out, spec, CLEARANCE_MAP_CELLS)?;
@@ -54,10 +78,25 @@ pub fn fit(grid: &ElevationGrid, crater: &CraterMeasurement, spec: &StructureSpe
 
 fn pixel_size_m(grid: &ElevationGrid, lon: f64, lat: f64) -> Result<f64, StructureError> {
     let geom = &grid.geometry;
-    let (c, r) = geom.lonlat_to_pixel(lon, lat).ok_or(StructureError::Geometry { lon_deg: lon, lat_deg: lat })?;
-    let (px, py) = geom.pixel_size_m_at(c, r).ok_or(StructureError::Geometry { lon_deg: lon, lat_deg: lat })?;
+    let (c, r) = geom
+        .lonlat_to_pixel(lon, lat)
+        .ok_or(StructureError::Geometry {
+            lon_deg: lon,
+            lat_deg: lat,
+        })?;
+    let (px, py) = geom.pixel_size_m_at(c, r).ok_or(StructureError::Geometry {
+        lon_deg: lon,
+        lat_deg: lat,
+    })?;
     let p = px.min(py);
-    if p.is_finite() && p > 0.0 { Ok(p) } else { Err(StructureError::Geometry { lon_deg: lon, lat_deg: lat }) }
+    if p.is_finite() && p > 0.0 {
+        Ok(p)
+    } else {
+        Err(StructureError::Geometry {
+            lon_deg: lon,
+            lat_deg: lat,
+        })
+    }
 }
 
 fn assemble(ctx: &Ctx, p: &Placement) -> StructureFit {
@@ -73,8 +112,19 @@ fn assemble(ctx: &Ctx, p: &Placement) -> StructureFit {
         .iter()
         .map(|a| {
             let (lon, lat) = frame.to_lonlat(a.x_m, a.y_m);
-            let span_m = if a.height_m.is_finite() { (a.reach_m - ctx.a_m).hypot(a.height_m - edge_z) } else { f64::NAN };
-            Anchor { lon_deg: lon, lat_deg: lat, azimuth_deg: a.azimuth_deg, height_m: a.height_m, span_m, on_crest: a.on_crest }
+            let span_m = if a.height_m.is_finite() {
+                (a.reach_m - ctx.a_m).hypot(a.height_m - edge_z)
+            } else {
+                f64::NAN
+            };
+            Anchor {
+                lon_deg: lon,
+                lat_deg: lat,
+                azimuth_deg: a.azimuth_deg,
+                height_m: a.height_m,
+                span_m,
+                on_crest: a.on_crest,
+            }
         })
         .collect();
     let valid_fraction = p.vertical.valid as f64 / p.vertical.total.max(1) as f64;
@@ -86,9 +136,17 @@ fn assemble(ctx: &Ctx, p: &Placement) -> StructureFit {
             spec.aperture_m, p.vertical.intrusion_m
         ));
     }
-    let off: Vec<String> = anchors.iter().enumerate().filter(|(_, a)| !a.on_crest).map(|(i, _)| (i + 1).to_string()).collect();
+    let off: Vec<String> = anchors
+        .iter()
+        .enumerate()
+        .filter(|(_, a)| !a.on_crest)
+        .map(|(i, _)| (i + 1).to_string())
+        .collect();
     if !off.is_empty() {
-        reasons.push(format!("anchor {} would stand where no rim crest was traced (a breach, a gap or no data)", off.join(", ")));
+        reasons.push(format!(
+            "anchor {} would stand where no rim crest was traced (a breach, a gap or no data)",
+            off.join(", ")
+        ));
     }
     if valid_fraction < MIN_APERTURE_VALID_FRACTION {
         reasons.push(format!("only {:.0}% of the aperture has elevation data: the clearance over the rest is unknown", 100.0 * valid_fraction));
@@ -137,7 +195,11 @@ fn outline(frame: &terrain::LocalFrame, d: (f64, f64), a: f64) -> Vec<(f64, f64)
             frame.to_lonlat(d.0 + a * az.sin(), d.1 + a * az.cos())
         })
         .collect();
-    let (lo, hi) = pts.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), p| (l.min(p.0), h.max(p.0)));
+    let (lo, hi) = pts
+        .iter()
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), p| {
+            (l.min(p.0), h.max(p.0))
+        });
     if hi - lo > 180.0 {
         for p in &mut pts {
             p.0 = p.0.rem_euclid(360.0);
@@ -149,7 +211,12 @@ fn outline(frame: &terrain::LocalFrame, d: (f64, f64), a: f64) -> Vec<(f64, f64)
 /// Clearance of the placed surface over its aperture on a `cells` x `cells` grid (2 to 512),
 /// resampled from `grid` around the aperture centre of `fit` (see [`ClearanceMap`]).
 /// The survey keeps a 24 x 24 map; the GUI may ask for a finer one.
-pub fn clearance_map(grid: &ElevationGrid, fit: &StructureFit, spec: &StructureSpec, cells: usize) -> Result<ClearanceMap, StructureError> {
+pub fn clearance_map(
+    grid: &ElevationGrid,
+    fit: &StructureFit,
+    spec: &StructureSpec,
+    cells: usize,
+) -> Result<ClearanceMap, StructureError> {
     spec.validate()?;
     let (lon, lat) = (fit.centre_lon_deg, fit.centre_lat_deg);
     let cells = cells.clamp(2, 512);
@@ -157,8 +224,18 @@ pub fn clearance_map(grid: &ElevationGrid, fit: &StructureFit, spec: &StructureS
     let cell_m = spec.aperture_m / cells as f64;
     // Posts finer than half a map cell add nothing to a bilinear sample at the cell centre.
     let step_m = pixel_size_m(grid, lon, lat)?.max(0.5 * cell_m);
-    let patch = Patch::build(grid, lon, lat, a + 2.0 * step_m, step_m).ok_or(StructureError::Geometry { lon_deg: lon, lat_deg: lat })?;
-    let mut map = ClearanceMap { centre_lon_deg: lon, centre_lat_deg: lat, cell_m, size: cells, values_m: vec![f32::NAN; cells * cells] };
+    let patch =
+        Patch::build(grid, lon, lat, a + 2.0 * step_m, step_m).ok_or(StructureError::Geometry {
+            lon_deg: lon,
+            lat_deg: lat,
+        })?;
+    let mut map = ClearanceMap {
+        centre_lon_deg: lon,
+        centre_lat_deg: lat,
+        cell_m,
+        size: cells,
+        values_m: vec![f32::NAN; cells * cells],
+    };
     for row in 0..cells {
         for col in 0..cells {
             let (x, y) = map.cell_centre_xy_m(col, row);

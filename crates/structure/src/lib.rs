@@ -42,6 +42,6 @@ pub use error::StructureError;
 pub use fit::{clearance_map, fit, CLEARANCE_MAP_CELLS};
 pub use result::{Anchor, ClearanceMap, FitMetric, StructureFit, FIT_METRICS};
 pub use spec::{
-    Shape, StructureSpec, DEFAULT_ANCHORS, DEFAULT_APERTURE_M, DEFAULT_F_OVER_D, DEFAULT_MAX_ANCHOR_HEIGHT_DIFFERENCE_M,
-    DEFAULT_MIN_CLEARANCE_M, MAX_ANCHORS, MIN_ANCHORS,
+    Shape, StructureSpec, DEFAULT_ANCHORS, DEFAULT_APERTURE_M, DEFAULT_F_OVER_D,
+    DEFAULT_MAX_ANCHOR_HEIGHT_DIFFERENCE_M, DEFAULT_MIN_CLEARANCE_M, MAX_ANCHORS, MIN_ANCHORS,
 };

@@ -30,7 +30,13 @@ pub struct Patch {
 impl Patch {
     /// Resample `grid` around (lon, lat) over the square of half-side `half_m` at `cell_m`.
     /// `None` when the projection cannot place the frame on the grid.
-    pub fn build(grid: &ElevationGrid, lon_deg: f64, lat_deg: f64, half_m: f64, cell_m: f64) -> Option<Patch> {
+    pub fn build(
+        grid: &ElevationGrid,
+        lon_deg: f64,
+        lat_deg: f64,
+        half_m: f64,
+        cell_m: f64,
+    ) -> Option<Patch> {
         let geom = &grid.geometry;
         let frame = LocalFrame::new(geom.body_radius_m, lon_deg, lat_deg);
         let steps = (half_m / cell_m).ceil() as usize;
@@ -75,13 +81,22 @@ impl Patch {
                 heights_m.push(grid.sample(c - col0, r - row0).unwrap_or(f64::NAN));
             }
         }
-        Some(Patch { frame, cell_m, half_m, n, heights_m })
+        Some(Patch {
+            frame,
+            cell_m,
+            half_m,
+            n,
+            heights_m,
+        })
     }
 
     /// Lattice index (i, j) and position of node k.
     #[inline]
     pub fn node_xy(&self, i: usize, j: usize) -> (f64, f64) {
-        (-self.half_m + i as f64 * self.cell_m, -self.half_m + j as f64 * self.cell_m)
+        (
+            -self.half_m + i as f64 * self.cell_m,
+            -self.half_m + j as f64 * self.cell_m,
+        )
     }
 
     /// Bilinear height at local (x, y); NaN outside the lattice or next to missing data.
@@ -96,7 +111,10 @@ impl Patch {
         let (s, t) = (u - i as f64, v - j as f64);
         let k = j * self.n + i;
         let h = &self.heights_m;
-        h[k] * (1.0 - s) * (1.0 - t) + h[k + 1] * s * (1.0 - t) + h[k + self.n] * (1.0 - s) * t + h[k + self.n + 1] * s * t
+        h[k] * (1.0 - s) * (1.0 - t)
+            + h[k + 1] * s * (1.0 - t)
+            + h[k + self.n] * (1.0 - s) * t
+            + h[k + self.n + 1] * s * t
     }
 }
 

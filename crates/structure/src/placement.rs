@@ -84,7 +84,12 @@ pub struct Placement {
 }
 
 impl<'a> Ctx<'a> {
-    pub fn new(patch: &'a Patch, crest: &'a Crest, spec: &'a StructureSpec, crater_diameter_m: f64) -> Ctx<'a> {
+    pub fn new(
+        patch: &'a Patch,
+        crest: &'a Crest,
+        spec: &'a StructureSpec,
+        crater_diameter_m: f64,
+    ) -> Ctx<'a> {
         let edge_dirs = (0..EDGE_POINTS)
             .map(|k| {
                 let t = k as f64 * std::f64::consts::TAU / EDGE_POINTS as f64;
@@ -126,7 +131,12 @@ impl<'a> Ctx<'a> {
                 let (x, y) = self.patch.node_xy(i, j);
                 let r2 = (x - d.0).powi(2) + (y - d.1).powi(2);
                 if r2 <= a2 {
-                    f(x, y, self.patch.heights_m[j * self.patch.n + i], self.spec.sag_m(r2));
+                    f(
+                        x,
+                        y,
+                        self.patch.heights_m[j * self.patch.n + i],
+                        self.spec.sag_m(r2),
+                    );
                 }
             }
         }
@@ -147,7 +157,12 @@ impl<'a> Ctx<'a> {
         });
         // The vertex and the edge rarely fall on lattice nodes, and either may be where the
         // clearance binds (a level floor, a bowl more curved than the dish).
-        let extra = std::iter::once((d, 0.0)).chain(self.edge_dirs.iter().map(|u| ((d.0 + self.a_m * u.0, d.1 + self.a_m * u.1), self.edge_sag_m)));
+        let extra = std::iter::once((d, 0.0)).chain(self.edge_dirs.iter().map(|u| {
+            (
+                (d.0 + self.a_m * u.0, d.1 + self.a_m * u.1),
+                self.edge_sag_m,
+            )
+        }));
         for ((x, y), sag) in extra {
             let g = self.patch.sample(x, y);
             total += 1;
@@ -160,7 +175,13 @@ impl<'a> Ctx<'a> {
             }
         }
         let intrusion_m = (self.a_m - self.crest.signed_distance_m(d)).max(0.0);
-        Vertical { vertex_lo_m: if valid > 0 { lo } else { f64::NAN }, binding_xy: at, valid, total, intrusion_m }
+        Vertical {
+            vertex_lo_m: if valid > 0 { lo } else { f64::NAN },
+            binding_xy: at,
+            valid,
+            total,
+            intrusion_m,
+        }
     }
 
     pub fn anchors(&self, d: (f64, f64), rotation_deg: f64) -> Vec<AnchorAt> {
@@ -172,9 +193,23 @@ impl<'a> Ctx<'a> {
                     Some(h) => {
                         let height_m = self.patch.sample(h.x_m, h.y_m);
                         let on_crest = height_m.is_finite() && !self.crest.in_gap((h.x_m, h.y_m));
-                        AnchorAt { x_m: h.x_m, y_m: h.y_m, azimuth_deg: az, reach_m: h.t_m, height_m, on_crest }
+                        AnchorAt {
+                            x_m: h.x_m,
+                            y_m: h.y_m,
+                            azimuth_deg: az,
+                            reach_m: h.t_m,
+                            height_m,
+                            on_crest,
+                        }
                     }
-                    None => AnchorAt { x_m: d.0, y_m: d.1, azimuth_deg: az, reach_m: 0.0, height_m: f64::NAN, on_crest: false },
+                    None => AnchorAt {
+                        x_m: d.0,
+                        y_m: d.1,
+                        azimuth_deg: az,
+                        reach_m: 0.0,
+                        height_m: f64::NAN,
+                        on_crest: false,
+                    },
                 }
             })
             .collect()
@@ -205,8 +240,16 @@ impl<'a> Ctx<'a> {
 
     pub fn score(&self, d: (f64, f64), rotation_deg: f64, vertical: Vertical) -> Placement {
         let anchors = self.anchors(d, rotation_deg);
-        let heights: Vec<f64> = anchors.iter().map(|a| a.height_m).filter(|h| h.is_finite()).collect();
-        let (lowest, highest) = heights.iter().fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), &v| (l.min(v), h.max(v)));
+        let heights: Vec<f64> = anchors
+            .iter()
+            .map(|a| a.height_m)
+            .filter(|h| h.is_finite())
+            .collect();
+        let (lowest, highest) = heights
+            .iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(l, h), &v| {
+                (l.min(v), h.max(v))
+            });
         let vertex_hi = lowest - self.edge_sag_m;
         let headroom_m = vertex_hi - vertical.vertex_lo_m;
         let (vertex_m, excavation_m3) = if !headroom_m.is_finite() {
@@ -226,7 +269,11 @@ impl<'a> Ctx<'a> {
             offset: d,
             rotation_deg: rotation_deg.rem_euclid(self.period_deg()),
             vertical,
-            spread_m: if heights.is_empty() { f64::NAN } else { highest - lowest },
+            spread_m: if heights.is_empty() {
+                f64::NAN
+            } else {
+                highest - lowest
+            },
             bad_anchors: anchors.iter().filter(|a| !a.on_crest).count(),
             anchors,
             vertex_m,
@@ -239,7 +286,11 @@ impl<'a> Ctx<'a> {
     /// Keys in order of importance, smaller is better; NaN counts as worst.
     fn keys(&self, p: &Placement) -> [f64; 7] {
         let w = |v: f64| if v.is_nan() { f64::INFINITY } else { v };
-        let spread_excess = if self.rank_spread { w((p.spread_m - self.spec.max_anchor_height_difference_m).max(0.0)) } else { 0.0 };
+        let spread_excess = if self.rank_spread {
+            w((p.spread_m - self.spec.max_anchor_height_difference_m).max(0.0))
+        } else {
+            0.0
+        };
         [
             w(p.vertical.intrusion_m),
             p.bad_anchors as f64,
@@ -314,7 +365,14 @@ impl<'a> Ctx<'a> {
             let (d, r) = (best.offset, best.rotation_deg);
             let mut moved: Option<Placement> = None;
             let sm = if step_m >= min_step_m { step_m } else { 0.0 };
-            let moves = [(sm, 0.0, 0.0), (-sm, 0.0, 0.0), (0.0, sm, 0.0), (0.0, -sm, 0.0), (0.0, 0.0, step_deg), (0.0, 0.0, -step_deg)];
+            let moves = [
+                (sm, 0.0, 0.0),
+                (-sm, 0.0, 0.0),
+                (0.0, sm, 0.0),
+                (0.0, -sm, 0.0),
+                (0.0, 0.0, step_deg),
+                (0.0, 0.0, -step_deg),
+            ];
             for (k, &(dx, dy, dr)) in moves.iter().enumerate() {
                 if (k < 4 && sm == 0.0) || (k >= 4 && step_deg < 0.05) {
                     continue;
@@ -323,7 +381,11 @@ impl<'a> Ctx<'a> {
                 if nd.0.hypot(nd.1) > self.max_offset_m + 1e-9 {
                     continue;
                 }
-                let v = if k < 4 { self.vertical(nd) } else { best.vertical };
+                let v = if k < 4 {
+                    self.vertical(nd)
+                } else {
+                    best.vertical
+                };
                 let p = self.score(nd, r + dr, v);
                 let reference = moved.as_ref().unwrap_or(&best);
                 if self.better(&p, reference) {

@@ -40,18 +40,24 @@ impl ClearanceMap {
     /// Local (x east, y north) metres of the centre of cell (col, row).
     pub fn cell_centre_xy_m(&self, col: usize, row: usize) -> (f64, f64) {
         let h = self.size as f64 / 2.0;
-        ((col as f64 + 0.5 - h) * self.cell_m, (h - row as f64 - 0.5) * self.cell_m)
+        (
+            (col as f64 + 0.5 - h) * self.cell_m,
+            (h - row as f64 - 0.5) * self.cell_m,
+        )
     }
 
     /// Lon/lat of the centre of cell (col, row) on a sphere of `body_radius_m`.
     pub fn cell_centre_lonlat(&self, body_radius_m: f64, col: usize, row: usize) -> (f64, f64) {
         let (x, y) = self.cell_centre_xy_m(col, row);
-        terrain::LocalFrame::new(body_radius_m, self.centre_lon_deg, self.centre_lat_deg).to_lonlat(x, y)
+        terrain::LocalFrame::new(body_radius_m, self.centre_lon_deg, self.centre_lat_deg)
+            .to_lonlat(x, y)
     }
 
     /// Clearance of cell (col, row), `None` outside the aperture or the map.
     pub fn get(&self, col: usize, row: usize) -> Option<f32> {
-        (col < self.size && row < self.size).then(|| self.values_m[row * self.size + col]).filter(|v| !v.is_nan())
+        (col < self.size && row < self.size)
+            .then(|| self.values_m[row * self.size + col])
+            .filter(|v| !v.is_nan())
     }
 }
 
@@ -113,19 +119,58 @@ pub struct FitMetric {
 
 /// The fit metrics meant for the survey and the ranking, in table order.
 pub static FIT_METRICS: &[FitMetric] = &[
-    FitMetric { name: "fit_ok", unit: "", description: "1 if the structure fits with every requirement met, else 0", get: |f| if f.fit_ok { 1.0 } else { 0.0 } },
-    FitMetric { name: "min_clearance_m", unit: "m", description: "smallest gap between the placed surface and the ground under it", get: |f| f.min_clearance_m },
-    FitMetric { name: "headroom_m", unit: "m", description: "how far the surface could rise before its edge reaches the lowest anchor", get: |f| f.headroom_m },
-    FitMetric { name: "anchor_height_spread_m", unit: "m", description: "highest minus lowest rim anchor", get: |f| f.anchor_height_spread_m },
-    FitMetric { name: "max_span_m", unit: "m", description: "longest straight span from a rim anchor to the aperture edge", get: |f| f.max_span_m },
-    FitMetric { name: "excavation_m3", unit: "m3", description: "ground to remove to reach the clearance", get: |f| f.excavation_m3 },
-    FitMetric { name: "offset_from_crater_centre_m", unit: "m", description: "distance of the structure's axis from the crater centre", get: |f| f.offset_from_crater_centre_m },
+    FitMetric {
+        name: "fit_ok",
+        unit: "",
+        description: "1 if the structure fits with every requirement met, else 0",
+        get: |f| if f.fit_ok { 1.0 } else { 0.0 },
+    },
+    FitMetric {
+        name: "min_clearance_m",
+        unit: "m",
+        description: "smallest gap between the placed surface and the ground under it",
+        get: |f| f.min_clearance_m,
+    },
+    FitMetric {
+        name: "headroom_m",
+        unit: "m",
+        description: "how far the surface could rise before its edge reaches the lowest anchor",
+        get: |f| f.headroom_m,
+    },
+    FitMetric {
+        name: "anchor_height_spread_m",
+        unit: "m",
+        description: "highest minus lowest rim anchor",
+        get: |f| f.anchor_height_spread_m,
+    },
+    FitMetric {
+        name: "max_span_m",
+        unit: "m",
+        description: "longest straight span from a rim anchor to the aperture edge",
+        get: |f| f.max_span_m,
+    },
+    FitMetric {
+        name: "excavation_m3",
+        unit: "m3",
+        description: "ground to remove to reach the clearance",
+        get: |f| f.excavation_m3,
+    },
+    FitMetric {
+        name: "offset_from_crater_centre_m",
+        unit: "m",
+        description: "distance of the structure's axis from the crater centre",
+        get: |f| f.offset_from_crater_centre_m,
+    },
 ];
 
 impl StructureFit {
     /// A metric by name from [`FIT_METRICS`]; `None` for an unknown name or a missing value.
     pub fn metric(&self, name: &str) -> Option<f64> {
-        FIT_METRICS.iter().find(|m| m.name == name).map(|m| (m.get)(self)).filter(|v| v.is_finite())
+        FIT_METRICS
+            .iter()
+            .find(|m| m.name == name)
+            .map(|m| (m.get)(self))
+            .filter(|v| v.is_finite())
     }
 }
 
@@ -134,7 +179,11 @@ mod nan_as_null {
     use serde::{Deserialize, Deserializer, Serializer};
 
     pub fn serialize<S: Serializer>(v: &f64, s: S) -> Result<S::Ok, S::Error> {
-        if v.is_finite() { s.serialize_some(v) } else { s.serialize_none() }
+        if v.is_finite() {
+            s.serialize_some(v)
+        } else {
+            s.serialize_none()
+        }
     }
 
     pub fn deserialize<'de, D: Deserializer<'de>>(d: D) -> Result<f64, D::Error> {
@@ -150,6 +199,9 @@ mod nan_as_null_f32 {
     }
 
     pub fn deserialize<'de, D: Deserializer<'de>>(d: D) -> Result<Vec<f32>, D::Error> {
-        Ok(Vec::<Option<f32>>::deserialize(d)?.into_iter().map(|v| v.unwrap_or(f32::NAN)).collect())
+        Ok(Vec::<Option<f32>>::deserialize(d)?
+            .into_iter()
+            .map(|v| v.unwrap_or(f32::NAN))
+            .collect())
     }
 }

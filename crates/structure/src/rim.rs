@@ -29,7 +29,9 @@ impl Crest {
         let ok: Vec<bool> = r.iter().map(|v| v.is_finite() && *v > 0.0).collect();
         let count = ok.iter().filter(|b| **b).count();
         if n < 8 || count < 3 {
-            return Err(StructureError::Crater(format!("the rim crest was traced at only {count} of {n} azimuths; at least 3 are needed")));
+            return Err(StructureError::Crater(format!(
+                "the rim crest was traced at only {count} of {n} azimuths; at least 3 are needed"
+            )));
         }
         let mut radius = vec![0.0; n];
         for i in 0..n {
@@ -49,7 +51,10 @@ impl Crest {
                 (radius[i] * az.sin(), radius[i] * az.cos())
             })
             .collect();
-        Ok(Crest { pts, missing: ok.iter().map(|b| !b).collect() })
+        Ok(Crest {
+            pts,
+            missing: ok.iter().map(|b| !b).collect(),
+        })
     }
 
     pub fn max_radius_m(&self) -> f64 {
@@ -84,7 +89,8 @@ impl Crest {
             let mut mask = 0u64;
             for k in 0..(n - chunk).min(64) {
                 let (sa, sb) = (sides[chunk + k], sides[chunk + k + 1]);
-                let skip = (sa * sb > 0.0) & (sa.abs().min(sb.abs()) > 1e-9 * (sa.abs() + sb.abs()));
+                let skip =
+                    (sa * sb > 0.0) & (sa.abs().min(sb.abs()) > 1e-9 * (sa.abs() + sb.abs()));
                 mask |= u64::from(!skip) << k;
             }
             while mask != 0 {
@@ -105,7 +111,11 @@ impl Crest {
                 }
             }
         }
-        best.map(|t| Hit { t_m: t, x_m: o.0 + t * u.0, y_m: o.1 + t * u.1 })
+        best.map(|t| Hit {
+            t_m: t,
+            x_m: o.0 + t * u.0,
+            y_m: o.1 + t * u.1,
+        })
     }
 
     /// Distance from `p` to the crest, positive inside the polygon and negative outside.
@@ -117,7 +127,11 @@ impl Crest {
             let b = self.pts[(i + 1) % n];
             let e = (b.0 - a.0, b.1 - a.1);
             let len2 = e.0 * e.0 + e.1 * e.1;
-            let s = if len2 > 0.0 { (((p.0 - a.0) * e.0 + (p.1 - a.1) * e.1) / len2).clamp(0.0, 1.0) } else { 0.0 };
+            let s = if len2 > 0.0 {
+                (((p.0 - a.0) * e.0 + (p.1 - a.1) * e.1) / len2).clamp(0.0, 1.0)
+            } else {
+                0.0
+            };
             let (dx, dy) = (p.0 - a.0 - s * e.0, p.1 - a.1 - s * e.1);
             d2 = d2.min(dx * dx + dy * dy);
             // Crossing-number test (Shimrat 1962, Comm. ACM 5:434), ray towards +x.
@@ -125,7 +139,11 @@ impl Crest {
                 inside = !inside;
             }
         }
-        if inside { d2.sqrt() } else { -d2.sqrt() }
+        if inside {
+            d2.sqrt()
+        } else {
+            -d2.sqrt()
+        }
     }
 
     /// True when the crest azimuth nearest to `p` (seen from the crater centre) has no crest.

@@ -56,7 +56,9 @@ impl Default for StructureSpec {
     fn default() -> Self {
         StructureSpec {
             aperture_m: DEFAULT_APERTURE_M,
-            shape: Shape::ParaboloidRatio { f_over_d: DEFAULT_F_OVER_D },
+            shape: Shape::ParaboloidRatio {
+                f_over_d: DEFAULT_F_OVER_D,
+            },
             anchors: DEFAULT_ANCHORS,
             min_clearance_m: DEFAULT_MIN_CLEARANCE_M,
             max_anchor_height_difference_m: DEFAULT_MAX_ANCHOR_HEIGHT_DIFFERENCE_M,
@@ -71,14 +73,23 @@ impl StructureSpec {
         let bad = |m: String| Err(StructureError::Spec(m));
         let pos = |v: f64| v.is_finite() && v > 0.0;
         if !pos(self.aperture_m) {
-            return bad(format!("aperture_m must be a positive number of metres (got {})", self.aperture_m));
+            return bad(format!(
+                "aperture_m must be a positive number of metres (got {})",
+                self.aperture_m
+            ));
         }
         match self.shape {
             Shape::Paraboloid { focal_length_m } if !pos(focal_length_m) => {
-                return bad(format!("focal_length_m must be positive (got {focal_length_m})"));
+                return bad(format!(
+                    "focal_length_m must be positive (got {focal_length_m})"
+                ));
             }
-            Shape::ParaboloidRatio { f_over_d } if !pos(f_over_d) => return bad(format!("f_over_d must be positive (got {f_over_d})")),
-            Shape::SphericalCap { radius_m } if !(pos(radius_m) && radius_m >= self.aperture_m / 2.0) => {
+            Shape::ParaboloidRatio { f_over_d } if !pos(f_over_d) => {
+                return bad(format!("f_over_d must be positive (got {f_over_d})"))
+            }
+            Shape::SphericalCap { radius_m }
+                if !(pos(radius_m) && radius_m >= self.aperture_m / 2.0) =>
+            {
                 return bad(format!(
                     "a spherical cap of radius_m {radius_m} cannot span an aperture of {} m: the radius must be at least half the aperture",
                     self.aperture_m
@@ -87,13 +98,24 @@ impl StructureSpec {
             _ => {}
         }
         if !(MIN_ANCHORS..=MAX_ANCHORS).contains(&self.anchors) {
-            return bad(format!("anchors must be between {MIN_ANCHORS} and {MAX_ANCHORS} (got {})", self.anchors));
+            return bad(format!(
+                "anchors must be between {MIN_ANCHORS} and {MAX_ANCHORS} (got {})",
+                self.anchors
+            ));
         }
         if !(self.min_clearance_m.is_finite() && self.min_clearance_m >= 0.0) {
-            return bad(format!("min_clearance_m must be zero or positive (got {})", self.min_clearance_m));
+            return bad(format!(
+                "min_clearance_m must be zero or positive (got {})",
+                self.min_clearance_m
+            ));
         }
-        if !(self.max_anchor_height_difference_m.is_finite() && self.max_anchor_height_difference_m >= 0.0) {
-            return bad(format!("max_anchor_height_difference_m must be zero or positive (got {})", self.max_anchor_height_difference_m));
+        if !(self.max_anchor_height_difference_m.is_finite()
+            && self.max_anchor_height_difference_m >= 0.0)
+        {
+            return bad(format!(
+                "max_anchor_height_difference_m must be zero or positive (got {})",
+                self.max_anchor_height_difference_m
+            ));
         }
         Ok(())
     }
@@ -109,7 +131,9 @@ impl StructureSpec {
         match self.shape {
             Shape::Paraboloid { focal_length_m } => r2_m2 / (4.0 * focal_length_m),
             Shape::ParaboloidRatio { f_over_d } => r2_m2 / (4.0 * f_over_d * self.aperture_m),
-            Shape::SphericalCap { radius_m } => radius_m - (radius_m * radius_m - r2_m2).max(0.0).sqrt(),
+            Shape::SphericalCap { radius_m } => {
+                radius_m - (radius_m * radius_m - r2_m2).max(0.0).sqrt()
+            }
         }
     }
 
@@ -134,11 +158,20 @@ mod tests {
 
     #[test]
     fn bad_specs_are_refused_with_the_field_named() {
-        let cap = StructureSpec { shape: Shape::SphericalCap { radius_m: 100.0 }, ..Default::default() };
+        let cap = StructureSpec {
+            shape: Shape::SphericalCap { radius_m: 100.0 },
+            ..Default::default()
+        };
         assert!(matches!(cap.validate(), Err(StructureError::Spec(m)) if m.contains("radius_m")));
-        let two = StructureSpec { anchors: 2, ..Default::default() };
+        let two = StructureSpec {
+            anchors: 2,
+            ..Default::default()
+        };
         assert!(matches!(two.validate(), Err(StructureError::Spec(m)) if m.contains("anchors")));
-        let nan = StructureSpec { aperture_m: f64::NAN, ..Default::default() };
+        let nan = StructureSpec {
+            aperture_m: f64::NAN,
+            ..Default::default()
+        };
         assert!(nan.validate().is_err());
     }
 }

@@ -15,7 +15,10 @@ const PIXEL_M: f64 = 10.0;
 const INTERP_TOL_M: f64 = 0.1;
 
 fn spec_f_over_d(f_over_d: f64) -> StructureSpec {
-    StructureSpec { shape: Shape::ParaboloidRatio { f_over_d }, ..Default::default() }
+    StructureSpec {
+        shape: Shape::ParaboloidRatio { f_over_d },
+        ..Default::default()
+    }
 }
 
 fn map_values(f: &StructureFit) -> Vec<(f64, f64, f32)> {
@@ -42,29 +45,57 @@ fn paraboloid_crater_matching_the_dish_gives_clearance_equal_to_the_vertical_off
     let f = 350.0;
     let shape = |x: f64, y: f64| paraboloid_crater(x, y, FLOOR_M, f, 600.0);
     let (g, centre) = grid(160, PIXEL_M, shape);
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(600.0), shape), &spec_f_over_d(1.0)).expect("fit");
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(600.0), shape),
+        &spec_f_over_d(1.0),
+    )
+    .expect("fit");
     assert!(fit.fit_ok, "{:?}", fit.reasons);
-    assert!(fit.offset_from_crater_centre_m < 3.0, "offset {}", fit.offset_from_crater_centre_m);
-    assert!((fit.vertex_height_m - 1010.0).abs() < INTERP_TOL_M, "vertex {}", fit.vertex_height_m);
+    assert!(
+        fit.offset_from_crater_centre_m < 3.0,
+        "offset {}",
+        fit.offset_from_crater_centre_m
+    );
+    assert!(
+        (fit.vertex_height_m - 1010.0).abs() < INTERP_TOL_M,
+        "vertex {}",
+        fit.vertex_height_m
+    );
     assert!((fit.aperture_edge_height_m - 1031.875).abs() < INTERP_TOL_M);
     assert_eq!(fit.min_clearance_m, 10.0);
     assert_eq!(fit.excavation_m3, 0.0);
     let cells = map_values(&fit);
-    assert!(cells.len() > 400, "{} cells inside the aperture", cells.len());
+    assert!(
+        cells.len() > 400,
+        "{} cells inside the aperture",
+        cells.len()
+    );
     for (x, y, v) in cells {
-        assert!((v as f64 - 10.0).abs() < 2.0 * INTERP_TOL_M, "clearance {v} at ({x:.0}, {y:.0})");
+        assert!(
+            (v as f64 - 10.0).abs() < 2.0 * INTERP_TOL_M,
+            "clearance {v} at ({x:.0}, {y:.0})"
+        );
     }
     // Rim at floor + 600^2/1400 = 1257.14 m, anchors on its crest at 615 m; each span runs
     // 615 - 175 = 440 m across and 1257.14 - 1031.875 = 225.27 m up:
     // sqrt(440^2 + 225.27^2) = 494.32 m.
     assert_eq!(fit.anchors.len(), 6);
     for a in &fit.anchors {
-        assert!((a.height_m - 1257.14).abs() < 0.3, "anchor height {}", a.height_m);
+        assert!(
+            (a.height_m - 1257.14).abs() < 0.3,
+            "anchor height {}",
+            a.height_m
+        );
         assert!((a.span_m - 494.32).abs() < 1.0, "span {}", a.span_m);
         assert!(a.on_crest);
     }
     assert!(fit.anchor_height_spread_m < 0.5);
-    assert!((fit.headroom_m - 225.27).abs() < 0.5, "headroom {}", fit.headroom_m);
+    assert!(
+        (fit.headroom_m - 225.27).abs() < 0.5,
+        "headroom {}",
+        fit.headroom_m
+    );
 }
 
 #[test]
@@ -75,17 +106,40 @@ fn spherical_bowl_matching_a_spherical_cap_gives_uniform_clearance() {
     let rs = 500.0;
     let shape = |x: f64, y: f64| {
         let r = x.hypot(y);
-        if r <= 400.0 { FLOOR_M + rs - (rs * rs - r * r).sqrt() } else { FLOOR_M + 200.0 - 0.5 * (r - 400.0 - common::RIM_TOP_M).max(0.0) }
+        if r <= 400.0 {
+            FLOOR_M + rs - (rs * rs - r * r).sqrt()
+        } else {
+            FLOOR_M + 200.0 - 0.5 * (r - 400.0 - common::RIM_TOP_M).max(0.0)
+        }
     };
     let (g, centre) = grid(120, PIXEL_M, shape);
-    let spec = StructureSpec { shape: Shape::SphericalCap { radius_m: rs }, ..Default::default() };
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(400.0), shape), &spec).expect("fit");
+    let spec = StructureSpec {
+        shape: Shape::SphericalCap { radius_m: rs },
+        ..Default::default()
+    };
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(400.0), shape),
+        &spec,
+    )
+    .expect("fit");
     assert!(fit.fit_ok, "{:?}", fit.reasons);
-    assert!(fit.offset_from_crater_centre_m < 3.0, "offset {}", fit.offset_from_crater_centre_m);
+    assert!(
+        fit.offset_from_crater_centre_m < 3.0,
+        "offset {}",
+        fit.offset_from_crater_centre_m
+    );
     // Curvature 1/500 per m: the bilinear overshoot is twice 2 * 5^2 / 1000 = 0.05 m.
-    assert!((fit.vertex_height_m - 1010.0).abs() < 0.15, "vertex {}", fit.vertex_height_m);
+    assert!(
+        (fit.vertex_height_m - 1010.0).abs() < 0.15,
+        "vertex {}",
+        fit.vertex_height_m
+    );
     for (x, y, v) in map_values(&fit) {
-        assert!((v as f64 - 10.0).abs() < 0.25, "clearance {v} at ({x:.0}, {y:.0})");
+        assert!(
+            (v as f64 - 10.0).abs() < 0.25,
+            "clearance {v} at ({x:.0}, {y:.0})"
+        );
     }
 }
 
@@ -96,12 +150,24 @@ fn level_floor_clearance_grows_with_the_sag_from_the_vertex() {
     // 10 + r^2/700 (bilinear interpolation is exact on level ground).
     let shape = |x: f64, y: f64| flat_crater(x, y, FLOOR_M, 480.0, 600.0, 1200.0);
     let (g, centre) = grid(160, PIXEL_M, shape);
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(600.0), shape), &StructureSpec::default()).expect("fit");
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(600.0), shape),
+        &StructureSpec::default(),
+    )
+    .expect("fit");
     assert!(fit.fit_ok, "{:?}", fit.reasons);
-    assert!((fit.vertex_height_m - 1010.0).abs() < 1e-3, "vertex {}", fit.vertex_height_m);
+    assert!(
+        (fit.vertex_height_m - 1010.0).abs() < 1e-3,
+        "vertex {}",
+        fit.vertex_height_m
+    );
     for (x, y, v) in map_values(&fit) {
         let want = 10.0 + (x * x + y * y) / 700.0;
-        assert!((v as f64 - want).abs() < 0.02, "clearance {v} at ({x:.0}, {y:.0}), want {want}");
+        assert!(
+            (v as f64 - want).abs() < 0.02,
+            "clearance {v} at ({x:.0}, {y:.0}), want {want}"
+        );
     }
 }
 
@@ -116,19 +182,47 @@ fn tilted_bowl_moves_the_best_position_downhill_by_2f_tan_tilt() {
     let (f, s) = (350.0, 5f64.to_radians().tan());
     let shape = |x: f64, y: f64| paraboloid_crater(x, y, FLOOR_M, f, 600.0) + s * x;
     let (g, centre) = grid(160, PIXEL_M, shape);
-    let spec = StructureSpec { max_anchor_height_difference_m: 200.0, ..spec_f_over_d(1.0) };
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(600.0), shape), &spec).expect("fit");
+    let spec = StructureSpec {
+        max_anchor_height_difference_m: 200.0,
+        ..spec_f_over_d(1.0)
+    };
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(600.0), shape),
+        &spec,
+    )
+    .expect("fit");
     assert!(fit.fit_ok, "{:?}", fit.reasons);
     let want = 2.0 * f * s;
-    assert!((fit.offset_from_crater_centre_m - want).abs() < 3.0, "offset {} m, want {want:.2}", fit.offset_from_crater_centre_m);
-    assert!((fit.offset_azimuth_deg - 270.0).abs() < 2.0, "offset azimuth {}", fit.offset_azimuth_deg);
+    assert!(
+        (fit.offset_from_crater_centre_m - want).abs() < 3.0,
+        "offset {} m, want {want:.2}",
+        fit.offset_from_crater_centre_m
+    );
+    assert!(
+        (fit.offset_azimuth_deg - 270.0).abs() < 2.0,
+        "offset azimuth {}",
+        fit.offset_azimuth_deg
+    );
     let (x, y) = local(centre, fit.centre_lon_deg, fit.centre_lat_deg);
-    assert!((x + want).abs() < 3.0 && y.abs() < 3.0, "centre at ({x:.1}, {y:.1})");
+    assert!(
+        (x + want).abs() < 3.0 && y.abs() < 3.0,
+        "centre at ({x:.1}, {y:.1})"
+    );
     // The clearance rises 2a/(4f) = 0.25 m per metre of misplacement, and the search stops
     // at half a metre: 0.25 m.
-    assert!((fit.vertex_height_m - (FLOOR_M - s * s * f + 10.0)).abs() < 0.25, "vertex {} offset {} az {}", fit.vertex_height_m, fit.offset_from_crater_centre_m, fit.offset_azimuth_deg);
+    assert!(
+        (fit.vertex_height_m - (FLOOR_M - s * s * f + 10.0)).abs() < 0.25,
+        "vertex {} offset {} az {}",
+        fit.vertex_height_m,
+        fit.offset_from_crater_centre_m,
+        fit.offset_azimuth_deg
+    );
     for (x, y, v) in map_values(&fit) {
-        assert!((v as f64 - 10.0).abs() < 0.8, "clearance {v} at ({x:.0}, {y:.0})");
+        assert!(
+            (v as f64 - 10.0).abs() < 0.8,
+            "clearance {v} at ({x:.0}, {y:.0})"
+        );
     }
 }
 
@@ -139,13 +233,28 @@ fn anchor_ring_turns_so_that_no_anchor_sits_on_the_low_side_of_a_tilted_rim() {
     // crest at 615 m stand at rim + 20 (615/600) sin(t + 60 k). The lowest anchor is highest
     // (most headroom) for t = 0 mod 60, where the heights are rim + 20.5 {0, s, s, 0, -s, -s},
     // s = sin 60: spread 41 sin 60 = 35.51 m, under the 50 m limit.
-    let shape = |x: f64, y: f64| paraboloid_crater(x, y, FLOOR_M, 350.0, 600.0) + 20.0 * x / 600.0 * ramp(x, y, 540.0, 600.0);
+    let shape = |x: f64, y: f64| {
+        paraboloid_crater(x, y, FLOOR_M, 350.0, 600.0) + 20.0 * x / 600.0 * ramp(x, y, 540.0, 600.0)
+    };
     let (g, centre) = grid(160, PIXEL_M, shape);
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(600.0), shape), &spec_f_over_d(1.0)).expect("fit");
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(600.0), shape),
+        &spec_f_over_d(1.0),
+    )
+    .expect("fit");
     assert!(fit.fit_ok, "{:?}", fit.reasons);
     let r = fit.rotation_deg.rem_euclid(60.0);
     assert!(r.min(60.0 - r) < 1.5, "rotation {}", fit.rotation_deg);
-    assert!((fit.anchor_height_spread_m - 35.51).abs() < 0.3, "spread {} rot {} offset {} az {} {:?}", fit.anchor_height_spread_m, fit.rotation_deg, fit.offset_from_crater_centre_m, fit.offset_azimuth_deg, fit.anchors);
+    assert!(
+        (fit.anchor_height_spread_m - 35.51).abs() < 0.3,
+        "spread {} rot {} offset {} az {} {:?}",
+        fit.anchor_height_spread_m,
+        fit.rotation_deg,
+        fit.offset_from_crater_centre_m,
+        fit.offset_azimuth_deg,
+        fit.anchors
+    );
 }
 
 #[test]
@@ -153,24 +262,58 @@ fn anchor_spread_over_the_limit_fails_with_the_reason() {
     // Rim tilted by 60 m * x / R: any six evenly spaced anchors differ by at least
     // 60 (615/600) sqrt(3) = 106.5 m when the axis is central, over a 60 m limit; an offset
     // changes where the rays meet the rim but cannot bring the spread near 60 m.
-    let shape = |x: f64, y: f64| paraboloid_crater(x, y, FLOOR_M, 350.0, 600.0) + 60.0 * x / 600.0 * ramp(x, y, 540.0, 600.0);
+    let shape = |x: f64, y: f64| {
+        paraboloid_crater(x, y, FLOOR_M, 350.0, 600.0) + 60.0 * x / 600.0 * ramp(x, y, 540.0, 600.0)
+    };
     let (g, centre) = grid(160, PIXEL_M, shape);
-    let spec = StructureSpec { max_anchor_height_difference_m: 60.0, ..spec_f_over_d(1.0) };
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(600.0), shape), &spec).expect("fit");
+    let spec = StructureSpec {
+        max_anchor_height_difference_m: 60.0,
+        ..spec_f_over_d(1.0)
+    };
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(600.0), shape),
+        &spec,
+    )
+    .expect("fit");
     assert!(!fit.fit_ok);
-    assert!(fit.reasons.iter().any(|r| r.contains("anchors' heights differ")), "{:?}", fit.reasons);
+    assert!(
+        fit.reasons
+            .iter()
+            .any(|r| r.contains("anchors' heights differ")),
+        "{:?}",
+        fit.reasons
+    );
     let hs: Vec<f64> = fit.anchors.iter().map(|a| a.height_m).collect();
-    let spread = hs.iter().cloned().fold(f64::MIN, f64::max) - hs.iter().cloned().fold(f64::MAX, f64::min);
+    let spread =
+        hs.iter().cloned().fold(f64::MIN, f64::max) - hs.iter().cloned().fold(f64::MAX, f64::min);
     assert!((spread - fit.anchor_height_spread_m).abs() < 0.02);
     // No placement meets the limit, so the search leaves the spread out and the axis stays
     // central (the bowl pins it): the spread is then the 106.5 m above.
-    assert!(fit.offset_from_crater_centre_m < 3.0, "offset {}", fit.offset_from_crater_centre_m);
-    assert!((fit.anchor_height_spread_m - 106.5).abs() < 0.5, "spread {}", fit.anchor_height_spread_m);
+    assert!(
+        fit.offset_from_crater_centre_m < 3.0,
+        "offset {}",
+        fit.offset_from_crater_centre_m
+    );
+    assert!(
+        (fit.anchor_height_spread_m - 106.5).abs() < 0.5,
+        "spread {}",
+        fit.anchor_height_spread_m
+    );
     // Each anchor stands on the analytic rim.
     for a in &fit.anchors {
         let (x, y) = local(centre, a.lon_deg, a.lat_deg);
-        assert!((x.hypot(y) - crest_radius(600.0)).abs() < 0.5, "anchor at r = {}", x.hypot(y));
-        assert!((a.height_m - shape(x, y)).abs() < 0.3, "anchor height {} vs {}", a.height_m, shape(x, y));
+        assert!(
+            (x.hypot(y) - crest_radius(600.0)).abs() < 0.5,
+            "anchor at r = {}",
+            x.hypot(y)
+        );
+        assert!(
+            (a.height_m - shape(x, y)).abs() < 0.3,
+            "anchor height {} vs {}",
+            a.height_m,
+            shape(x, y)
+        );
     }
 }
 
@@ -179,9 +322,20 @@ fn crater_narrower_than_the_aperture_fails_with_the_reason() {
     // A 300 m crater cannot hold a 350 m aperture wherever it is put.
     let shape = |x: f64, y: f64| paraboloid_crater(x, y, FLOOR_M, 40.0, 150.0);
     let (g, centre) = grid(100, PIXEL_M, shape);
-    let fit = fit(&g, &measured_at(64, centre, crest_radius(150.0), shape), &StructureSpec::default()).expect("fit runs");
+    let fit = fit(
+        &g,
+        &measured_at(64, centre, crest_radius(150.0), shape),
+        &StructureSpec::default(),
+    )
+    .expect("fit runs");
     assert!(!fit.fit_ok);
-    assert!(fit.reasons.iter().any(|r| r.contains("does not fit inside the rim crest")), "{:?}", fit.reasons);
+    assert!(
+        fit.reasons
+            .iter()
+            .any(|r| r.contains("does not fit inside the rim crest")),
+        "{:?}",
+        fit.reasons
+    );
 }
 
 #[test]
@@ -194,11 +348,32 @@ fn shallow_level_crater_needs_excavation_of_two_pi_f_shortfall_squared() {
     // = 207,888 m3.
     let shape = |x: f64, y: f64| flat_crater(x, y, FLOOR_M, 480.0, 600.0, 1040.0);
     let (g, centre) = grid(160, PIXEL_M, shape);
-    let fit = fit(&g, &measured_at(360, centre, crest_radius(600.0), shape), &StructureSpec::default()).expect("fit");
+    let fit = fit(
+        &g,
+        &measured_at(360, centre, crest_radius(600.0), shape),
+        &StructureSpec::default(),
+    )
+    .expect("fit");
     assert!(!fit.fit_ok);
-    assert!(fit.reasons.iter().any(|r| r.contains("too shallow")), "{:?}", fit.reasons);
-    assert!((fit.min_clearance_m + 3.75).abs() < 0.05, "min clearance {}", fit.min_clearance_m);
-    assert!((fit.headroom_m + 13.75).abs() < 0.05, "headroom {}", fit.headroom_m);
+    assert!(
+        fit.reasons.iter().any(|r| r.contains("too shallow")),
+        "{:?}",
+        fit.reasons
+    );
+    assert!(
+        (fit.min_clearance_m + 3.75).abs() < 0.05,
+        "min clearance {}",
+        fit.min_clearance_m
+    );
+    assert!(
+        (fit.headroom_m + 13.75).abs() < 0.05,
+        "headroom {}",
+        fit.headroom_m
+    );
     let want = 2.0 * std::f64::consts::PI * 175.0 * 13.75f64.powi(2);
-    assert!((fit.excavation_m3 - want).abs() < 0.02 * want, "excavation {} m3, want {want:.0}", fit.excavation_m3);
+    assert!(
+        (fit.excavation_m3 - want).abs() < 0.02 * want,
+        "excavation {} m3, want {want:.0}",
+        fit.excavation_m3
+    );
 }

@@ -14,8 +14,10 @@ pub mod run;
 
 pub use error::SurveyError;
 pub use io::write_atomic;
-pub use metrics::{metric, MetricInfo, METRICS};
 pub use merge::merge;
-pub use model::{Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION};
+pub use metrics::{metric, MetricInfo, METRICS};
+pub use model::{
+    Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION,
+};
 pub use refit::{fitted_for, locate_dem, refit, RefitProgress};
 pub use run::{into_candidates, run, Found, Progress, RunOptions, RunOutcome};

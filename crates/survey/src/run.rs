@@ -338,8 +338,7 @@ pub fn run(
             };
             let core_valid = (core_r..core_r + t.height)
                 .map(|r| {
-                    window.heights_m
-                        [r * window.width + core_c..r * window.width + core_c + t.width]
+                    window.heights_m[r * window.width + core_c..r * window.width + core_c + t.width]
                         .iter()
                         .filter(|h| !h.is_nan())
                         .count() as u64

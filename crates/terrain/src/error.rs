@@ -14,17 +14,40 @@ pub enum TerrainError {
     #[error("{path}: unsupported CRS: {reason}")]
     UnsupportedCrs { path: PathBuf, reason: String },
     #[error("{path}: the raster is empty ({width} x {height} pixels)")]
-    Empty { path: PathBuf, width: usize, height: usize },
+    Empty {
+        path: PathBuf,
+        width: usize,
+        height: usize,
+    },
     #[error("{path}: the raster has no valid heights (all nodata or NaN)")]
     AllNodata { path: PathBuf },
     #[error("{path}: band data type {data_type} is not a supported elevation type (int16, uint16, int32, float32, float64)")]
     UnsupportedType { path: PathBuf, data_type: String },
     #[error("{path}: the raster declares {width} x {height} pixels, more than this tool accepts ({limit} pixels per side); the header is probably corrupt")]
-    Oversized { path: PathBuf, width: usize, height: usize, limit: usize },
+    Oversized {
+        path: PathBuf,
+        width: usize,
+        height: usize,
+        limit: usize,
+    },
     #[error("{path}: reading window at col {col}, row {row} ({width} x {height}) failed: {reason}. The file may be truncated")]
-    Read { path: PathBuf, col: usize, row: usize, width: usize, height: usize, reason: String },
+    Read {
+        path: PathBuf,
+        col: usize,
+        row: usize,
+        width: usize,
+        height: usize,
+        reason: String,
+    },
     #[error("window at col {col}, row {row} ({width} x {height}) lies outside the {raster_width} x {raster_height} raster")]
-    WindowOutside { col: isize, row: isize, width: usize, height: usize, raster_width: usize, raster_height: usize },
+    WindowOutside {
+        col: isize,
+        row: isize,
+        width: usize,
+        height: usize,
+        raster_width: usize,
+        raster_height: usize,
+    },
     #[error("cannot write {path}: {reason}")]
     Write { path: PathBuf, reason: String },
     #[error("{0}")]

@@ -28,12 +28,22 @@ pub fn azimuth_deg(a: (f64, f64), b: (f64, f64)) -> f64 {
 }
 
 /// The point reached by going `distance_m` from `start` along initial azimuth `azimuth_deg`.
-pub fn destination(radius_m: f64, start: (f64, f64), azimuth_deg: f64, distance_m: f64) -> (f64, f64) {
+pub fn destination(
+    radius_m: f64,
+    start: (f64, f64),
+    azimuth_deg: f64,
+    distance_m: f64,
+) -> (f64, f64) {
     let (l1, p1) = (start.0.to_radians(), start.1.to_radians());
     let (az, d) = (azimuth_deg.to_radians(), distance_m / radius_m);
-    let p2 = (p1.sin() * d.cos() + p1.cos() * d.sin() * az.cos()).clamp(-1.0, 1.0).asin();
+    let p2 = (p1.sin() * d.cos() + p1.cos() * d.sin() * az.cos())
+        .clamp(-1.0, 1.0)
+        .asin();
     let l2 = l1 + (az.sin() * d.sin() * p1.cos()).atan2(d.cos() - p1.sin() * p2.sin());
-    (crate::projection::wrap_deg_180(l2.to_degrees()), p2.to_degrees())
+    (
+        crate::projection::wrap_deg_180(l2.to_degrees()),
+        p2.to_degrees(),
+    )
 }
 
 /// A local azimuthal equidistant frame (x east, y north, metres) centred on a point: distances
@@ -50,7 +60,13 @@ pub struct LocalFrame {
 impl LocalFrame {
     pub fn new(radius_m: f64, centre_lon_deg: f64, centre_lat_deg: f64) -> Self {
         let p0 = centre_lat_deg.to_radians();
-        LocalFrame { centre_lon_deg, centre_lat_deg, radius_m, sin_p0: p0.sin(), cos_p0: p0.cos() }
+        LocalFrame {
+            centre_lon_deg,
+            centre_lat_deg,
+            radius_m,
+            sin_p0: p0.sin(),
+            cos_p0: p0.cos(),
+        }
     }
 
     /// Lon/lat (degrees) to local x/y (metres).
@@ -69,13 +85,21 @@ impl LocalFrame {
     pub fn to_lonlat(&self, x: f64, y: f64) -> (f64, f64) {
         let rho = x.hypot(y);
         if rho < 1e-9 {
-            return (crate::projection::wrap_deg_180(self.centre_lon_deg), self.centre_lat_deg);
+            return (
+                crate::projection::wrap_deg_180(self.centre_lon_deg),
+                self.centre_lat_deg,
+            );
         }
         let c = rho / self.radius_m;
         let (sc, cc) = c.sin_cos();
-        let lat = (cc * self.sin_p0 + y * sc * self.cos_p0 / rho).clamp(-1.0, 1.0).asin();
+        let lat = (cc * self.sin_p0 + y * sc * self.cos_p0 / rho)
+            .clamp(-1.0, 1.0)
+            .asin();
         let lon = self.centre_lon_deg.to_radians()
             + (x * sc).atan2(rho * self.cos_p0 * cc - y * self.sin_p0 * sc);
-        (crate::projection::wrap_deg_180(lon.to_degrees()), lat.to_degrees())
+        (
+            crate::projection::wrap_deg_180(lon.to_degrees()),
+            lat.to_degrees(),
+        )
     }
 }

@@ -27,8 +27,20 @@ impl GridGeometry {
         GridGeometry {
             width: 360 * pixels_per_degree,
             height: 180 * pixels_per_degree,
-            geotransform: [-std::f64::consts::PI * radius_m, px, 0.0, std::f64::consts::FRAC_PI_2 * radius_m, 0.0, -px],
-            projection: MapProjection::Equirectangular { lon0_deg: 180.0, lat_ts_deg: 0.0, false_easting_m: 0.0, false_northing_m: 0.0 },
+            geotransform: [
+                -std::f64::consts::PI * radius_m,
+                px,
+                0.0,
+                std::f64::consts::FRAC_PI_2 * radius_m,
+                0.0,
+                -px,
+            ],
+            projection: MapProjection::Equirectangular {
+                lon0_deg: 180.0,
+                lat_ts_deg: 0.0,
+                false_easting_m: 0.0,
+                false_northing_m: 0.0,
+            },
             body_radius_m: radius_m,
         }
     }
@@ -36,7 +48,10 @@ impl GridGeometry {
     /// Map coordinates of a fractional pixel position (pixel-corner convention).
     pub fn pixel_to_map(&self, col: f64, row: f64) -> (f64, f64) {
         let g = &self.geotransform;
-        (g[0] + col * g[1] + row * g[2], g[3] + col * g[4] + row * g[5])
+        (
+            g[0] + col * g[1] + row * g[2],
+            g[3] + col * g[4] + row * g[5],
+        )
     }
 
     /// Fractional pixel position of map coordinates. `None` if the geotransform is singular.
@@ -65,7 +80,9 @@ impl GridGeometry {
     /// longitude (geographic, equirectangular) the longitude is shifted by whole turns so that a
     /// 0..360 grid finds -170 at 190 and a -180..180 grid finds 190 at -170.
     pub fn lonlat_to_pixel(&self, lon_deg: f64, lat_deg: f64) -> Option<(f64, f64)> {
-        let (x, y) = self.projection.forward(self.body_radius_m, lon_deg, lat_deg)?;
+        let (x, y) = self
+            .projection
+            .forward(self.body_radius_m, lon_deg, lat_deg)?;
         let (mut col, row) = self.map_to_pixel(x, y)?;
         if let Some(period) = self.projection.x_period(self.body_radius_m) {
             let period_px = period / self.geotransform[1].abs();
@@ -137,7 +154,12 @@ impl ElevationGrid {
         let h10 = self.get(c1, r0)? as f64;
         let h01 = self.get(c0, r1)? as f64;
         let h11 = self.get(c1, r1)? as f64;
-        Some(h00 * (1.0 - fc) * (1.0 - fr) + h10 * fc * (1.0 - fr) + h01 * (1.0 - fc) * fr + h11 * fc * fr)
+        Some(
+            h00 * (1.0 - fc) * (1.0 - fr)
+                + h10 * fc * (1.0 - fr)
+                + h01 * (1.0 - fc) * fr
+                + h11 * fc * fr,
+        )
     }
 
     /// Bilinear height at a lon/lat, or `None` outside the window or on nodata.
@@ -148,7 +170,10 @@ impl ElevationGrid {
 
     /// Lon/lat of the centre of window pixel (col, row).
     pub fn lonlat(&self, col: usize, row: usize) -> Option<(f64, f64)> {
-        self.geometry.pixel_to_lonlat((self.col0 + col as isize) as f64 + 0.5, (self.row0 + row as isize) as f64 + 0.5)
+        self.geometry.pixel_to_lonlat(
+            (self.col0 + col as isize) as f64 + 0.5,
+            (self.row0 + row as isize) as f64 + 0.5,
+        )
     }
 
     /// Fraction of the window's pixels that hold data.
@@ -161,9 +186,12 @@ impl ElevationGrid {
 
     /// Smallest and largest valid height, or `None` if the window holds no data.
     pub fn min_max(&self) -> Option<(f32, f32)> {
-        self.heights_m.iter().filter(|h| !h.is_nan()).fold(None, |acc, &h| match acc {
-            None => Some((h, h)),
-            Some((lo, hi)) => Some((lo.min(h), hi.max(h))),
-        })
+        self.heights_m
+            .iter()
+            .filter(|h| !h.is_nan())
+            .fold(None, |acc, &h| match acc {
+                None => Some((h, h)),
+                Some((lo, hi)) => Some((lo.min(h), hi.max(h))),
+            })
     }
 }

@@ -24,7 +24,11 @@ pub enum HeightConvention {
     /// offset would turn heights into planetary radii.
     RadiusOffsetIgnored { scale: f64, radius_offset_m: f64 },
     /// The stored values are planetary radii: height = DN * scale + offset - radius.
-    RadiusValues { scale: f64, offset: f64, radius_m: f64 },
+    RadiusValues {
+        scale: f64,
+        offset: f64,
+        radius_m: f64,
+    },
 }
 
 impl HeightConvention {
@@ -33,7 +37,11 @@ impl HeightConvention {
         match *self {
             HeightConvention::ScaleOffset { scale, offset } => dn * scale + offset,
             HeightConvention::RadiusOffsetIgnored { scale, .. } => dn * scale,
-            HeightConvention::RadiusValues { scale, offset, radius_m } => dn * scale + offset - radius_m,
+            HeightConvention::RadiusValues {
+                scale,
+                offset,
+                radius_m,
+            } => dn * scale + offset - radius_m,
         }
     }
 
@@ -126,41 +134,73 @@ impl Dem {
     /// Open a raster and work out its geometry, body and height convention.
     pub fn open(path: impl AsRef<Path>, options: &OpenOptions) -> Result<Dem, TerrainError> {
         let path = path.as_ref().to_path_buf();
-        let open_err = |reason: String| TerrainError::Open { path: path.clone(), reason };
+        let open_err = |reason: String| TerrainError::Open {
+            path: path.clone(),
+            reason,
+        };
         if !path.exists() {
             return Err(open_err("no such file".into()));
         }
         let ds = Dataset::open(&path).map_err(|e| open_err(e.to_string()))?;
         let (width, height) = ds.raster_size();
         if width == 0 || height == 0 || ds.raster_count() == 0 {
-            return Err(TerrainError::Empty { path, width, height });
+            return Err(TerrainError::Empty {
+                path,
+                width,
+                height,
+            });
         }
         if width > MAX_SIDE_PX || height > MAX_SIDE_PX {
-            return Err(TerrainError::Oversized { path, width, height, limit: MAX_SIDE_PX });
+            return Err(TerrainError::Oversized {
+                path,
+                width,
+                height,
+                limit: MAX_SIDE_PX,
+            });
         }
         let band = ds.rasterband(1).map_err(|e| open_err(e.to_string()))?;
         let band_type = band.band_type();
         if !supported_type(band_type) {
-            return Err(TerrainError::UnsupportedType { path, data_type: band_type.name() });
+            return Err(TerrainError::UnsupportedType {
+                path,
+                data_type: band_type.name(),
+            });
         }
-        let geotransform = ds.geo_transform().map_err(|_| TerrainError::NoGeotransform { path: path.clone() })?;
+        let geotransform = ds
+            .geo_transform()
+            .map_err(|_| TerrainError::NoGeotransform { path: path.clone() })?;
         if geotransform == [0.0, 1.0, 0.0, 0.0, 0.0, 1.0] {
             return Err(TerrainError::NoGeotransform { path });
         }
-        let srs = ds.spatial_ref().map_err(|_| TerrainError::NoCrs { path: path.clone() })?;
+        let srs = ds
+            .spatial_ref()
+            .map_err(|_| TerrainError::NoCrs { path: path.clone() })?;
         let crs_wkt = srs.to_wkt().unwrap_or_default();
         if crs_wkt.is_empty() {
             return Err(TerrainError::NoCrs { path });
         }
-        let proj4 = srs.to_proj4().map_err(|e| TerrainError::UnsupportedCrs { path: path.clone(), reason: e.to_string() })?;
-        let (projection, proj_radius) = MapProjection::from_proj4(&proj4)
-            .map_err(|reason| TerrainError::UnsupportedCrs { path: path.clone(), reason })?;
-        let semi_major = srs.semi_major().ok().or(proj_radius).unwrap_or(MOON_RADIUS_M);
+        let proj4 = srs.to_proj4().map_err(|e| TerrainError::UnsupportedCrs {
+            path: path.clone(),
+            reason: e.to_string(),
+        })?;
+        let (projection, proj_radius) =
+            MapProjection::from_proj4(&proj4).map_err(|reason| TerrainError::UnsupportedCrs {
+                path: path.clone(),
+                reason,
+            })?;
+        let semi_major = srs
+            .semi_major()
+            .ok()
+            .or(proj_radius)
+            .unwrap_or(MOON_RADIUS_M);
         let crs_body = Body::from_radius_m(semi_major);
         let (body_radius_m, overridden) = match options.assume_body_radius_m {
             Some(r) => (r, true),
             None if crs_body == Body::Earth => {
-                return Err(TerrainError::EarthCrs { path, semi_major_m: semi_major });
+                return Err(TerrainError::EarthCrs {
+                    path,
+                    semi_major_m: semi_major,
+                });
             }
             None => (semi_major, false),
         };
@@ -179,11 +219,20 @@ impl Dem {
         let mut height_convention = if (offset - body_radius_m).abs() < 10_000.0
             || (offset > 0.0 && Body::from_radius_m(offset) != Body::Unknown)
         {
-            HeightConvention::RadiusOffsetIgnored { scale, radius_offset_m: offset }
+            HeightConvention::RadiusOffsetIgnored {
+                scale,
+                radius_offset_m: offset,
+            }
         } else {
             HeightConvention::ScaleOffset { scale, offset }
         };
-        let geometry = GridGeometry { width, height, geotransform, projection, body_radius_m };
+        let geometry = GridGeometry {
+            width,
+            height,
+            geotransform,
+            projection,
+            body_radius_m,
+        };
         let pixel_size_m = geometry.pixel_size_m().unwrap_or((f64::NAN, f64::NAN));
         let (lon_range_deg, lat_range_deg, crosses_180) = extent(&geometry);
         drop(band);
@@ -192,7 +241,11 @@ impl Dem {
             if let Some(median) = coarse_median(&ds, nodata) {
                 let v = median * scale + offset;
                 if (v - body_radius_m).abs() < 0.01 * body_radius_m {
-                    height_convention = HeightConvention::RadiusValues { scale, offset, radius_m: body_radius_m };
+                    height_convention = HeightConvention::RadiusValues {
+                        scale,
+                        offset,
+                        radius_m: body_radius_m,
+                    };
                 }
             }
         }
@@ -217,8 +270,19 @@ impl Dem {
             lat_range_deg,
             crosses_180,
         };
-        let f32_exact = matches!(band_type, GdalDataType::UInt8 | GdalDataType::Int16 | GdalDataType::UInt16 | GdalDataType::Float32);
-        Ok(Dem { idle_handles: Mutex::new(vec![ds]), f32_exact, info, geometry: Arc::new(geometry) })
+        let f32_exact = matches!(
+            band_type,
+            GdalDataType::UInt8
+                | GdalDataType::Int16
+                | GdalDataType::UInt16
+                | GdalDataType::Float32
+        );
+        Ok(Dem {
+            idle_handles: Mutex::new(vec![ds]),
+            f32_exact,
+            info,
+            geometry: Arc::new(geometry),
+        })
     }
 
     pub fn info(&self) -> &DemInfo {
@@ -240,16 +304,30 @@ impl Dem {
     /// Read a window of heights. Parts of the window outside the raster come back as NaN, so a
     /// window with a halo can be asked for at any position (for neighbourhood operations at the
     /// edges). Fails only if the window misses the raster entirely or GDAL cannot read it.
-    pub fn read_window(&self, col: isize, row: isize, width: usize, height: usize) -> Result<ElevationGrid, TerrainError> {
+    pub fn read_window(
+        &self,
+        col: isize,
+        row: isize,
+        width: usize,
+        height: usize,
+    ) -> Result<ElevationGrid, TerrainError> {
         let (rw, rh) = (self.info.width as isize, self.info.height as isize);
         let outside = || TerrainError::WindowOutside {
-            col, row, width, height, raster_width: self.info.width, raster_height: self.info.height,
+            col,
+            row,
+            width,
+            height,
+            raster_width: self.info.width,
+            raster_height: self.info.height,
         };
         if width == 0 || height == 0 {
             return Err(outside());
         }
         let (c0, r0) = (col.max(0), row.max(0));
-        let (c1, r1) = ((col + width as isize).min(rw), (row + height as isize).min(rh));
+        let (c1, r1) = (
+            (col + width as isize).min(rw),
+            (row + height as isize).min(rh),
+        );
         if c0 >= c1 || r0 >= r1 {
             return Err(outside());
         }
@@ -258,7 +336,11 @@ impl Dem {
         let (dst_r0, dst_c0) = ((r0 - row) as usize, (c0 - col) as usize);
         // A large window is read as bands of rows, each through its own handle and converted on
         // its own thread; a small one in one go.
-        let bands = if iw * ih >= PARALLEL_READ_MIN_PX { rayon::current_num_threads().clamp(1, 8) } else { 1 };
+        let bands = if iw * ih >= PARALLEL_READ_MIN_PX {
+            rayon::current_num_threads().clamp(1, 8)
+        } else {
+            1
+        };
         let band_rows = ih.div_ceil(bands);
         let dst = &mut heights_m[dst_r0 * width..(dst_r0 + ih) * width];
         let read_band = |k: usize, dst: &mut [f32]| -> Result<(), TerrainError> {
@@ -280,12 +362,28 @@ impl Dem {
             read_band(0, dst)?;
         } else {
             use rayon::prelude::*;
-            dst.par_chunks_mut(band_rows * width).enumerate().try_for_each(|(k, d)| read_band(k, d))?;
+            dst.par_chunks_mut(band_rows * width)
+                .enumerate()
+                .try_for_each(|(k, d)| read_band(k, d))?;
         }
-        Ok(ElevationGrid { geometry: self.geometry.clone(), col0: col, row0: row, width, height, heights_m })
+        Ok(ElevationGrid {
+            geometry: self.geometry.clone(),
+            col0: col,
+            row0: row,
+            width,
+            height,
+            heights_m,
+        })
     }
 
-    fn read_raw<T: gdal::raster::GdalType + Copy>(&self, c0: isize, r0: isize, iw: usize, ih: usize, raw: &mut [T]) -> Result<(), TerrainError> {
+    fn read_raw<T: gdal::raster::GdalType + Copy>(
+        &self,
+        c0: isize,
+        r0: isize,
+        iw: usize,
+        ih: usize,
+        raw: &mut [T],
+    ) -> Result<(), TerrainError> {
         self.with_handle(|ds| {
             let band = ds.rasterband(1)?;
             band.read_into_slice::<T>((c0, r0), (iw, ih), (iw, ih), raw, None)
@@ -296,14 +394,27 @@ impl Dem {
     /// Raw band values (`iw x ih`) to heights, written into `heights_m` (rows of `width`) from
     /// row `dst_r0`, column `dst_c0`; no-data stays NaN.
     #[allow(clippy::too_many_arguments)]
-    fn convert_rows<T: Copy + Into<f64>>(&self, raw: &[T], iw: usize, ih: usize, heights_m: &mut [f32], width: usize, dst_r0: usize, dst_c0: usize) {
+    fn convert_rows<T: Copy + Into<f64>>(
+        &self,
+        raw: &[T],
+        iw: usize,
+        ih: usize,
+        heights_m: &mut [f32],
+        width: usize,
+        dst_r0: usize,
+        dst_c0: usize,
+    ) {
         let nodata = self.info.nodata;
         let conv = &self.info.height_convention;
         for r in 0..ih {
             let dst_off = (dst_r0 + r) * width + dst_c0;
-            for (dst, &v) in heights_m[dst_off..dst_off + iw].iter_mut().zip(&raw[r * iw..(r + 1) * iw]) {
+            for (dst, &v) in heights_m[dst_off..dst_off + iw]
+                .iter_mut()
+                .zip(&raw[r * iw..(r + 1) * iw])
+            {
                 let dn: f64 = v.into();
-                let is_nodata = dn.is_nan() || nodata.is_some_and(|nd| dn == nd || (nd.is_nan() && dn.is_nan()));
+                let is_nodata = dn.is_nan()
+                    || nodata.is_some_and(|nd| dn == nd || (nd.is_nan() && dn.is_nan()));
                 if !is_nodata {
                     *dst = conv.apply(dn) as f32;
                 }
@@ -316,12 +427,27 @@ impl Dem {
     /// that of the whole raster at the coarser pixel size, and its `col0`/`row0` are counted in
     /// coarse pixels, so lon/lat lookups and derivatives (hillshade) work on it unchanged.
     /// Used for display pyramids: a large raster is looked at through a few such levels.
-    pub fn read_window_decimated(&self, col: usize, row: usize, width: usize, height: usize, factor: usize) -> Result<ElevationGrid, TerrainError> {
+    pub fn read_window_decimated(
+        &self,
+        col: usize,
+        row: usize,
+        width: usize,
+        height: usize,
+        factor: usize,
+    ) -> Result<ElevationGrid, TerrainError> {
         let factor = factor.max(1);
         let outside = || TerrainError::WindowOutside {
-            col: col as isize, row: row as isize, width, height, raster_width: self.info.width, raster_height: self.info.height,
+            col: col as isize,
+            row: row as isize,
+            width,
+            height,
+            raster_width: self.info.width,
+            raster_height: self.info.height,
         };
-        let (c1, r1) = ((col + width).min(self.info.width), (row + height).min(self.info.height));
+        let (c1, r1) = (
+            (col + width).min(self.info.width),
+            (row + height).min(self.info.height),
+        );
         if width == 0 || height == 0 || col >= c1 || row >= r1 {
             return Err(outside());
         }
@@ -331,7 +457,13 @@ impl Dem {
         {
             self.with_handle(|ds| {
                 let band = ds.rasterband(1)?;
-                band.read_into_slice::<f64>((col as isize, row as isize), (iw, ih), (ow, oh), &mut raw, Some(gdal::raster::ResampleAlg::Average))
+                band.read_into_slice::<f64>(
+                    (col as isize, row as isize),
+                    (iw, ih),
+                    (ow, oh),
+                    &mut raw,
+                    Some(gdal::raster::ResampleAlg::Average),
+                )
             })
             .map_err(|e| self.read_err(col as isize, row as isize, iw, ih, e))?;
         }
@@ -341,7 +473,11 @@ impl Dem {
             .iter()
             .map(|&dn| {
                 let is_nodata = dn.is_nan() || nodata.is_some_and(|nd| dn == nd);
-                if is_nodata { f32::NAN } else { conv.apply(dn) as f32 }
+                if is_nodata {
+                    f32::NAN
+                } else {
+                    conv.apply(dn) as f32
+                }
             })
             .collect();
         let mut geometry = (*self.geometry).clone();
@@ -367,24 +503,51 @@ impl Dem {
     }
 
     /// Run `f` on an idle GDAL handle of this file, opening one more if all are busy.
-    fn with_handle<T>(&self, f: impl FnOnce(&Dataset) -> gdal::errors::Result<T>) -> gdal::errors::Result<T> {
-        let idle = self.idle_handles.lock().unwrap_or_else(|p| p.into_inner()).pop();
+    fn with_handle<T>(
+        &self,
+        f: impl FnOnce(&Dataset) -> gdal::errors::Result<T>,
+    ) -> gdal::errors::Result<T> {
+        let idle = self
+            .idle_handles
+            .lock()
+            .unwrap_or_else(|p| p.into_inner())
+            .pop();
         let ds = match idle {
             Some(ds) => ds,
             None => Dataset::open(&self.info.path)?,
         };
         let result = f(&ds);
-        self.idle_handles.lock().unwrap_or_else(|p| p.into_inner()).push(ds);
+        self.idle_handles
+            .lock()
+            .unwrap_or_else(|p| p.into_inner())
+            .push(ds);
         result
     }
 
-    fn read_err(&self, col: isize, row: isize, width: usize, height: usize, e: gdal::errors::GdalError) -> TerrainError {
-        TerrainError::Read { path: self.info.path.clone(), col: col as usize, row: row as usize, width, height, reason: e.to_string() }
+    fn read_err(
+        &self,
+        col: isize,
+        row: isize,
+        width: usize,
+        height: usize,
+        e: gdal::errors::GdalError,
+    ) -> TerrainError {
+        TerrainError::Read {
+            path: self.info.path.clone(),
+            col: col as usize,
+            row: row as usize,
+            width,
+            height,
+            reason: e.to_string(),
+        }
     }
 
     /// Height range and valid fraction over the whole raster, reading strip by strip so memory
     /// stays bounded. Returns `None` for the range when there is no valid height.
-    pub fn scan_stats(&self, mut progress: impl FnMut(usize, usize)) -> Result<RasterStats, TerrainError> {
+    pub fn scan_stats(
+        &self,
+        mut progress: impl FnMut(usize, usize),
+    ) -> Result<RasterStats, TerrainError> {
         let strip = (8_000_000 / self.info.width.max(1)).clamp(1, self.info.height);
         let (mut lo, mut hi, mut valid, mut total) = (f64::INFINITY, f64::NEG_INFINITY, 0u64, 0u64);
         let mut row = 0;
@@ -402,7 +565,11 @@ impl Dem {
             row += h;
             progress(row, self.info.height);
         }
-        Ok(RasterStats { min_m: (valid > 0).then_some(lo), max_m: (valid > 0).then_some(hi), valid_fraction: valid as f64 / total.max(1) as f64 })
+        Ok(RasterStats {
+            min_m: (valid > 0).then_some(lo),
+            max_m: (valid > 0).then_some(hi),
+            valid_fraction: valid as f64 / total.max(1) as f64,
+        })
     }
 }
 
@@ -423,7 +590,8 @@ const IAU_2015_MOON_CODES: [u32; 5] = [30100, 30110, 30115, 30130, 30135];
 
 /// The IAU 2015 code whose definition (as PROJ gives it) equals this projection and radius.
 fn identify_iau_moon(projection: &MapProjection, radius_m: f64) -> Option<String> {
-    static KNOWN: std::sync::OnceLock<Vec<(String, MapProjection, f64)>> = std::sync::OnceLock::new();
+    static KNOWN: std::sync::OnceLock<Vec<(String, MapProjection, f64)>> =
+        std::sync::OnceLock::new();
     let known = KNOWN.get_or_init(|| {
         IAU_2015_MOON_CODES
             .iter()
@@ -435,7 +603,10 @@ fn identify_iau_moon(projection: &MapProjection, radius_m: f64) -> Option<String
             })
             .collect()
     });
-    known.iter().find(|(_, p, r)| p == projection && (r - radius_m).abs() < 1e-3).map(|(n, _, _)| n.clone())
+    known
+        .iter()
+        .find(|(_, p, r)| p == projection && (r - radius_m).abs() < 1e-3)
+        .map(|(n, _, _)| n.clone())
 }
 
 /// Median of a small decimated read, to recognise files whose values are radii.
@@ -444,7 +615,12 @@ fn coarse_median(ds: &Dataset, nodata: Option<f64>) -> Option<f64> {
     let (w, h) = band.size();
     let (bw, bh) = (w.min(64), h.min(64));
     let buf = band.read_as::<f64>((0, 0), (w, h), (bw, bh), None).ok()?;
-    let mut v: Vec<f64> = buf.data().iter().copied().filter(|x| !x.is_nan() && Some(*x) != nodata).collect();
+    let mut v: Vec<f64> = buf
+        .data()
+        .iter()
+        .copied()
+        .filter(|x| !x.is_nan() && Some(*x) != nodata)
+        .collect();
     if v.is_empty() {
         return None;
     }
@@ -462,8 +638,16 @@ fn extent(g: &GridGeometry) -> ((f64, f64), (f64, f64), bool) {
                 let (x, _) = g.pixel_to_map(col, 0.0);
                 match g.projection {
                     MapProjection::Geographic => x,
-                    MapProjection::Equirectangular { lon0_deg, lat_ts_deg, false_easting_m, .. } => {
-                        lon0_deg + ((x - false_easting_m) / (g.body_radius_m * lat_ts_deg.to_radians().cos())).to_degrees()
+                    MapProjection::Equirectangular {
+                        lon0_deg,
+                        lat_ts_deg,
+                        false_easting_m,
+                        ..
+                    } => {
+                        lon0_deg
+                            + ((x - false_easting_m)
+                                / (g.body_radius_m * lat_ts_deg.to_radians().cos()))
+                            .to_degrees()
                     }
                     _ => unreachable!(),
                 }
@@ -471,7 +655,10 @@ fn extent(g: &GridGeometry) -> ((f64, f64), (f64, f64), bool) {
             let (a, b) = (lon_of(0.0), lon_of(g.width as f64));
             let (lo, hi) = (a.min(b), a.max(b));
             let lat_a = g.pixel_to_lonlat(0.0, 0.0).map(|p| p.1).unwrap_or(f64::NAN);
-            let lat_b = g.pixel_to_lonlat(0.0, g.height as f64).map(|p| p.1).unwrap_or(f64::NAN);
+            let lat_b = g
+                .pixel_to_lonlat(0.0, g.height as f64)
+                .map(|p| p.1)
+                .unwrap_or(f64::NAN);
             // 180 (or -180, 540...) strictly inside (lo, hi)?
             let k = ((lo - 180.0) / 360.0).floor() + 1.0;
             let crosses = 180.0 + 360.0 * k < hi - 1e-9;
@@ -484,7 +671,13 @@ fn extent(g: &GridGeometry) -> ((f64, f64), (f64, f64), bool) {
             for i in 0..=n {
                 let t = i as f64 / n as f64;
                 let (w, h) = (g.width as f64, g.height as f64);
-                for (c, r) in [(t * w, 0.0), (t * w, h), (0.0, t * h), (w, t * h), (t * w, t * h)] {
+                for (c, r) in [
+                    (t * w, 0.0),
+                    (t * w, h),
+                    (0.0, t * h),
+                    (w, t * h),
+                    (t * w, t * h),
+                ] {
                     if let Some(p) = g.pixel_to_lonlat(c, r) {
                         pts.push(p);
                     }

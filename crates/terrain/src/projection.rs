@@ -15,17 +15,37 @@ pub enum MapProjection {
     /// Plain longitude/latitude in degrees (x = lon, y = lat).
     Geographic,
     /// Simple cylindrical: x = R (lon - lon0) cos(lat_ts), y = R lat.
-    Equirectangular { lon0_deg: f64, lat_ts_deg: f64, false_easting_m: f64, false_northing_m: f64 },
+    Equirectangular {
+        lon0_deg: f64,
+        lat_ts_deg: f64,
+        false_easting_m: f64,
+        false_northing_m: f64,
+    },
     /// Polar stereographic on the north or south pole, true scale at `lat_ts_deg`.
-    PolarStereographic { south: bool, lon0_deg: f64, lat_ts_deg: f64, false_easting_m: f64, false_northing_m: f64 },
+    PolarStereographic {
+        south: bool,
+        lon0_deg: f64,
+        lat_ts_deg: f64,
+        false_easting_m: f64,
+        false_northing_m: f64,
+    },
     /// Orthographic view centred on (lon0, lat0).
-    Orthographic { lon0_deg: f64, lat0_deg: f64, false_easting_m: f64, false_northing_m: f64 },
+    Orthographic {
+        lon0_deg: f64,
+        lat0_deg: f64,
+        false_easting_m: f64,
+        false_northing_m: f64,
+    },
 }
 
 /// Wrap a longitude difference into [-180, 180).
 pub fn wrap_deg_180(d: f64) -> f64 {
     let w = (d + 180.0).rem_euclid(360.0) - 180.0;
-    if w.is_nan() { d } else { w }
+    if w.is_nan() {
+        d
+    } else {
+        w
+    }
 }
 
 impl MapProjection {
@@ -36,32 +56,58 @@ impl MapProjection {
         let r = radius_m;
         match *self {
             MapProjection::Geographic => Some((lon_deg, lat_deg)),
-            MapProjection::Equirectangular { lon0_deg, lat_ts_deg, false_easting_m, false_northing_m } => {
+            MapProjection::Equirectangular {
+                lon0_deg,
+                lat_ts_deg,
+                false_easting_m,
+                false_northing_m,
+            } => {
                 let dl = wrap_deg_180(lon_deg - lon0_deg).to_radians();
                 Some((
                     false_easting_m + r * dl * lat_ts_deg.to_radians().cos(),
                     false_northing_m + r * lat_deg.to_radians(),
                 ))
             }
-            MapProjection::PolarStereographic { south, lon0_deg, lat_ts_deg, false_easting_m, false_northing_m } => {
+            MapProjection::PolarStereographic {
+                south,
+                lon0_deg,
+                lat_ts_deg,
+                false_easting_m,
+                false_northing_m,
+            } => {
                 let k0 = (1.0 + lat_ts_deg.to_radians().sin().abs()) / 2.0;
                 let phi = lat_deg.to_radians();
                 let dl = (lon_deg - lon0_deg).to_radians();
                 let rho = if south {
-                    if lat_deg >= 90.0 { return None; }
+                    if lat_deg >= 90.0 {
+                        return None;
+                    }
                     2.0 * r * k0 * (FRAC_PI_4 + phi / 2.0).tan()
                 } else {
-                    if lat_deg <= -90.0 { return None; }
+                    if lat_deg <= -90.0 {
+                        return None;
+                    }
                     2.0 * r * k0 * (FRAC_PI_4 - phi / 2.0).tan()
                 };
-                let (x, y) = if south { (rho * dl.sin(), rho * dl.cos()) } else { (rho * dl.sin(), -rho * dl.cos()) };
+                let (x, y) = if south {
+                    (rho * dl.sin(), rho * dl.cos())
+                } else {
+                    (rho * dl.sin(), -rho * dl.cos())
+                };
                 Some((false_easting_m + x, false_northing_m + y))
             }
-            MapProjection::Orthographic { lon0_deg, lat0_deg, false_easting_m, false_northing_m } => {
+            MapProjection::Orthographic {
+                lon0_deg,
+                lat0_deg,
+                false_easting_m,
+                false_northing_m,
+            } => {
                 let (phi, phi0) = (lat_deg.to_radians(), lat0_deg.to_radians());
                 let dl = (lon_deg - lon0_deg).to_radians();
                 let cosc = phi0.sin() * phi.sin() + phi0.cos() * phi.cos() * dl.cos();
-                if cosc < 0.0 { return None; }
+                if cosc < 0.0 {
+                    return None;
+                }
                 let x = r * phi.cos() * dl.sin();
                 let y = r * (phi0.cos() * phi.sin() - phi0.sin() * phi.cos() * dl.cos());
                 Some((false_easting_m + x, false_northing_m + y))
@@ -74,14 +120,28 @@ impl MapProjection {
         let r = radius_m;
         let (lon, lat) = match *self {
             MapProjection::Geographic => (x, y),
-            MapProjection::Equirectangular { lon0_deg, lat_ts_deg, false_easting_m, false_northing_m } => {
+            MapProjection::Equirectangular {
+                lon0_deg,
+                lat_ts_deg,
+                false_easting_m,
+                false_northing_m,
+            } => {
                 let lat = ((y - false_northing_m) / r).to_degrees();
                 // Products round their pixel scale (LOLA: 7580.84 m), so edges may overshoot the pole slightly.
-                if lat.abs() > 90.0 + 1e-3 { return None; }
-                let lon = lon0_deg + ((x - false_easting_m) / (r * lat_ts_deg.to_radians().cos())).to_degrees();
+                if lat.abs() > 90.0 + 1e-3 {
+                    return None;
+                }
+                let lon = lon0_deg
+                    + ((x - false_easting_m) / (r * lat_ts_deg.to_radians().cos())).to_degrees();
                 (lon, lat.clamp(-90.0, 90.0))
             }
-            MapProjection::PolarStereographic { south, lon0_deg, lat_ts_deg, false_easting_m, false_northing_m } => {
+            MapProjection::PolarStereographic {
+                south,
+                lon0_deg,
+                lat_ts_deg,
+                false_easting_m,
+                false_northing_m,
+            } => {
                 let k0 = (1.0 + lat_ts_deg.to_radians().sin().abs()) / 2.0;
                 let (x, y) = (x - false_easting_m, y - false_northing_m);
                 let rho = x.hypot(y);
@@ -94,12 +154,21 @@ impl MapProjection {
                     (lon0_deg + x.atan2(-y).to_degrees(), lat.to_degrees())
                 }
             }
-            MapProjection::Orthographic { lon0_deg, lat0_deg, false_easting_m, false_northing_m } => {
+            MapProjection::Orthographic {
+                lon0_deg,
+                lat0_deg,
+                false_easting_m,
+                false_northing_m,
+            } => {
                 let (x, y) = (x - false_easting_m, y - false_northing_m);
                 let rho = x.hypot(y);
-                if rho > r * (1.0 + 1e-12) { return None; }
+                if rho > r * (1.0 + 1e-12) {
+                    return None;
+                }
                 let phi0 = lat0_deg.to_radians();
-                if rho == 0.0 { return Some((wrap_deg_180(lon0_deg), lat0_deg)); }
+                if rho == 0.0 {
+                    return Some((wrap_deg_180(lon0_deg), lat0_deg));
+                }
                 let c = (rho / r).min(1.0).asin();
                 let lat = (c.cos() * phi0.sin() + y * c.sin() * phi0.cos() / rho).asin();
                 let lon = lon0_deg.to_radians()
@@ -128,11 +197,18 @@ impl MapProjection {
         for tok in proj4.split_whitespace() {
             let tok = tok.trim_start_matches('+');
             if let Some((k, v)) = tok.split_once('=') {
-                if k == "proj" { kind = v; } else { p.insert(k.to_string(), v.to_string()); }
+                if k == "proj" {
+                    kind = v;
+                } else {
+                    p.insert(k.to_string(), v.to_string());
+                }
             }
         }
         let num = |k: &str| p.get(k).and_then(|v| v.parse::<f64>().ok()).unwrap_or(0.0);
-        let radius = p.get("R").or_else(|| p.get("a")).and_then(|v| v.parse::<f64>().ok());
+        let radius = p
+            .get("R")
+            .or_else(|| p.get("a"))
+            .and_then(|v| v.parse::<f64>().ok());
         let (fe, fn_) = (num("x_0"), num("y_0"));
         let proj = match kind {
             "longlat" | "latlong" | "lonlat" | "latlon" => MapProjection::Geographic,

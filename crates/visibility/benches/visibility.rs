@@ -21,7 +21,8 @@ fn sites() -> Vec<(f64, f64)> {
 }
 
 fn bench(c: &mut Criterion) {
-    let grid = common::geographic_grid(180.0, 16.0, 1.0, 0.001, common::bowl(1600.0, 4000.0, 300.0));
+    let grid =
+        common::geographic_grid(180.0, 16.0, 1.0, 0.001, common::bowl(1600.0, 4000.0, 300.0));
     let opts = visibility::VisibilityOptions::default();
     let sites = sites();
     let _ = visibility::LibrationEnvelope::standard();
@@ -31,7 +32,14 @@ fn bench(c: &mut Criterion) {
     });
     let prepared = visibility::HorizonTerrain::new(&grid);
     c.bench_function("one_site_with_prepared_grid", |b| {
-        b.iter(|| visibility::site_visibility_prepared(black_box(180.0), black_box(16.0), prepared.as_ref(), &opts))
+        b.iter(|| {
+            visibility::site_visibility_prepared(
+                black_box(180.0),
+                black_box(16.0),
+                prepared.as_ref(),
+                &opts,
+            )
+        })
     });
     c.bench_function("libration_envelope_compute", |b| {
         b.iter(|| visibility::LibrationEnvelope::compute(2_460_676.5, 6800.0, 0.25))

@@ -60,16 +60,20 @@ pub const IAU_MOON_E: [(f64, f64); 13] = [
 ];
 /// Pole right ascension: a0 + a1 T + sum(coef_i * sin E_i), degrees.
 pub const IAU_MOON_RA0_DEG: [f64; 2] = [269.9949, 0.0031];
-pub const IAU_MOON_RA_SIN: [f64; 13] =
-    [-3.8787, -0.1204, 0.0700, -0.0172, 0.0, 0.0072, 0.0, 0.0, 0.0, -0.0052, 0.0, 0.0, 0.0043];
+pub const IAU_MOON_RA_SIN: [f64; 13] = [
+    -3.8787, -0.1204, 0.0700, -0.0172, 0.0, 0.0072, 0.0, 0.0, 0.0, -0.0052, 0.0, 0.0, 0.0043,
+];
 /// Pole declination: d0 + d1 T + sum(coef_i * cos E_i), degrees.
 pub const IAU_MOON_DEC0_DEG: [f64; 2] = [66.5392, 0.0130];
-pub const IAU_MOON_DEC_COS: [f64; 13] =
-    [1.5419, -0.0239, -0.0278, 0.0068, 0.0, -0.0029, 0.0009, 0.0, 0.0, 0.0008, 0.0, 0.0, -0.0009];
+pub const IAU_MOON_DEC_COS: [f64; 13] = [
+    1.5419, -0.0239, -0.0278, 0.0068, 0.0, -0.0029, 0.0009, 0.0, 0.0, 0.0008, 0.0, 0.0, -0.0009,
+];
 /// Prime meridian: w0 + w1 d + w2 d^2 + sum(coef_i * sin E_i), degrees.
 pub const IAU_MOON_W_DEG: [f64; 3] = [38.3213, 13.176_358_15, -1.4e-12];
-pub const IAU_MOON_W_SIN: [f64; 13] =
-    [3.5610, 0.1208, -0.0642, 0.0158, 0.0252, -0.0066, -0.0047, -0.0046, 0.0028, 0.0052, 0.0040, 0.0019, -0.0044];
+pub const IAU_MOON_W_SIN: [f64; 13] = [
+    3.5610, 0.1208, -0.0642, 0.0158, 0.0252, -0.0066, -0.0047, -0.0046, 0.0028, 0.0052, 0.0040,
+    0.0019, -0.0044,
+];
 
 /// Speed of light, m/s (exact, SI).
 pub const SPEED_OF_LIGHT_M_S: f64 = 299_792_458.0;

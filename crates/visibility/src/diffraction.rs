@@ -9,7 +9,9 @@
 //! not valid within a fraction of a degree of it), the regolith's finite conductivity, terrain
 //! edges and the ionosphere of the Earth: treat it as an order of magnitude, not a margin.
 
-use crate::constants::{AIRY_AI_FIRST_ZERO, AIRY_AI_PRIME_FIRST_ZERO, MOON_RADIUS_KM, SPEED_OF_LIGHT_M_S};
+use crate::constants::{
+    AIRY_AI_FIRST_ZERO, AIRY_AI_PRIME_FIRST_ZERO, MOON_RADIUS_KM, SPEED_OF_LIGHT_M_S,
+};
 use serde::Serialize;
 
 /// Attenuation in dB, (hard boundary, soft boundary), after `shadow_angle_deg` into the lunar
@@ -40,7 +42,12 @@ pub fn estimate_table(shadow_angle_deg: f64) -> Vec<DiffractionEstimate> {
         .iter()
         .map(|&f| {
             let (h, s) = creeping_wave_attenuation_db(shadow_angle_deg, f);
-            DiffractionEstimate { frequency_hz: f, shadow_angle_deg, attenuation_hard_db: h, attenuation_soft_db: s }
+            DiffractionEstimate {
+                frequency_hz: f,
+                shadow_angle_deg,
+                attenuation_hard_db: h,
+                attenuation_soft_db: s,
+            }
         })
         .collect()
 }

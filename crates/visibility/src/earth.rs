@@ -23,7 +23,14 @@ pub fn earth_elevation_deg(theta_deg: f64, d_km: f64, site_height_m: f64) -> (f6
     let (v, h) = (d_km * c - rho, d_km * s);
     let centre = v.atan2(h).to_degrees();
     let range = v.hypot(h);
-    (centre, centre + (EARTH_EQUATORIAL_RADIUS_KM / range).clamp(-1.0, 1.0).asin().to_degrees())
+    (
+        centre,
+        centre
+            + (EARTH_EQUATORIAL_RADIUS_KM / range)
+                .clamp(-1.0, 1.0)
+                .asin()
+                .to_degrees(),
+    )
 }
 
 /// The worst case of the Earth against the horizon for one site.
@@ -61,7 +68,12 @@ fn test_points(env: &LibrationEnvelope, lon_deg: f64, lat_deg: f64) -> (Vec<(f64
 
 /// Which of `n_azimuths` evenly spaced rays the Earth margin reads: the two rays either side
 /// of every azimuth the Earth can stand at (the skyline is interpolated between them).
-pub fn rays_needed(env: &LibrationEnvelope, lon_deg: f64, lat_deg: f64, n_azimuths: usize) -> Vec<bool> {
+pub fn rays_needed(
+    env: &LibrationEnvelope,
+    lon_deg: f64,
+    lat_deg: f64,
+    n_azimuths: usize,
+) -> Vec<bool> {
     let n = n_azimuths.max(4);
     let (pts, inside) = test_points(env, lon_deg, lat_deg);
     if inside {
@@ -79,7 +91,12 @@ pub fn rays_needed(env: &LibrationEnvelope, lon_deg: f64, lat_deg: f64, n_azimut
 }
 
 /// Earth margin of a site with its horizon, over the libration envelope.
-pub fn earth_margin(env: &LibrationEnvelope, lon_deg: f64, lat_deg: f64, horizon: &Horizon) -> EarthMargin {
+pub fn earth_margin(
+    env: &LibrationEnvelope,
+    lon_deg: f64,
+    lat_deg: f64,
+    horizon: &Horizon,
+) -> EarthMargin {
     let site = (lon_deg, lat_deg);
     let d_km = env.distance_min_km;
     let (pts, inside) = test_points(env, lon_deg, lat_deg);
@@ -97,7 +114,11 @@ pub fn earth_margin(env: &LibrationEnvelope, lon_deg: f64, lat_deg: f64, horizon
     for &p in &pts {
         let theta_deg = central_angle_rad(site, p).to_degrees();
         // At the site itself the azimuth is undefined; any skyline value bounds it the same way.
-        let az = if theta_deg < 1e-9 { 0.0 } else { azimuth_deg(site, p) };
+        let az = if theta_deg < 1e-9 {
+            0.0
+        } else {
+            azimuth_deg(site, p)
+        };
         let (_, limb) = earth_elevation_deg(theta_deg, d_km, horizon.site_height_m);
         let (_, limb_datum) = earth_elevation_deg(theta_deg, d_km, 0.0);
         let sky = horizon.at(az);
@@ -128,7 +149,10 @@ pub fn earth_zone_from_site(
         .iter()
         .map(|&p| {
             let theta = central_angle_rad(site, p).to_degrees();
-            (azimuth_deg(site, p), earth_elevation_deg(theta, env.distance_min_km, site_height_m).0)
+            (
+                azimuth_deg(site, p),
+                earth_elevation_deg(theta, env.distance_min_km, site_height_m).0,
+            )
         })
         .collect()
 }

@@ -64,7 +64,10 @@ pub fn unit(lon_deg: f64, lat_deg: f64) -> Vec3 {
 /// (longitude in [0, 360), latitude) in degrees of any non-zero vector.
 pub fn lonlat(v: &Vec3) -> (f64, f64) {
     let r = dot(v, v).sqrt();
-    (v[1].atan2(v[0]).to_degrees().rem_euclid(360.0), (v[2] / r).clamp(-1.0, 1.0).asin().to_degrees())
+    (
+        v[1].atan2(v[0]).to_degrees().rem_euclid(360.0),
+        (v[2] / r).clamp(-1.0, 1.0).asin().to_degrees(),
+    )
 }
 
 /// Mean obliquity of the ecliptic of date, degrees (Meeus 1998 eq. 22.2).
@@ -78,14 +81,21 @@ pub fn mean_obliquity_deg(jd_tt: f64) -> f64 {
 pub fn precession_from_j2000(jd_tt: f64) -> Mat3 {
     let t = centuries_tt(jd_tt);
     let p = |c: [f64; 3]| t * (c[0] + t * (c[1] + t * c[2])) / 3600.0;
-    let (zeta, z, theta) = (p(PRECESSION_ZETA_ARCSEC), p(PRECESSION_Z_ARCSEC), p(PRECESSION_THETA_ARCSEC));
+    let (zeta, z, theta) = (
+        p(PRECESSION_ZETA_ARCSEC),
+        p(PRECESSION_Z_ARCSEC),
+        p(PRECESSION_THETA_ARCSEC),
+    );
     mul(&r3(-z), &mul(&r2(theta), &r3(-zeta)))
 }
 
 /// From the mean ecliptic and equinox of date to the J2000 mean equator.
 pub fn ecliptic_of_date_to_j2000(jd_tt: f64) -> Mat3 {
     let to_equator_of_date = r1(-mean_obliquity_deg(jd_tt));
-    mul(&transpose(&precession_from_j2000(jd_tt)), &to_equator_of_date)
+    mul(
+        &transpose(&precession_from_j2000(jd_tt)),
+        &to_equator_of_date,
+    )
 }
 
 /// From the J2000 mean equator to the J2000 mean ecliptic.
@@ -96,7 +106,10 @@ pub fn j2000_to_ecliptic_j2000() -> Mat3 {
 /// From the J2000 equator (ICRS to the precision that matters here) to galactic coordinates:
 /// bring the galactic pole to +z, then put the north celestial pole at its galactic longitude.
 pub fn j2000_to_galactic() -> Mat3 {
-    mul(&r3(180.0 - GALACTIC_NCP_LON_DEG), &mul(&r2(90.0 - GALACTIC_POLE_DEC_DEG), &r3(GALACTIC_POLE_RA_DEG)))
+    mul(
+        &r3(180.0 - GALACTIC_NCP_LON_DEG),
+        &mul(&r2(90.0 - GALACTIC_POLE_DEC_DEG), &r3(GALACTIC_POLE_RA_DEG)),
+    )
 }
 
 /// Orientation of the Moon from the IAU rotation model: pole (RA, Dec) in the J2000 frame and
@@ -113,8 +126,10 @@ impl MoonOrientation {
     pub fn at(jd_tdb: f64) -> Self {
         let d = jd_tdb - JD_J2000;
         let t = d / DAYS_PER_JULIAN_CENTURY;
-        let (mut ra, mut dec) =
-            (IAU_MOON_RA0_DEG[0] + IAU_MOON_RA0_DEG[1] * t, IAU_MOON_DEC0_DEG[0] + IAU_MOON_DEC0_DEG[1] * t);
+        let (mut ra, mut dec) = (
+            IAU_MOON_RA0_DEG[0] + IAU_MOON_RA0_DEG[1] * t,
+            IAU_MOON_DEC0_DEG[0] + IAU_MOON_DEC0_DEG[1] * t,
+        );
         let mut w = IAU_MOON_W_DEG[0] + IAU_MOON_W_DEG[1] * d + IAU_MOON_W_DEG[2] * d * d;
         for (i, &(e0, rate)) in IAU_MOON_E.iter().enumerate() {
             let (s, c) = (e0 + rate * d).rem_euclid(360.0).to_radians().sin_cos();
@@ -122,7 +137,11 @@ impl MoonOrientation {
             dec += IAU_MOON_DEC_COS[i] * c;
             w += IAU_MOON_W_SIN[i] * s;
         }
-        MoonOrientation { pole_ra_deg: ra, pole_dec_deg: dec, w_deg: w.rem_euclid(360.0) }
+        MoonOrientation {
+            pole_ra_deg: ra,
+            pole_dec_deg: dec,
+            w_deg: w.rem_euclid(360.0),
+        }
     }
 
     /// Unit vector of the Moon's north pole in the J2000 frame.

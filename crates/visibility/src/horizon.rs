@@ -56,7 +56,10 @@ pub struct Horizon {
 /// Dip of the bare sphere's horizon for an observer `height_m` above it, degrees.
 pub fn sphere_dip_deg(radius_m: f64, height_m: f64) -> f64 {
     if height_m > 0.0 {
-        -(radius_m / (radius_m + height_m)).clamp(-1.0, 1.0).acos().to_degrees()
+        -(radius_m / (radius_m + height_m))
+            .clamp(-1.0, 1.0)
+            .acos()
+            .to_degrees()
     } else {
         0.0
     }
@@ -76,7 +79,15 @@ impl Horizon {
         max_distance_m: f64,
         n_azimuths: usize,
     ) -> Horizon {
-        Self::compute_rays(lon_deg, lat_deg, terrain, observer_height_m, max_distance_m, n_azimuths, None)
+        Self::compute_rays(
+            lon_deg,
+            lat_deg,
+            terrain,
+            observer_height_m,
+            max_distance_m,
+            n_azimuths,
+            None,
+        )
     }
 
     /// As [`Horizon::compute`], marching only the rays whose `wanted[i]` is true (the others
@@ -113,10 +124,23 @@ impl Horizon {
                 if wanted.is_some_and(|w| !w.get(i).copied().unwrap_or(true)) {
                     return dip;
                 }
-                ray_max_elevation_deg(t, &steps, (lon_deg, lat_deg), hs, i as f64 * 360.0 / n as f64).max(dip)
+                ray_max_elevation_deg(
+                    t,
+                    &steps,
+                    (lon_deg, lat_deg),
+                    hs,
+                    i as f64 * 360.0 / n as f64,
+                )
+                .max(dip)
             })
             .collect();
-        Horizon { elevation_deg, site_height_m: hs, sphere_horizon_deg: dip, max_distance_m, from_terrain: true }
+        Horizon {
+            elevation_deg,
+            site_height_m: hs,
+            sphere_horizon_deg: dip,
+            max_distance_m,
+            from_terrain: true,
+        }
     }
 
     /// Skyline elevation at any azimuth, linearly interpolated between the marched rays.
@@ -131,7 +155,11 @@ impl Horizon {
     /// (azimuth, elevation) pairs in degrees, for tables and polar plots.
     pub fn pairs(&self) -> Vec<(f64, f64)> {
         let n = self.elevation_deg.len();
-        self.elevation_deg.iter().enumerate().map(|(i, &e)| (i as f64 * 360.0 / n as f64, e)).collect()
+        self.elevation_deg
+            .iter()
+            .enumerate()
+            .map(|(i, &e)| (i as f64 * 360.0 / n as f64, e))
+            .collect()
     }
 }
 
@@ -162,13 +190,27 @@ impl Steps {
 /// below a pixel, and it saves most of the trigonometry.
 const EXACT_EVERY: usize = 8;
 
-fn window_pixel(t: &HorizonTerrain, site: (f64, f64), azimuth_deg: f64, d_m: f64) -> Option<(f64, f64)> {
+fn window_pixel(
+    t: &HorizonTerrain,
+    site: (f64, f64),
+    azimuth_deg: f64,
+    d_m: f64,
+) -> Option<(f64, f64)> {
     let (lon, lat) = destination(t.radius_m, site, azimuth_deg, d_m);
     let (col, row) = t.grid.geometry.lonlat_to_pixel(lon, lat)?;
-    Some((col - 0.5 - t.grid.col0 as f64, row - 0.5 - t.grid.row0 as f64))
+    Some((
+        col - 0.5 - t.grid.col0 as f64,
+        row - 0.5 - t.grid.row0 as f64,
+    ))
 }
 
-fn ray_max_elevation_deg(t: &HorizonTerrain, steps: &Steps, site: (f64, f64), hs: f64, azimuth_deg: f64) -> f64 {
+fn ray_max_elevation_deg(
+    t: &HorizonTerrain,
+    steps: &Steps,
+    site: (f64, f64),
+    hs: f64,
+    azimuth_deg: f64,
+) -> f64 {
     let r = t.radius_m;
     if t.height_max_m <= hs || steps.d_m.is_empty() {
         // No terrain rises to the observer: the sphere's dip is the skyline.
@@ -177,11 +219,15 @@ fn ray_max_elevation_deg(t: &HorizonTerrain, steps: &Steps, site: (f64, f64), hs
     let (w, h) = (t.grid.width as f64, t.grid.height as f64);
     let n = steps.d_m.len();
     let mut best_tan = f64::NEG_INFINITY;
-    let Some(mut a) = window_pixel(t, site, azimuth_deg, steps.d_m[0]) else { return best_tan };
+    let Some(mut a) = window_pixel(t, site, azimuth_deg, steps.d_m[0]) else {
+        return best_tan;
+    };
     let mut k0 = 0;
     'ray: while k0 < n {
         let k1 = (k0 + EXACT_EVERY).min(n - 1);
-        let Some(b) = window_pixel(t, site, azimuth_deg, steps.d_m[k1]) else { break };
+        let Some(b) = window_pixel(t, site, azimuth_deg, steps.d_m[k1]) else {
+            break;
+        };
         // A jump of half the window means the ray crossed a wrap seam: stop interpolating.
         let straight = (b.0 - a.0).abs() < w / 2.0 && (b.1 - a.1).abs() < h / 2.0;
         let last = if k1 == n - 1 { k1 + 1 } else { k1 };
@@ -235,5 +281,13 @@ pub fn horizon_profile(
     n_azimuths: usize,
 ) -> Vec<(f64, f64)> {
     let terrain = grid.and_then(HorizonTerrain::new);
-    Horizon::compute(lon_deg, lat_deg, terrain.as_ref(), 0.0, max_distance_m, n_azimuths).pairs()
+    Horizon::compute(
+        lon_deg,
+        lat_deg,
+        terrain.as_ref(),
+        0.0,
+        max_distance_m,
+        n_azimuths,
+    )
+    .pairs()
 }

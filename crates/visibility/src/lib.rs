@@ -130,7 +130,11 @@ fn invalid() -> SiteVisibility {
 /// [`site_visibility`] for many (lon, lat) sites in parallel, sharing one grid. The libration
 /// envelope and the pole cycle are computed once per process, the grid's height range once
 /// per call. Output order follows `sites`.
-pub fn bulk(sites: &[(f64, f64)], grid: Option<&ElevationGrid>, opts: &VisibilityOptions) -> Vec<SiteVisibility> {
+pub fn bulk(
+    sites: &[(f64, f64)],
+    grid: Option<&ElevationGrid>,
+    opts: &VisibilityOptions,
+) -> Vec<SiteVisibility> {
     use rayon::prelude::*;
     if opts.validate().is_err() {
         return vec![invalid(); sites.len()];
@@ -161,14 +165,34 @@ pub fn site_report(
     let env = LibrationEnvelope::standard();
     let cycle = PoleCycle::standard();
     // The table: every 10 deg, read from a 360-ray horizon so it needs no interpolation.
-    let fine =
-        Horizon::compute(lon_deg, lat_deg, terrain.as_ref(), opts.observer_height_m, opts.horizon_max_distance_m, 360);
+    let fine = Horizon::compute(
+        lon_deg,
+        lat_deg,
+        terrain.as_ref(),
+        opts.observer_height_m,
+        opts.horizon_max_distance_m,
+        360,
+    );
     let horizon_table = (0..36)
-        .map(|i| HorizonRow { azimuth_deg: i as f64 * 10.0, elevation_deg: fine.elevation_deg[i * 10] })
+        .map(|i| HorizonRow {
+            azimuth_deg: i as f64 * 10.0,
+            elevation_deg: fine.elevation_deg[i * 10],
+        })
         .collect();
     let (hpbw, null) = sky::beam_widths_deg(opts.aperture_m, opts.frequency_hz);
-    let track = beam_track_galactic(lon_deg, lat_deg, env.start_jd_tt, sky::TRACK_PERIOD_DAYS, 720);
-    let b = track.iter().map(|p| p.1).fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), x| (lo.min(x), hi.max(x)));
+    let track = beam_track_galactic(
+        lon_deg,
+        lat_deg,
+        env.start_jd_tt,
+        sky::TRACK_PERIOD_DAYS,
+        720,
+    );
+    let b = track
+        .iter()
+        .map(|p| p.1)
+        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), x| {
+            (lo.min(x), hi.max(x))
+        });
     let sky = SkySummary {
         gc_separation_deg: v.gc_separation_deg,
         gc_separation_worst_month_deg: cycle.gc_separation_worst_month_deg(lat_deg),

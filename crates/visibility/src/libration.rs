@@ -42,7 +42,9 @@ fn optical_with_a(jd_tt: f64) -> (f64, f64, f64) {
     let beta = pos.lat_deg.to_radians();
     let a = (w.sin() * beta.cos() * i.cos() - beta.sin() * i.sin()).atan2(w.cos() * beta.cos());
     let l = wrap_deg_180(a.to_degrees() - args.f_deg);
-    let b = (-w.sin() * beta.cos() * i.sin() - beta.sin() * i.cos()).asin().to_degrees();
+    let b = (-w.sin() * beta.cos() * i.sin() - beta.sin() * i.cos())
+        .asin()
+        .to_degrees();
     (l, b, a.to_degrees())
 }
 
@@ -108,7 +110,10 @@ pub fn total_libration_meeus(jd_tt: f64) -> (f64, f64) {
 /// The Moon's geocentric position in the J2000 equatorial frame, km.
 pub fn moon_j2000_km(jd_tt: f64) -> [f64; 3] {
     let p = moon_position(jd_tt);
-    let u = apply(&ecliptic_of_date_to_j2000(jd_tt), &unit(p.lon_deg, p.lat_deg));
+    let u = apply(
+        &ecliptic_of_date_to_j2000(jd_tt),
+        &unit(p.lon_deg, p.lat_deg),
+    );
     u.map(|c| c * p.distance_km)
 }
 
@@ -164,9 +169,16 @@ impl LibrationEnvelope {
         // Serial on purpose: this runs inside a `OnceLock` initialiser that may be reached from
         // rayon workers, and a nested parallel loop could steal a task that waits on the same
         // lock from the initialising thread.
-        let samples: Vec<SubEarthPoint> = (0..n).map(|i| sub_earth_point(start_jd_tt + i as f64 * step_days)).collect();
+        let samples: Vec<SubEarthPoint> = (0..n)
+            .map(|i| sub_earth_point(start_jd_tt + i as f64 * step_days))
+            .collect();
         let fold = |f: fn(&SubEarthPoint) -> f64| {
-            samples.iter().map(f).fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| (lo.min(v), hi.max(v)))
+            samples
+                .iter()
+                .map(f)
+                .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+                    (lo.min(v), hi.max(v))
+                })
         };
         let (lon_min_deg, lon_max_deg) = fold(|s| s.lon_deg);
         let (lat_min_deg, lat_max_deg) = fold(|s| s.lat_deg);
@@ -189,7 +201,9 @@ impl LibrationEnvelope {
     /// The envelope over the standard cycle (see the type's doc), computed once per process.
     pub fn standard() -> &'static LibrationEnvelope {
         static CELL: OnceLock<LibrationEnvelope> = OnceLock::new();
-        CELL.get_or_init(|| LibrationEnvelope::compute(ENVELOPE_START_JD_TT, ENVELOPE_SPAN_DAYS, ENVELOPE_STEP_DAYS))
+        CELL.get_or_init(|| {
+            LibrationEnvelope::compute(ENVELOPE_START_JD_TT, ENVELOPE_SPAN_DAYS, ENVELOPE_STEP_DAYS)
+        })
     }
 
     /// Whether a selenographic point lies inside the outline (the Earth can stand at its zenith).
@@ -219,10 +233,15 @@ fn convex_hull(mut pts: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
     let mut hull: Vec<(f64, f64)> = Vec::with_capacity(pts.len() / 8);
     for pass in 0..2 {
         let start = hull.len();
-        let iter: Box<dyn Iterator<Item = &(f64, f64)>> =
-            if pass == 0 { Box::new(pts.iter()) } else { Box::new(pts.iter().rev()) };
+        let iter: Box<dyn Iterator<Item = &(f64, f64)>> = if pass == 0 {
+            Box::new(pts.iter())
+        } else {
+            Box::new(pts.iter().rev())
+        };
         for &p in iter {
-            while hull.len() >= start + 2 && cross(hull[hull.len() - 2], hull[hull.len() - 1], p) <= 0.0 {
+            while hull.len() >= start + 2
+                && cross(hull[hull.len() - 2], hull[hull.len() - 1], p) <= 0.0
+            {
                 hull.pop();
             }
             hull.push(p);

@@ -8,7 +8,11 @@ pub enum VisibilityError {
     #[error("site position lon {lon_deg}, lat {lat_deg} is not a point on the Moon (latitude must lie in [-90, 90])")]
     InvalidSite { lon_deg: f64, lat_deg: f64 },
     #[error("option {name} = {value} is out of range: {expected}")]
-    InvalidOption { name: &'static str, value: f64, expected: &'static str },
+    InvalidOption {
+        name: &'static str,
+        value: f64,
+        expected: &'static str,
+    },
 }
 
 /// How to compute a site's visibility. Defaults are stated in [`VisibilityOptions::default`].
@@ -49,12 +53,26 @@ impl Default for VisibilityOptions {
 
 impl VisibilityOptions {
     pub fn validate(&self) -> Result<(), VisibilityError> {
-        let bad = |name, value: f64, expected| Err(VisibilityError::InvalidOption { name, value, expected });
+        let bad = |name, value: f64, expected| {
+            Err(VisibilityError::InvalidOption {
+                name,
+                value,
+                expected,
+            })
+        };
         if !(self.horizon_max_distance_m.is_finite() && self.horizon_max_distance_m > 0.0) {
-            return bad("horizon_max_distance_m", self.horizon_max_distance_m, "a positive distance");
+            return bad(
+                "horizon_max_distance_m",
+                self.horizon_max_distance_m,
+                "a positive distance",
+            );
         }
         if !(4..=36_000).contains(&self.horizon_azimuths) {
-            return bad("horizon_azimuths", self.horizon_azimuths as f64, "between 4 and 36000");
+            return bad(
+                "horizon_azimuths",
+                self.horizon_azimuths as f64,
+                "between 4 and 36000",
+            );
         }
         if !(self.observer_height_m.is_finite() && self.observer_height_m >= 0.0) {
             return bad("observer_height_m", self.observer_height_m, "zero or more");

@@ -120,7 +120,11 @@ impl SiteReport {
         let _ = writeln!(
             s,
             "Horizon: {} out to {:.0} km (sphere horizon {:.3} deg)",
-            if self.horizon_from_terrain { "terrain" } else { "bare sphere (no terrain at the site)" },
+            if self.horizon_from_terrain {
+                "terrain"
+            } else {
+                "bare sphere (no terrain at the site)"
+            },
             self.horizon_max_distance_m / 1000.0,
             self.sphere_horizon_deg
         );
@@ -128,21 +132,41 @@ impl SiteReport {
         for r in &self.horizon_table {
             let _ = writeln!(s, "  {:>6.1}   {:>8.3}", r.azimuth_deg, r.elevation_deg);
         }
-        let _ = writeln!(s, "\nEarth (libration envelope, Earth at its nearest {:.0} km):", e.earth_distance_km);
+        let _ = writeln!(
+            s,
+            "\nEarth (libration envelope, Earth at its nearest {:.0} km):",
+            e.earth_distance_km
+        );
         let _ = writeln!(
             s,
             "  clearance                 {:>9.3} deg  ({})",
             e.clearance_deg,
-            if e.clearance_deg > 0.0 { "always hidden" } else { "Earth can be seen" }
+            if e.clearance_deg > 0.0 {
+                "always hidden"
+            } else {
+                "Earth can be seen"
+            }
         );
-        let _ = writeln!(s, "  clearance, bare sphere    {:>9.3} deg", e.clearance_sphere_deg);
-        let _ = writeln!(s, "  behind the extended limb  {:>9.3} deg", e.limb_margin_deg);
+        let _ = writeln!(
+            s,
+            "  clearance, bare sphere    {:>9.3} deg",
+            e.clearance_sphere_deg
+        );
+        let _ = writeln!(
+            s,
+            "  behind the extended limb  {:>9.3} deg",
+            e.limb_margin_deg
+        );
         let _ = writeln!(
             s,
             "  worst case: Earth at azimuth {:.1} deg, upper limb {:.3} deg, skyline {:.3} deg",
             e.worst_azimuth_deg, e.worst_limb_elevation_deg, e.worst_horizon_deg
         );
-        let _ = writeln!(s, "  within 45 deg of the 180 meridian: {}", if self.far_side_band { "yes" } else { "no" });
+        let _ = writeln!(
+            s,
+            "  within 45 deg of the 180 meridian: {}",
+            if self.far_side_band { "yes" } else { "no" }
+        );
         let v = &self.envelope;
         let _ = writeln!(
             s,
@@ -157,7 +181,10 @@ impl SiteReport {
             v.step_days
         );
         if !self.diffraction_estimate.is_empty() {
-            let _ = writeln!(s, "  diffraction into the shadow (ESTIMATE, smooth sphere, hard/soft boundary):");
+            let _ = writeln!(
+                s,
+                "  diffraction into the shadow (ESTIMATE, smooth sphere, hard/soft boundary):"
+            );
             for d in &self.diffraction_estimate {
                 let _ = writeln!(
                     s,
@@ -176,8 +203,11 @@ impl SiteReport {
             "  closest to the galactic centre over 18.6 yr  {:>8.3} deg = {:.2} beam widths",
             k.gc_separation_deg, k.gc_separation_hpbw
         );
-        let _ =
-            writeln!(s, "  monthly closest approach ranges up to        {:>8.3} deg", k.gc_separation_worst_month_deg);
+        let _ = writeln!(
+            s,
+            "  monthly closest approach ranges up to        {:>8.3} deg",
+            k.gc_separation_worst_month_deg
+        );
         let _ = writeln!(
             s,
             "  galactic centre lunar declination            {:.3}..{:.3} deg",

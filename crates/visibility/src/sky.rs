@@ -7,9 +7,12 @@
 //! to a source at lunar declination delta is |phi - delta| (domain notes sec. 6).
 
 use crate::constants::{
-    AIRY_FIRST_NULL_LAMBDA_OVER_D, HPBW_UNIFORM_LAMBDA_OVER_D, SIDEREAL_MONTH_DAYS, SPEED_OF_LIGHT_M_S,
+    AIRY_FIRST_NULL_LAMBDA_OVER_D, HPBW_UNIFORM_LAMBDA_OVER_D, SIDEREAL_MONTH_DAYS,
+    SPEED_OF_LIGHT_M_S,
 };
-use crate::frames::{apply, dot, j2000_to_galactic, lonlat, transpose, unit, MoonOrientation, Vec3};
+use crate::frames::{
+    apply, dot, j2000_to_galactic, lonlat, transpose, unit, MoonOrientation, Vec3,
+};
 use serde::Serialize;
 use std::sync::OnceLock;
 
@@ -43,7 +46,10 @@ pub fn galactic_centre_and_pole_j2000() -> (Vec3, Vec3) {
 /// Lunar declination of the galactic centre at an instant, degrees.
 pub fn gc_lunar_dec_deg(jd_tt: f64) -> f64 {
     let (gc, _) = galactic_centre_and_pole_j2000();
-    dot(&MoonOrientation::at(jd_tt).pole(), &gc).clamp(-1.0, 1.0).asin().to_degrees()
+    dot(&MoonOrientation::at(jd_tt).pole(), &gc)
+        .clamp(-1.0, 1.0)
+        .asin()
+        .to_degrees()
 }
 
 impl PoleCycle {
@@ -66,19 +72,27 @@ impl PoleCycle {
                     ngp_equatorial.push(((1.0 - along * along).max(0.0).sqrt(), along));
                 }
             }
-            PoleCycle { gc_dec_min_deg: lo, gc_dec_max_deg: hi, ngp_equatorial }
+            PoleCycle {
+                gc_dec_min_deg: lo,
+                gc_dec_max_deg: hi,
+                ngp_equatorial,
+            }
         })
     }
 
     /// Closest approach of the beam centre to the galactic centre over the cycle, degrees.
     pub fn gc_separation_deg(&self, lat_deg: f64) -> f64 {
-        (self.gc_dec_min_deg - lat_deg).max(lat_deg - self.gc_dec_max_deg).max(0.0)
+        (self.gc_dec_min_deg - lat_deg)
+            .max(lat_deg - self.gc_dec_max_deg)
+            .max(0.0)
     }
 
     /// Largest monthly closest approach over the cycle (the epoch least favourable to a site
     /// that wants to be far from the centre is the smallest; this is the other end), degrees.
     pub fn gc_separation_worst_month_deg(&self, lat_deg: f64) -> f64 {
-        (lat_deg - self.gc_dec_min_deg).abs().max((lat_deg - self.gc_dec_max_deg).abs())
+        (lat_deg - self.gc_dec_min_deg)
+            .abs()
+            .max((lat_deg - self.gc_dec_max_deg).abs())
     }
 
     /// Fraction of time the beam centre spends within `band_deg` of the galactic plane, over
@@ -116,13 +130,22 @@ impl PoleCycle {
 /// The beam centre's path in galactic (l, b) degrees, l in [0, 360), for a site at
 /// (lon, lat): `n` points evenly spaced over `days` from `start_jd_tt`, from the full IAU
 /// rotation model. One sidereal month ([`SIDEREAL_MONTH_DAYS`]) traces the whole circle.
-pub fn beam_track_galactic(lon_deg: f64, lat_deg: f64, start_jd_tt: f64, days: f64, n: usize) -> Vec<(f64, f64)> {
+pub fn beam_track_galactic(
+    lon_deg: f64,
+    lat_deg: f64,
+    start_jd_tt: f64,
+    days: f64,
+    n: usize,
+) -> Vec<(f64, f64)> {
     let zenith_body = unit(lon_deg, lat_deg);
     let to_gal = j2000_to_galactic();
     (0..n)
         .map(|i| {
             let jd = start_jd_tt + days * i as f64 / n.max(1) as f64;
-            let z = apply(&transpose(&MoonOrientation::at(jd).j2000_to_body()), &zenith_body);
+            let z = apply(
+                &transpose(&MoonOrientation::at(jd).j2000_to_body()),
+                &zenith_body,
+            );
             lonlat(&apply(&to_gal, &z))
         })
         .collect()
@@ -131,7 +154,10 @@ pub fn beam_track_galactic(lon_deg: f64, lat_deg: f64, start_jd_tt: f64, days: f
 /// Closest angular distance of a galactic track to the galactic centre, degrees.
 pub fn track_gc_separation_deg(track: &[(f64, f64)]) -> f64 {
     let gc = [1.0, 0.0, 0.0];
-    track.iter().map(|&(l, b)| dot(&unit(l, b), &gc).clamp(-1.0, 1.0).acos().to_degrees()).fold(f64::INFINITY, f64::min)
+    track
+        .iter()
+        .map(|&(l, b)| dot(&unit(l, b), &gc).clamp(-1.0, 1.0).acos().to_degrees())
+        .fold(f64::INFINITY, f64::min)
 }
 
 /// Beam widths of a circular aperture, degrees: (half-power width 1.02 lambda/D for uniform

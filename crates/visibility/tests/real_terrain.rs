@@ -7,7 +7,12 @@ use visibility::{site_visibility, VisibilityOptions};
 fn lola_dir() -> Option<PathBuf> {
     let dir = std::env::var_os("QUIETBOWL_LOLA_DIR")
         .map(PathBuf::from)
-        .unwrap_or_else(|| PathBuf::from(concat!(env!("CARGO_MANIFEST_DIR"), "/../../../shared/data/lola-ldem4")));
+        .unwrap_or_else(|| {
+            PathBuf::from(concat!(
+                env!("CARGO_MANIFEST_DIR"),
+                "/../../../shared/data/lola-ldem4"
+            ))
+        });
     dir.join("LDEM_4.LBL").exists().then_some(dir)
 }
 
@@ -28,17 +33,29 @@ fn daedalus_floor_is_walled_in_on_lola_ldem4() {
     // Planetary Nomenclature for position and size; depth from memory).
     let (lon, lat) = (179.4, -5.9);
     let geo = dem.geometry();
-    let Some((col, row)) = geo.lonlat_to_pixel(lon, lat) else { panic!("site maps to the grid") };
-    let grid = dem.read_window(col as isize - 40, row as isize - 40, 80, 80).expect("window reads");
+    let Some((col, row)) = geo.lonlat_to_pixel(lon, lat) else {
+        panic!("site maps to the grid")
+    };
+    let grid = dem
+        .read_window(col as isize - 40, row as isize - 40, 80, 80)
+        .expect("window reads");
     let v = site_visibility(lon, lat, Some(&grid), &VisibilityOptions::default());
     assert!(v.horizon_from_terrain, "{v:?}");
     // The rim stands about 3 km above the floor 45 km away: the ground 45 km north of the
     // site must be well above the site itself.
-    let north = terrain::geodesy::destination(grid.geometry.body_radius_m, (lon, lat), 0.0, 45_000.0);
+    let north =
+        terrain::geodesy::destination(grid.geometry.body_radius_m, (lon, lat), 0.0, 45_000.0);
     let rim = grid.sample_lonlat(north.0, north.1).expect("rim sampled");
-    assert!(rim - v.site_height_m > 1500.0, "rim {rim} floor {}", v.site_height_m);
+    assert!(
+        rim - v.site_height_m > 1500.0,
+        "rim {rim} floor {}",
+        v.site_height_m
+    );
     let p = visibility::horizon_profile(lon, lat, Some(&grid), 250_000.0, 36);
     // At 7.6 km pixels the walls of a 3 km deep, 93 km crater stand a few degrees all round.
     assert!(p.iter().all(|&(_, e)| e > 0.5), "{p:?}");
-    assert!(v.earth_clearance_deg > v.earth_clearance_sphere_deg && v.earth_clearance_deg > 60.0, "{v:?}");
+    assert!(
+        v.earth_clearance_deg > v.earth_clearance_sphere_deg && v.earth_clearance_deg > 60.0,
+        "{v:?}"
+    );
 }

@@ -16,7 +16,11 @@ fn moon_position_matches_meeus_example_47a() {
     let p = ephemeris::moon_position(JD_MEEUS_47A);
     assert!((p.lon_deg - 133.162655).abs() < 2e-6, "lon {}", p.lon_deg);
     assert!((p.lat_deg - -3.229126).abs() < 2e-6, "lat {}", p.lat_deg);
-    assert!((p.distance_km - 368409.7).abs() < 0.1, "distance {}", p.distance_km);
+    assert!(
+        (p.distance_km - 368409.7).abs() < 0.1,
+        "distance {}",
+        p.distance_km
+    );
 }
 
 #[test]
@@ -92,9 +96,21 @@ fn moon_position_matches_pyerfa_moon98_over_a_nodal_cycle() {
         let d = (r[0] * r[0] + r[1] * r[1] + r[2] * r[2]).sqrt();
         let dra = (ra - num(&row["ra_deg"]) + 180.0).rem_euclid(360.0) - 180.0;
         let cosd = dec.to_radians().cos();
-        assert!((dra * cosd).abs() < 3e-4, "jd {jd}: ra {ra} vs {}", row["ra_deg"]);
-        assert!((dec - num(&row["dec_deg"])).abs() < 3e-4, "jd {jd}: dec {dec} vs {}", row["dec_deg"]);
-        assert!((d - num(&row["distance_km"])).abs() < 0.05, "jd {jd}: distance {d} vs {}", row["distance_km"]);
+        assert!(
+            (dra * cosd).abs() < 3e-4,
+            "jd {jd}: ra {ra} vs {}",
+            row["ra_deg"]
+        );
+        assert!(
+            (dec - num(&row["dec_deg"])).abs() < 3e-4,
+            "jd {jd}: dec {dec} vs {}",
+            row["dec_deg"]
+        );
+        assert!(
+            (d - num(&row["distance_km"])).abs() < 0.05,
+            "jd {jd}: distance {d} vs {}",
+            row["distance_km"]
+        );
     }
 }
 
@@ -104,9 +120,17 @@ fn galactic_frame_matches_pyerfa_g2icrs() {
     let f = fixture();
     let gc = &f["galactic_centre_icrs_deg"];
     let (ra, dec) = lonlat(&apply(&transpose(&j2000_to_galactic()), &[1.0, 0.0, 0.0]));
-    assert!((ra - num(&gc[0])).abs() < 1e-5 && (dec - num(&gc[1])).abs() < 1e-5, "{ra} {dec} vs {gc}");
+    assert!(
+        (ra - num(&gc[0])).abs() < 1e-5 && (dec - num(&gc[1])).abs() < 1e-5,
+        "{ra} {dec} vs {gc}"
+    );
     let ecl = &f["galactic_centre_ecliptic_j2000_deg"];
-    let (lon, lat) =
-        lonlat(&apply(&j2000_to_ecliptic_j2000(), &apply(&transpose(&j2000_to_galactic()), &[1.0, 0.0, 0.0])));
-    assert!((lon - num(&ecl[0])).abs() < 1e-4 && (lat - num(&ecl[1])).abs() < 1e-4, "{lon} {lat} vs {ecl}");
+    let (lon, lat) = lonlat(&apply(
+        &j2000_to_ecliptic_j2000(),
+        &apply(&transpose(&j2000_to_galactic()), &[1.0, 0.0, 0.0]),
+    ));
+    assert!(
+        (lon - num(&ecl[0])).abs() < 1e-4 && (lat - num(&ecl[1])).abs() < 1e-4,
+        "{lon} {lat} vs {ecl}"
+    );
 }

@@ -11,7 +11,8 @@ pub const CAUTION: &str = "Screening estimates from orbital data; real site deci
 
 pub fn make_demo(out: &Path) -> anyhow::Result<()> {
     std::fs::create_dir_all(out).with_context(|| format!("cannot create {}", out.display()))?;
-    let files = synthetic::make_demo_terrain(out).with_context(|| format!("writing the demo terrain into {}", out.display()))?;
+    let files = synthetic::make_demo_terrain(out)
+        .with_context(|| format!("writing the demo terrain into {}", out.display()))?;
     println!("wrote {:?}", files);
     Ok(())
 }
@@ -23,8 +24,15 @@ pub fn merge(parts: &[std::path::PathBuf], out: &Path) -> anyhow::Result<()> {
         .map(|p| ::survey::SurveyFile::read(p).with_context(|| format!("reading {}", p.display())))
         .collect::<anyhow::Result<Vec<_>>>()?;
     let merged = ::survey::merge(files).context("merging the shard surveys")?;
-    merged.write(out).with_context(|| format!("writing {}", out.display()))?;
-    println!("{} candidates from {} shards written to {}", merged.candidates.len(), parts.len(), out.display());
+    merged
+        .write(out)
+        .with_context(|| format!("writing {}", out.display()))?;
+    println!(
+        "{} candidates from {} shards written to {}",
+        merged.candidates.len(),
+        parts.len(),
+        out.display()
+    );
     Ok(())
 }
 
@@ -38,10 +46,17 @@ fn demo_file() -> std::path::PathBuf {
     }
 }
 
-pub fn workbench(file: Option<std::path::PathBuf>, select_rank: Option<u32>, screenshot: Option<std::path::PathBuf>) -> anyhow::Result<()> {
+pub fn workbench(
+    file: Option<std::path::PathBuf>,
+    select_rank: Option<u32>,
+    screenshot: Option<std::path::PathBuf>,
+) -> anyhow::Result<()> {
     let open = file.unwrap_or_else(demo_file);
     if !open.exists() {
-        anyhow::bail!("{} does not exist (run from the repository root for the demo, or name a file)", open.display());
+        anyhow::bail!(
+            "{} does not exist (run from the repository root for the demo, or name a file)",
+            open.display()
+        );
     }
     workbench::run(workbench::WorkbenchOptions {
         open: Some(open),
@@ -61,16 +76,24 @@ pub fn ensure_writable(out: &Path) -> anyhow::Result<()> {
     let probe = dir.join(format!(".quietbowl-probe-{}.tmp", std::process::id()));
     std::fs::write(&probe, b"")
         .and_then(|_| std::fs::remove_file(&probe))
-        .with_context(|| format!("cannot write {}: its folder {} is not writable or does not exist", out.display(), dir.display()))
+        .with_context(|| {
+            format!(
+                "cannot write {}: its folder {} is not writable or does not exist",
+                out.display(),
+                dir.display()
+            )
+        })
 }
 
 /// A progress bar on stderr, hidden when stderr is not a terminal.
 pub fn bar(len: u64, what: &str) -> indicatif::ProgressBar {
     let pb = indicatif::ProgressBar::new(len);
     pb.set_style(
-        indicatif::ProgressStyle::with_template("{spinner} {msg} [{bar:30}] {pos}/{len} ({elapsed}, eta {eta})")
-            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar())
-            .progress_chars("=> "),
+        indicatif::ProgressStyle::with_template(
+            "{spinner} {msg} [{bar:30}] {pos}/{len} ({elapsed}, eta {eta})",
+        )
+        .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar())
+        .progress_chars("=> "),
     );
     pb.set_message(what.to_string());
     pb

@@ -1,7 +1,9 @@
 //! `quietbowl rank <survey.json>`: apply criteria, rank, print the shortlist, write exports.
 
 use anyhow::Context;
-use siting::export::{csv::write_csv, geojson::write_geojson, gpkg::write_gpkg, ExportSet, Provenance};
+use siting::export::{
+    csv::write_csv, geojson::write_geojson, gpkg::write_gpkg, ExportSet, Provenance,
+};
 use siting::{Criteria, PreparedTable};
 use std::path::{Path, PathBuf};
 use std::sync::atomic::AtomicBool;
@@ -48,11 +50,14 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     for out in [&a.geojson, &a.csv, &a.gpkg].into_iter().flatten() {
         super::ensure_writable(out).context("writing the exports")?;
     }
-    let survey = SurveyFile::read(&a.survey).with_context(|| format!("reading {}", a.survey.display()))?;
+    let survey =
+        SurveyFile::read(&a.survey).with_context(|| format!("reading {}", a.survey.display()))?;
     let (criteria, criteria_text) = match &a.criteria {
         Some(path) => {
-            let text = std::fs::read_to_string(path).with_context(|| format!("reading {}", path.display()))?;
-            let c = Criteria::parse(&text).map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
+            let text = std::fs::read_to_string(path)
+                .with_context(|| format!("reading {}", path.display()))?;
+            let c =
+                Criteria::parse(&text).map_err(|e| anyhow::anyhow!("{}: {e}", path.display()))?;
             (c, text)
         }
         None => {
@@ -62,14 +67,27 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         }
     };
     let survey = match &criteria.structure {
-        Some(spec) if !survey::fitted_for(&survey, spec) => refit(&a.survey, a.dem.as_deref(), survey, spec)?,
+        Some(spec) if !survey::fitted_for(&survey, spec) => {
+            refit(&a.survey, a.dem.as_deref(), survey, spec)?
+        }
         _ => survey,
     };
     let table = PreparedTable::new(&survey, &criteria).context("preparing the ranking")?;
     let ranking = siting::rank(&table, &criteria).context("ranking")?;
-    let smaa = if a.no_robustness { None } else { Some(siting::smaa(&table, &criteria).context("robustness analysis")?) };
-    println!("{}", siting::table::render_table(&survey, &table, &ranking, smaa.as_ref(), a.top).trim_end());
-    let provenance = Provenance::new(&survey, criteria_text, a.date.unwrap_or_else(siting::export::date::today));
+    let smaa = if a.no_robustness {
+        None
+    } else {
+        Some(siting::smaa(&table, &criteria).context("robustness analysis")?)
+    };
+    println!(
+        "{}",
+        siting::table::render_table(&survey, &table, &ranking, smaa.as_ref(), a.top).trim_end()
+    );
+    let provenance = Provenance::new(
+        &survey,
+        criteria_text,
+        a.date.unwrap_or_else(siting::export::date::today),
+    );
     let set = ExportSet {
         survey: &survey,
         criteria: &criteria,
@@ -96,9 +114,13 @@ pub fn run(a: Args) -> anyhow::Result<()> {
 
 /// A short description of a structure for the terminal.
 fn describe(spec: Option<&StructureSpec>) -> String {
-    let Some(s) = spec else { return "no structure".into() };
+    let Some(s) = spec else {
+        return "no structure".into();
+    };
     let shape = match s.shape {
-        Shape::Paraboloid { focal_length_m } => format!("paraboloid with focal length {focal_length_m} m"),
+        Shape::Paraboloid { focal_length_m } => {
+            format!("paraboloid with focal length {focal_length_m} m")
+        }
         Shape::ParaboloidRatio { f_over_d } => format!("paraboloid at f/D {f_over_d}"),
         Shape::SphericalCap { radius_m } => format!("spherical cap of radius {radius_m} m"),
     };
@@ -110,7 +132,12 @@ fn describe(spec: Option<&StructureSpec>) -> String {
 
 /// Fit the criteria's structure into every candidate again, on the survey's DEM, before ranking.
 /// The survey file on disk is left as it is.
-fn refit(survey_path: &Path, dem: Option<&Path>, survey: SurveyFile, spec: &StructureSpec) -> anyhow::Result<SurveyFile> {
+fn refit(
+    survey_path: &Path,
+    dem: Option<&Path>,
+    survey: SurveyFile,
+    spec: &StructureSpec,
+) -> anyhow::Result<SurveyFile> {
     let dem_path = match dem {
         Some(d) => d.to_path_buf(),
         None => survey::locate_dem(&survey, Some(survey_path)).context(
@@ -128,7 +155,13 @@ fn refit(survey_path: &Path, dem: Option<&Path>, survey: SurveyFile, spec: &Stru
     );
     let pb = super::bar(survey.candidates.len() as u64, "refitting the structure");
     let start = Instant::now();
-    let out = survey::refit(&survey, &dem_path, spec, &|p| pb.set_position(p.candidates_done as u64), &AtomicBool::new(false));
+    let out = survey::refit(
+        &survey,
+        &dem_path,
+        spec,
+        &|p| pb.set_position(p.candidates_done as u64),
+        &AtomicBool::new(false),
+    );
     pb.finish_and_clear();
     let out = out.with_context(|| {
         format!(

@@ -68,7 +68,9 @@ fn parse_memory(s: &str) -> Result<usize, String> {
         Some('M' | 'm') => (&t[..t.len() - 1], 1usize << 20),
         _ => (t, 1usize),
     };
-    let v: f64 = num.parse().map_err(|_| format!("'{s}' is not a memory size (examples: 2G, 512M)"))?;
+    let v: f64 = num
+        .parse()
+        .map_err(|_| format!("'{s}' is not a memory size (examples: 2G, 512M)"))?;
     if !(v.is_finite() && v > 0.0) {
         return Err(format!("'{s}' must be a positive size"));
     }
@@ -81,8 +83,10 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     let structure = match (&a.structure, a.no_structure) {
         (_, true) => None,
         (Some(path), false) => {
-            let text = std::fs::read_to_string(path).with_context(|| format!("reading {}", path.display()))?;
-            let spec: structure::StructureSpec = toml::from_str(&text).with_context(|| format!("{} is not a structure description", path.display()))?;
+            let text = std::fs::read_to_string(path)
+                .with_context(|| format!("reading {}", path.display()))?;
+            let spec: structure::StructureSpec = toml::from_str(&text)
+                .with_context(|| format!("{} is not a structure description", path.display()))?;
             Some(spec)
         }
         (None, false) => Some(structure::StructureSpec::default()),
@@ -92,10 +96,16 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         diameter_max_m: dmax,
         tile_px: a.tile,
         catalogue: a.catalogue.clone(),
-        catalogue_on_bad_row: if a.skip_bad_rows { OnBadRow::Skip } else { OnBadRow::Stop },
+        catalogue_on_bad_row: if a.skip_bad_rows {
+            OnBadRow::Skip
+        } else {
+            OnBadRow::Stop
+        },
         detect: !a.catalogue_only,
         visibility: !a.no_visibility,
-        open: OpenOptions { assume_body_radius_m: a.assume_body_radius },
+        open: OpenOptions {
+            assume_body_radius_m: a.assume_body_radius,
+        },
         memory_budget_bytes: a.memory,
         shard: a.shard,
         checkpoint: (!a.no_checkpoint).then(|| survey::checkpoint::path_beside(&a.out)),
@@ -130,7 +140,10 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         Err(SurveyError::Cancelled) => {
             eprintln!("survey cancelled; {} was not written", a.out.display());
             if let Some(cp) = &opts.checkpoint {
-                eprintln!("finished tiles are kept in {}: run the same command again to resume", cp.display());
+                eprintln!(
+                    "finished tiles are kept in {}: run the same command again to resume",
+                    cp.display()
+                );
             }
             std::process::exit(130);
         }
@@ -139,7 +152,10 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     for p in &outcome.skipped_rows {
         eprintln!("skipped catalogue line {}: {}", p.line, p.reason);
     }
-    outcome.survey.write(&a.out).with_context(|| format!("writing {}", a.out.display()))?;
+    outcome
+        .survey
+        .write(&a.out)
+        .with_context(|| format!("writing {}", a.out.display()))?;
     if let Some(cp) = &opts.checkpoint {
         let _ = std::fs::remove_file(cp);
     }

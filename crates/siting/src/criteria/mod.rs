@@ -24,7 +24,8 @@ pub const MIN_ANCHOR_COUNT: u32 = structure::MIN_ANCHORS;
 pub const MAX_ANCHOR_COUNT: u32 = 12;
 
 /// The shipped defaults for a crater-hosted reflector about a kilometre across.
-pub const DEFAULT_REFLECTOR_TOML: &str = include_str!("../../../../assets/criteria/reflector-1km.toml");
+pub const DEFAULT_REFLECTOR_TOML: &str =
+    include_str!("../../../../assets/criteria/reflector-1km.toml");
 
 /// How utilities are combined into one score.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Serialize, Deserialize)]
@@ -158,6 +159,15 @@ impl Criteria {
     /// Weights normalised to sum 1 (zeros when all are zero, which `validate` refuses).
     pub fn normalised_weights(&self) -> Vec<f64> {
         let total: f64 = self.criteria.iter().map(|c| c.weight.max(0.0)).sum();
-        self.criteria.iter().map(|c| if total > 0.0 { c.weight.max(0.0) / total } else { 0.0 }).collect()
+        self.criteria
+            .iter()
+            .map(|c| {
+                if total > 0.0 {
+                    c.weight.max(0.0) / total
+                } else {
+                    0.0
+                }
+            })
+            .collect()
     }
 }

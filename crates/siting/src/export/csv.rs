@@ -19,7 +19,9 @@ fn field(s: &str) -> String {
 /// Shortest text that reads back to the same number (Rust's `Display` for f64: no
 /// exponent, platform-independent).
 fn real(v: Option<f64>) -> String {
-    v.filter(|v| v.is_finite()).map(|v| v.to_string()).unwrap_or_default()
+    v.filter(|v| v.is_finite())
+        .map(|v| v.to_string())
+        .unwrap_or_default()
 }
 
 /// The whole CSV text.
@@ -34,7 +36,13 @@ pub fn to_csv_string(set: &ExportSet<'_>) -> Result<String, SitingError> {
     }
     let header: Vec<String> = columns(set.criteria)
         .iter()
-        .map(|c| field(&if c.unit.is_empty() { c.name.clone() } else { format!("{} [{}]", c.name, c.unit) }))
+        .map(|c| {
+            field(&if c.unit.is_empty() {
+                c.name.clone()
+            } else {
+                format!("{} [{}]", c.name, c.unit)
+            })
+        })
         .collect();
     let _ = writeln!(out, "{}", header.join(","));
     for e in set.entries() {

@@ -18,9 +18,15 @@ pub fn civil_date(unix_s: i64) -> String {
 /// Today's date for provenance: `$SOURCE_DATE_EPOCH` when set (reproducible builds
 /// convention, reproducible-builds.org), else the system clock, in UTC.
 pub fn today() -> String {
-    let now = std::env::var("SOURCE_DATE_EPOCH").ok().and_then(|s| s.trim().parse::<i64>().ok()).unwrap_or_else(|| {
-        std::time::SystemTime::now().duration_since(std::time::UNIX_EPOCH).map(|d| d.as_secs() as i64).unwrap_or(0)
-    });
+    let now = std::env::var("SOURCE_DATE_EPOCH")
+        .ok()
+        .and_then(|s| s.trim().parse::<i64>().ok())
+        .unwrap_or_else(|| {
+            std::time::SystemTime::now()
+                .duration_since(std::time::UNIX_EPOCH)
+                .map(|d| d.as_secs() as i64)
+                .unwrap_or(0)
+        });
     civil_date(now)
 }
 

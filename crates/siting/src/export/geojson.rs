@@ -15,7 +15,8 @@ use super::{columns, row, Cell, ExportSet, MOON_CRS};
 use crate::SitingError;
 
 fn number(v: Option<f64>) -> Value {
-    v.filter(|v| v.is_finite()).map_or(Value::Null, |v| json!(v))
+    v.filter(|v| v.is_finite())
+        .map_or(Value::Null, |v| json!(v))
 }
 
 fn rings_json(rings: &[[f64; 2]]) -> Value {
@@ -31,7 +32,10 @@ fn geometry(shape: &RimShape) -> Value {
         }
         RimShape::MultiPolygon(rs) => {
             g.insert("type", json!("MultiPolygon"));
-            g.insert("coordinates", Value::Array(rs.iter().map(|r| json!([rings_json(r)])).collect()));
+            g.insert(
+                "coordinates",
+                Value::Array(rs.iter().map(|r| json!([rings_json(r)])).collect()),
+            );
         }
     }
     json!(g)
@@ -40,8 +44,15 @@ fn geometry(shape: &RimShape) -> Value {
 /// Longitude extent [west, east] of a shape; west > east when it crosses the antimeridian
 /// (RFC 7946 §5.2), with latitude extent.
 fn shape_bbox(shape: &RimShape) -> [f64; 4] {
-    let all = shape.rings().into_iter().flatten().copied().collect::<Vec<_>>();
-    let (s, n) = all.iter().fold((f64::MAX, f64::MIN), |(s, n), p| (s.min(p[1]), n.max(p[1])));
+    let all = shape
+        .rings()
+        .into_iter()
+        .flatten()
+        .copied()
+        .collect::<Vec<_>>();
+    let (s, n) = all
+        .iter()
+        .fold((f64::MAX, f64::MIN), |(s, n), p| (s.min(p[1]), n.max(p[1])));
     match shape {
         RimShape::MultiPolygon(rs) if rs.len() == 2 => {
             // Pieces are western-most first: the one touching -180 then the one touching 180.
@@ -50,7 +61,9 @@ fn shape_bbox(shape: &RimShape) -> [f64; 4] {
             [west, s, east, n]
         }
         _ => {
-            let (w, e) = all.iter().fold((f64::MAX, f64::MIN), |(w, e), p| (w.min(p[0]), e.max(p[0])));
+            let (w, e) = all
+                .iter()
+                .fold((f64::MAX, f64::MIN), |(w, e), p| (w.min(p[0]), e.max(p[0])));
             [w, s, e, n]
         }
     }
@@ -69,7 +82,11 @@ pub(crate) fn union_bbox(boxes: &[[f64; 4]]) -> Option<[f64; 4]> {
         .iter()
         .map(|b| {
             let start = terrain::projection::wrap_deg_180(b[0]);
-            let width = if b[2] >= b[0] { b[2] - b[0] } else { b[2] + 360.0 - b[0] };
+            let width = if b[2] >= b[0] {
+                b[2] - b[0]
+            } else {
+                b[2] + 360.0 - b[0]
+            };
             (start, start + width)
         })
         .collect();
@@ -84,7 +101,11 @@ pub(crate) fn union_bbox(boxes: &[[f64; 4]]) -> Option<[f64; 4]> {
     // Gap after interval i runs to the start of i + 1 (the first one, plus 360, for the last).
     let mut widest = (f64::MIN, 0usize);
     for i in 0..merged.len() {
-        let next = if i + 1 < merged.len() { merged[i + 1].0 } else { merged[0].0 + 360.0 };
+        let next = if i + 1 < merged.len() {
+            merged[i + 1].0
+        } else {
+            merged[0].0 + 360.0
+        };
         let gap = next - merged[i].1;
         if gap > widest.0 {
             widest = (gap, i);
@@ -94,7 +115,11 @@ pub(crate) fn union_bbox(boxes: &[[f64; 4]]) -> Option<[f64; 4]> {
         return Some([-180.0, s, 180.0, n]);
     }
     let i = widest.1;
-    let west = if i + 1 < merged.len() { merged[i + 1].0 } else { merged[0].0 };
+    let west = if i + 1 < merged.len() {
+        merged[i + 1].0
+    } else {
+        merged[0].0
+    };
     let east = merged[i].1;
     let wrap_east = if east > 180.0 { east - 360.0 } else { east };
     Some([west, s, wrap_east, n])
@@ -141,7 +166,10 @@ pub fn to_geojson_string(set: &ExportSet<'_>) -> Result<String, SitingError> {
     }
     let mut out = String::from("{\"type\":\"FeatureCollection\",\n");
     if let Some(b) = union_bbox(&boxes) {
-        out.push_str(&format!("\"bbox\":{},\n", serde_json::to_string(&b.map(round9))?));
+        out.push_str(&format!(
+            "\"bbox\":{},\n",
+            serde_json::to_string(&b.map(round9))?
+        ));
     }
     let frame = json!({
         "body": "Moon",
@@ -149,16 +177,28 @@ pub fn to_geojson_string(set: &ExportSet<'_>) -> Result<String, SitingError> {
         "sphere_radius_m": radius_m,
         "note": "longitude east and latitude in degrees on the body's reference sphere"
     });
-    out.push_str(&format!("\"reference_frame\":{},\n", serde_json::to_string(&frame)?));
-    out.push_str(&format!("\"provenance\":{},\n", serde_json::to_string(set.provenance)?));
-    out.push_str(&format!("\"screening_caution\":{},\n", serde_json::to_string(crate::SCREENING_CAUTION)?));
+    out.push_str(&format!(
+        "\"reference_frame\":{},\n",
+        serde_json::to_string(&frame)?
+    ));
+    out.push_str(&format!(
+        "\"provenance\":{},\n",
+        serde_json::to_string(set.provenance)?
+    ));
+    out.push_str(&format!(
+        "\"screening_caution\":{},\n",
+        serde_json::to_string(crate::SCREENING_CAUTION)?
+    ));
     let robustness = match set.smaa {
         Some(s) => {
             json!({"settings": s.settings, "pool_size": s.pool.len(), "method": "SMAA (Lahdelma, Hokkanen and Salminen 1998)"})
         }
         None => Value::Null,
     };
-    out.push_str(&format!("\"robustness\":{},\n", serde_json::to_string(&robustness)?));
+    out.push_str(&format!(
+        "\"robustness\":{},\n",
+        serde_json::to_string(&robustness)?
+    ));
     out.push_str("\"features\":[\n");
     out.push_str(&features.join(",\n"));
     out.push_str("\n]}\n");

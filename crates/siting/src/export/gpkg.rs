@@ -43,7 +43,11 @@ fn fill_inner(set: &ExportSet<'_>, tmp: &Path) -> gdal::errors::Result<()> {
     for (k, v) in set.provenance.pairs() {
         ds.set_metadata_item(k, &v, PROVENANCE_DOMAIN)?;
     }
-    ds.set_metadata_item("criteria_toml", &set.provenance.criteria_toml, PROVENANCE_DOMAIN)?;
+    ds.set_metadata_item(
+        "criteria_toml",
+        &set.provenance.criteria_toml,
+        PROVENANCE_DOMAIN,
+    )?;
     let cols = columns(set.criteria);
     let radius_m = set.radius_m();
     {

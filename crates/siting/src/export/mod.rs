@@ -42,7 +42,11 @@ pub struct Provenance {
 impl Provenance {
     /// `criteria_toml`: the criteria file's text when one was read, else
     /// [`Criteria::to_toml`] of the criteria in force.
-    pub fn new(survey: &SurveyFile, criteria_toml: impl Into<String>, date: impl Into<String>) -> Provenance {
+    pub fn new(
+        survey: &SurveyFile,
+        criteria_toml: impl Into<String>,
+        date: impl Into<String>,
+    ) -> Provenance {
         Provenance {
             tool_version: crate::TOOL_VERSION.to_string(),
             survey_tool_version: survey.tool_version.clone(),
@@ -73,7 +77,12 @@ impl Provenance {
             ("survey_tile_px", p.tile_px.to_string()),
             ("survey_catalogue", p.catalogue.clone().unwrap_or_default()),
             ("survey_detect", p.detect.to_string()),
-            ("survey_shard", self.survey_shard.map(|s| format!("{}/{}", s.index, s.count)).unwrap_or_default()),
+            (
+                "survey_shard",
+                self.survey_shard
+                    .map(|s| format!("{}/{}", s.index, s.count))
+                    .unwrap_or_default(),
+            ),
             ("crs", MOON_CRS.to_string()),
             ("screening_caution", crate::SCREENING_CAUTION.to_string()),
         ]
@@ -97,13 +106,18 @@ impl<'a> ExportSet<'a> {
     fn check(&self) -> Result<(), SitingError> {
         let (s, t) = (self.survey.candidates.len(), self.table.len());
         if s != t || self.ranking.scores.len() != t {
-            return Err(SitingError::SurveyMismatch { survey: s, table: t });
+            return Err(SitingError::SurveyMismatch {
+                survey: s,
+                table: t,
+            });
         }
         Ok(())
     }
 
     pub(crate) fn entries(&self) -> impl Iterator<Item = RankedEntry<'a>> + 'a {
-        self.ranking.entries(self.table).take(self.limit.unwrap_or(usize::MAX))
+        self.ranking
+            .entries(self.table)
+            .take(self.limit.unwrap_or(usize::MAX))
     }
 
     /// Sphere radius for drawing rims: the survey's, else the IAU Moon radius.
@@ -136,7 +150,10 @@ pub struct Column {
 
 /// The columns of every export, in order.
 pub fn columns(criteria: &Criteria) -> Vec<Column> {
-    let col = |name: &str, unit: &'static str| Column { name: name.to_string(), unit };
+    let col = |name: &str, unit: &'static str| Column {
+        name: name.to_string(),
+        unit,
+    };
     let mut cols = vec![
         col("rank", "1"),
         col("id", "1"),
@@ -153,7 +170,10 @@ pub fn columns(criteria: &Criteria) -> Vec<Column> {
     }
     cols.push(col("edge_cut", ""));
     for c in &criteria.criteria {
-        cols.push(Column { name: format!("utility_{}", c.metric), unit: "1" });
+        cols.push(Column {
+            name: format!("utility_{}", c.metric),
+            unit: "1",
+        });
     }
     cols.push(col("smaa_p_rank1", "1"));
     cols.push(col("smaa_p_top_n", "1"));
@@ -172,7 +192,9 @@ pub(crate) fn row(set: &ExportSet<'_>, e: &RankedEntry<'_>) -> Vec<Cell> {
         Cell::Int(i64::from(e.rank)),
         Cell::Int(i64::from(e.id())),
         Cell::Text(source),
-        Cell::Real(Some(terrain::projection::wrap_deg_180(cand.crater.centre_lon_deg))),
+        Cell::Real(Some(terrain::projection::wrap_deg_180(
+            cand.crater.centre_lon_deg,
+        ))),
         Cell::Real(Some(cand.crater.centre_lat_deg)),
         Cell::Real(Some(e.score)),
         Cell::Bool(e.passed()),

@@ -33,7 +33,10 @@ impl RimShape {
         match self {
             RimShape::Polygon(r) => format!("MULTIPOLYGON ({})", ring(r)),
             RimShape::MultiPolygon(rs) => {
-                format!("MULTIPOLYGON ({})", rs.iter().map(|r| ring(r)).collect::<Vec<_>>().join(", "))
+                format!(
+                    "MULTIPOLYGON ({})",
+                    rs.iter().map(|r| ring(r)).collect::<Vec<_>>().join(", ")
+                )
             }
         }
     }
@@ -41,7 +44,9 @@ impl RimShape {
 
 /// Twice the signed area of a ring (shoelace; positive when counter-clockwise).
 pub fn signed_area2(ring: &[[f64; 2]]) -> f64 {
-    ring.windows(2).map(|w| w[0][0] * w[1][1] - w[1][0] * w[0][1]).sum()
+    ring.windows(2)
+        .map(|w| w[0][0] * w[1][1] - w[1][0] * w[0][1])
+        .sum()
 }
 
 /// Rim radius (metres) at each azimuth (clockwise from north, evenly spaced from 0): the
@@ -58,11 +63,18 @@ fn radii(c: &CraterMeasurement) -> Vec<(f64, f64)> {
     };
     let crest = &c.rim_crest_radius_m;
     let measured = crest.iter().filter(|r| r.is_finite() && **r > 0.0).count();
-    let n = if measured >= 3 { crest.len() } else { FALLBACK_VERTICES };
+    let n = if measured >= 3 {
+        crest.len()
+    } else {
+        FALLBACK_VERTICES
+    };
     (0..n)
         .map(|k| {
             let az = k as f64 * 360.0 / n as f64;
-            let r = crest.get(k).map(|&r| f64::from(r)).filter(|r| measured >= 3 && r.is_finite() && *r > 0.0);
+            let r = crest
+                .get(k)
+                .map(|&r| f64::from(r))
+                .filter(|r| measured >= 3 && r.is_finite() && *r > 0.0);
             (az, r.unwrap_or_else(|| fitted(az)))
         })
         .collect()
@@ -70,7 +82,10 @@ fn radii(c: &CraterMeasurement) -> Vec<(f64, f64)> {
 
 /// The rim of `c` on a sphere of `radius_m`; None when the crater has no usable size.
 pub fn rim_shape(c: &CraterMeasurement, radius_m: f64) -> Option<RimShape> {
-    if !(c.diameter_m.is_finite() && c.diameter_m > 0.0 && c.centre_lon_deg.is_finite() && c.centre_lat_deg.is_finite())
+    if !(c.diameter_m.is_finite()
+        && c.diameter_m > 0.0
+        && c.centre_lon_deg.is_finite()
+        && c.centre_lat_deg.is_finite())
     {
         return None;
     }
@@ -90,7 +105,9 @@ pub fn rim_shape(c: &CraterMeasurement, radius_m: f64) -> Option<RimShape> {
     }
     let first = ring[0];
     ring.push(first);
-    let (lo, hi) = ring.iter().fold((f64::MAX, f64::MIN), |(lo, hi), p| (lo.min(p[0]), hi.max(p[0])));
+    let (lo, hi) = ring.iter().fold((f64::MAX, f64::MIN), |(lo, hi), p| {
+        (lo.min(p[0]), hi.max(p[0]))
+    });
     let shape = if hi > 180.0 {
         split(&ring, 180.0)
     } else if lo < -180.0 {
@@ -104,9 +121,14 @@ pub fn rim_shape(c: &CraterMeasurement, radius_m: f64) -> Option<RimShape> {
 /// Clip the unwrapped ring at longitude `cut` (+-180) and move the outer piece by 360 degrees.
 fn split(ring: &[[f64; 2]], cut: f64) -> RimShape {
     let inner = clip(ring, cut, cut < 0.0);
-    let outer: Vec<[f64; 2]> =
-        clip(ring, cut, cut > 0.0).into_iter().map(|p| [p[0] - cut.signum() * 360.0, p[1]]).collect();
-    let mut parts: Vec<Vec<[f64; 2]>> = [inner, outer].into_iter().filter(|r| r.len() >= 4).collect();
+    let outer: Vec<[f64; 2]> = clip(ring, cut, cut > 0.0)
+        .into_iter()
+        .map(|p| [p[0] - cut.signum() * 360.0, p[1]])
+        .collect();
+    let mut parts: Vec<Vec<[f64; 2]>> = [inner, outer]
+        .into_iter()
+        .filter(|r| r.len() >= 4)
+        .collect();
     parts.sort_by(|a, b| a[0][0].total_cmp(&b[0][0]));
     match parts.len() {
         1 => RimShape::Polygon(parts.remove(0)),
@@ -146,7 +168,11 @@ fn clip(ring: &[[f64; 2]], cut: f64, keep_east: bool) -> Vec<[f64; 2]> {
 
 /// Coordinates to 1e-9 degree (about 0.03 mm on the Moon): stable text, no false precision.
 fn round_shape(s: RimShape) -> RimShape {
-    let r = |ring: Vec<[f64; 2]>| ring.into_iter().map(|p| [round9(p[0]), round9(p[1])]).collect();
+    let r = |ring: Vec<[f64; 2]>| {
+        ring.into_iter()
+            .map(|p| [round9(p[0]), round9(p[1])])
+            .collect()
+    };
     match s {
         RimShape::Polygon(ring) => RimShape::Polygon(r(ring)),
         RimShape::MultiPolygon(rings) => RimShape::MultiPolygon(rings.into_iter().map(r).collect()),

@@ -6,7 +6,13 @@ use terrain::{ElevationGrid, GridGeometry, MapProjection, MOON_RADIUS_M};
 
 /// A geographic (lon/lat degree) grid centred on (lon0, lat0), `half_deg` each way at `px_deg`
 /// spacing, with heights from `f(ground distance from the centre in m, azimuth in deg)`.
-pub fn geographic_grid(lon0: f64, lat0: f64, half_deg: f64, px_deg: f64, f: impl Fn(f64, f64) -> f64) -> ElevationGrid {
+pub fn geographic_grid(
+    lon0: f64,
+    lat0: f64,
+    half_deg: f64,
+    px_deg: f64,
+    f: impl Fn(f64, f64) -> f64,
+) -> ElevationGrid {
     let n = (2.0 * half_deg / px_deg).round() as usize;
     let geometry = Arc::new(GridGeometry {
         width: n,
@@ -25,7 +31,14 @@ pub fn geographic_grid(lon0: f64, lat0: f64, half_deg: f64, px_deg: f64, f: impl
             heights_m.push(f(d, az) as f32);
         }
     }
-    ElevationGrid { geometry, col0: 0, row0: 0, width: n, height: n, heights_m }
+    ElevationGrid {
+        geometry,
+        col0: 0,
+        row0: 0,
+        width: n,
+        height: n,
+        heights_m,
+    }
 }
 
 /// A simple crater: parabolic bowl `depth_m` deep out to `radius_m`, a rim `rim_m` high there,
