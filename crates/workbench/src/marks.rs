@@ -179,7 +179,13 @@ pub struct CandidateMarks {
     drawn: Vec<u32>,
     /// Screen centre and radius of each drawn rim, worst first (what hovering tests).
     drawn_on_screen: Vec<(u32, Pos2, f32)>,
-    mesh: Option<(MeshKey, Arc<Mesh>)>,
+    /// What `meshes` were built for; `None` when they are stale.
+    mesh_key: Option<MeshKey>,
+    /// The drawn rims' triangles in two parts, the worse-ranked part first (painted in that
+    /// order). Kept between rebuilds and refilled in place when egui holds no other reference:
+    /// a dense view's mesh is megabytes, and fresh pages each rebuild cost page faults that
+    /// outweigh the building.
+    meshes: [Arc<Mesh>; 2],
 }
 
 pub struct MarkStyle {
@@ -218,7 +224,7 @@ impl CandidateMarks {
             self.grid = GridIndex::default();
             self.built_for = None;
             self.in_view_for = None;
-            self.mesh = None;
+            self.mesh_key = None;
             return;
         };
         let key = (Arc::as_ptr(survey) as usize, Arc::as_ptr(geom) as usize);
@@ -248,7 +254,7 @@ impl CandidateMarks {
             self.built_for = Some(key);
             self.score_generation = u64::MAX;
             self.in_view_for = None;
-            self.mesh = None;
+            self.mesh_key = None;
         }
         if self.score_generation != session.ranking.generation {
             let r = &session.ranking;
@@ -350,7 +356,7 @@ impl CandidateMarks {
     /// then joined in that order: the same triangles in the same order as one pass would
     /// give. Outlines cost far more than dots and only the best `OUTLINE_BUDGET` of a dense
     /// view get them, so a dense view is split in the middle of those.
-    fn build_mesh(&mut self, session: &Session, view: &MarkStyle, ctx: &egui::Context) -> Mesh {
+    fn build_mesh(&mut self, session: &Session, view: &MarkStyle, ctx: &egui::Context) {
         let ppp = ctx.pixels_per_point();
         let feathering = ctx.tessellation_options(|o| {
             if o.feathering {
@@ -367,26 +373,27 @@ impl CandidateMarks {
         };
         let (marks, drawn) = (&self.marks, &self.drawn);
         let ranking = &session.ranking;
-        let build =
-            |range: std::ops::Range<usize>| build_mesh_part(marks, drawn, ranking, &style, range);
         let n = drawn.len();
         let split = if style.dense {
             OUTLINE_BUDGET / 2
         } else {
             n / 2
         };
-        let ((mut mesh, mut on_screen), rest) = if n >= PARALLEL_MARKS {
-            let (worse, better) = rayon::join(|| build(split..n), || build(0..split));
-            (worse, Some(better))
-        } else {
-            (build(0..n), None)
+        let [worse, better] = &mut self.meshes;
+        let (worse, better) = (reusable(worse), reusable(better));
+        let build = |range: std::ops::Range<usize>, mesh: &mut Mesh| {
+            build_mesh_part(marks, drawn, ranking, &style, range, mesh)
         };
-        if let Some((m, o)) = rest {
-            mesh.append(m);
-            on_screen.extend(o);
-        }
+        let (mut on_screen, rest) = if n >= PARALLEL_MARKS {
+            let (w, b) = rayon::join(|| build(split..n, worse), || build(0..split, better));
+            (w, b)
+        } else {
+            better.indices.clear();
+            better.vertices.clear();
+            (build(0..n, worse), Vec::new())
+        };
+        on_screen.extend(rest);
         self.drawn_on_screen = on_screen;
-        mesh
     }
 
     /// Draw every visible rim; return the candidate under `pointer`, if any.
@@ -405,13 +412,13 @@ impl CandidateMarks {
             pixels_per_point: painter.ctx().pixels_per_point().to_bits(),
             built_for: self.built_for.unwrap_or_default(),
         };
-        if self.mesh.as_ref().map(|m| m.0) != Some(key) {
+        if self.mesh_key != Some(key) {
             self.find_in_view(view);
             self.choose_drawn(session);
-            let mesh = self.build_mesh(session, view, painter.ctx());
-            self.mesh = Some((key, Arc::new(mesh)));
+            self.build_mesh(session, view, painter.ctx());
+            self.mesh_key = Some(key);
         }
-        if let Some((_, mesh)) = &self.mesh {
+        for mesh in &self.meshes {
             if !mesh.is_empty() {
                 painter.add(Shape::Mesh(mesh.clone()));
             }
@@ -463,13 +470,16 @@ fn build_mesh_part(
     ranking: &crate::engine::Ranking,
     style: &MeshStyle,
     range: std::ops::Range<usize>,
-) -> (Mesh, Vec<(u32, Pos2, f32)>) {
+    mesh: &mut Mesh,
+) -> Vec<(u32, Pos2, f32)> {
     let view = style.view;
     let z = view.zoom as f32;
     let (lo, hi) = style.score_range;
     let feathering = style.feathering;
     let part = drawn.get(range.clone()).unwrap_or(&[]);
-    let mut mesh = Mesh::default();
+    // Emptied by hand: `Mesh::clear` in epaint 0.37 drops the vertex buffer.
+    mesh.indices.clear();
+    mesh.vertices.clear();
     let outlines = OUTLINE_BUDGET.saturating_sub(range.start).min(part.len());
     mesh.reserve_vertices(outlines * 40 + part.len() * 4);
     // Gathered first in a loop of independent loads: the drawn candidates lie scattered
@@ -520,9 +530,18 @@ fn build_mesh_part(
             continue;
         }
         ellipse_points_into(&m, centre, z, &mut points);
-        stroke_loop(&points, width, colour, feathering, &mut normals, &mut mesh);
+        stroke_loop(&points, width, colour, feathering, &mut normals, mesh);
     }
-    (mesh, on_screen)
+    on_screen
+}
+
+/// The mesh behind `arc` to refill: itself when nothing else holds it (egui lets go of the
+/// shapes of a frame once it has tessellated them), else a fresh one in its place.
+fn reusable(arc: &mut Arc<Mesh>) -> &mut Mesh {
+    if Arc::get_mut(arc).is_none() {
+        *arc = Arc::new(Mesh::default());
+    }
+    Arc::make_mut(arc)
 }
 
 /// Screen outline of a rim: the fitted ellipse, major axis at its azimuth from north.
