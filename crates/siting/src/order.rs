@@ -10,7 +10,7 @@
 //!   cache with its scratch) sorted on its own by a stable least-significant-digit radix
 //!   sort, the runs shared out between the cores.
 //!
-//! The places (`ranks`) are filled in last, from the finished order, band of values by band.
+//! The places (`ranks`) are written as each part of the order is finished, while it is in cache.
 //!
 //! Both stages sort on a 32-bit window of the key: its offset from the group's least key,
 //! shifted so the window spans the group's whole range. Candidates that agree on the window
@@ -20,7 +20,7 @@
 
 use rayon::prelude::*;
 use std::cell::RefCell;
-use std::sync::atomic::{AtomicU64, Ordering::Relaxed};
+use std::sync::atomic::{AtomicU32, AtomicU64, Ordering::Relaxed};
 
 /// Bits of the first (most significant) digit: 2048 key ranges.
 const TOP_BITS: u32 = 11;
@@ -66,55 +66,60 @@ where
 {
     let n: usize = groups.iter().map(|g| g.values.len()).sum();
     let mut order = vec![0u32; n];
+    // Each place is written once, by whichever core sorted that part of the order; relaxed
+    // atomics make the scattered writes safe without locks (a relaxed store is a plain store).
+    let ranks: Vec<AtomicU32> = (0..ranks_len).map(|_| AtomicU32::new(0)).collect();
     let mut rest: &mut [u32] = &mut order;
+    let mut base = 0;
     for g in groups {
         let (mine, after) = std::mem::take(&mut rest).split_at_mut(g.values.len());
         rest = after;
+        let places = Places {
+            ranks: &ranks,
+            base,
+        };
+        base += g.values.len();
         if g.values.len() < SMALL || g.key_min >= g.key_max {
             sort_small(g.values, &key, mine);
+            places.record(0, mine);
         } else {
             // The buffer is borrowed for this thread's sort; a sort started on the same
             // thread meanwhile (rayon may run one while this one waits) takes a fresh one.
             let done = PLACED.with(|p| match p.try_borrow_mut() {
                 Ok(mut placed) => {
-                    sort_large(g, &key, mine, &mut placed);
+                    sort_large(g, &key, mine, &mut placed, &places);
                     true
                 }
                 Err(_) => false,
             });
             if !done {
-                sort_large(g, &key, mine, &mut Vec::new());
+                sort_large(g, &key, mine, &mut Vec::new(), &places);
             }
         }
     }
-    let ranks = places(&order, ranks_len);
+    // Same size and alignment: collected in place.
+    let ranks = ranks.into_iter().map(AtomicU32::into_inner).collect();
     Sorted { order, ranks }
 }
 
-/// `ranks[v]` = 1-based place of `v` in `order`. The values are split into one band per
-/// thread; each reads the whole order (in sequence, cheap) and keeps the places of its own
-/// band, so the scattered writes of each core land in its own part of the array. Measured
-/// on the project machine against four and eight bands: fewer, larger bands won (reading
-/// the order again costs more than the bands' writes missing the cache).
-fn places(order: &[u32], len: usize) -> Vec<u32> {
-    let mut ranks = vec![0u32; len];
-    let band_len = len.div_ceil(rayon::current_num_threads().max(1)).max(1);
-    ranks
-        .par_chunks_mut(band_len)
-        .enumerate()
-        .for_each(|(b, out)| {
-            let start = b * band_len;
-            // One slot past the band takes the writes of other bands' values, so the loop
-            // needs no branch on them.
-            let spill = out.len();
-            let mut band = vec![0u32; spill + 1];
-            for (r, &v) in order.iter().enumerate() {
-                let d = (v as usize).wrapping_sub(start);
-                band[d.min(spill)] = r as u32 + 1;
+/// Where the places of one group's values go: `ranks[v]` = 1-based place of `v` in the
+/// whole order, the group starting at `base`.
+struct Places<'a> {
+    ranks: &'a [AtomicU32],
+    base: usize,
+}
+
+impl Places<'_> {
+    /// Record that `values` fill the group's order from position `start` on. Written while
+    /// each part of the order is still in cache, so no second pass over the order is needed.
+    fn record(&self, start: usize, values: &[u32]) {
+        let first = self.base + start + 1;
+        for (k, &v) in values.iter().enumerate() {
+            if let Some(r) = self.ranks.get(v as usize) {
+                r.store((first + k) as u32, Relaxed);
             }
-            out.copy_from_slice(&band[..spill]);
-        });
-    ranks
+        }
+    }
 }
 
 /// `values` ordered by `key`, equal keys in input order: the one-group case.
@@ -145,7 +150,7 @@ fn sort_small<K: Fn(u32) -> u64>(values: &[u32], key: &K, out: &mut [u32]) {
 }
 
 /// The two-stage radix sort of one large group into `out`; `placed` is scratch.
-fn sort_large<K>(g: &Group, key: &K, out: &mut [u32], placed: &mut Vec<AtomicU64>)
+fn sort_large<K>(g: &Group, key: &K, out: &mut [u32], placed: &mut Vec<AtomicU64>, places: &Places)
 where
     K: Fn(u32) -> u64 + Sync,
 {
@@ -233,6 +238,7 @@ where
             for (o, &x) in mine.iter_mut().zip(items.iter()) {
                 *o = x as u32;
             }
+            places.record(start, mine);
         },
     );
 }

@@ -476,6 +476,10 @@ fn build_mesh_part(
     let z = view.zoom as f32;
     let (lo, hi) = style.score_range;
     let feathering = style.feathering;
+    // A dense view's outlines are a few points across and overlap one another; there the
+    // feathered (anti-aliased) edge doubles the triangles, and the time to rebuild them on
+    // every re-rank, for little that can be seen. Sparser views keep it.
+    let outline_feathering = if style.dense { 0.0 } else { feathering };
     let part = drawn.get(range.clone()).unwrap_or(&[]);
     // Emptied by hand: `Mesh::clear` in epaint 0.37 drops the vertex buffer.
     mesh.indices.clear();
@@ -530,7 +534,14 @@ fn build_mesh_part(
             continue;
         }
         ellipse_points_into(&m, centre, z, &mut points);
-        stroke_loop(&points, width, colour, feathering, &mut normals, mesh);
+        stroke_loop(
+            &points,
+            width,
+            colour,
+            outline_feathering,
+            &mut normals,
+            mesh,
+        );
     }
     on_screen
 }
