@@ -39,6 +39,15 @@ pub struct SurveyOffer {
 }
 
 impl SurveyOffer {
+    /// The offer for `dem`, opened from `path`.
+    pub fn of(path: &Path, dem: &Dem) -> Self {
+        SurveyOffer {
+            dem_path: path.to_path_buf(),
+            width_px: dem.width(),
+            height_px: dem.height(),
+        }
+    }
+
     pub fn pixels(&self) -> u64 {
         self.width_px as u64 * self.height_px as u64
     }
@@ -192,11 +201,7 @@ impl WorkbenchApp {
     pub fn open_dem(&mut self, ctx: &egui::Context, path: &Path, survey_it: bool) {
         match Dem::open(path, &Default::default()) {
             Ok(dem) => {
-                let offer = SurveyOffer {
-                    dem_path: path.to_path_buf(),
-                    width_px: dem.width(),
-                    height_px: dem.height(),
-                };
+                let offer = SurveyOffer::of(path, &dem);
                 self.terrain = Some(TerrainLayer::new(Arc::new(dem), ctx));
                 self.map.refit();
                 self.status = format!("Opened {}", path.display());
@@ -481,11 +486,10 @@ impl WorkbenchApp {
                         .clicked()
                     {
                         if self.survey_offer.is_none() {
-                            self.survey_offer = self.terrain.as_ref().map(|t| SurveyOffer {
-                                dem_path: t.dem.info().path.clone(),
-                                width_px: t.dem.width(),
-                                height_px: t.dem.height(),
-                            });
+                            self.survey_offer = self
+                                .terrain
+                                .as_ref()
+                                .map(|t| SurveyOffer::of(&t.dem.info().path, &t.dem));
                         }
                         self.start_offered_survey(&ctx);
                     }
