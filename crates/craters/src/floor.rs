@@ -71,21 +71,35 @@ fn horn_slope_deg(
 /// Working lists of [`measure`], kept from crater to crater.
 #[derive(Clone, Debug, Default)]
 pub struct FloorBuffers {
-    floor: Vec<([f64; 4], f64, f64)>,
+    /// Floor pixels: the fit's terms (1, x, y, x^2 + y^2) and the height.
+    floor: Vec<([f64; 4], f64)>,
+    /// Every floor or wall pixel in visiting order: column, row, pixel size, on floor, on wall.
+    pixels: Vec<(usize, usize, (f64, f64), bool, bool)>,
     slopes: Vec<f64>,
 }
 
+/// Why [`measure`] gave no metrics.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum FloorFail {
+    /// The floor disc holds fewer than 4 valid pixels.
+    TooFewPixels,
+    /// The floor level lies above the caller's `highest_level_m`.
+    TooHigh,
+}
+
 /// Measure the floor and wall of the crater centred at frame (cx, cy). `plane` is the regional
-/// plane (frame coordinates) that the floor level is reported against. `None` if the floor
-/// disc holds fewer than 4 valid pixels.
+/// plane (frame coordinates) that the floor level is reported against. Stops before the
+/// per-pixel slopes, the costly part, when the floor level comes out above `highest_level_m`
+/// (pass `f64::INFINITY` for no limit): a survey's depth gate needs only the level.
 pub fn measure(
     s: &LocalSampler,
     cx: f64,
     cy: f64,
     spec: &FloorSpec,
     plane: &Surface,
+    highest_level_m: f64,
     buf: &mut FloorBuffers,
-) -> Option<FloorMetrics> {
+) -> Result<FloorMetrics, FloorFail> {
     let g = s.grid;
     let reach = spec.wall_outer_m.max(spec.floor_radius_m);
     let corners = [
@@ -122,17 +136,22 @@ pub fn measure(
         .max(0.0) as usize)
         .min(g.height.saturating_sub(1));
     if cmin > cmax || rmin > rmax {
-        return None;
+        return Err(FloorFail::TooFewPixels);
     }
     let count = (cmax - cmin + 1) * (rmax - rmin + 1);
     let stride = ((count as f64 / MAX_PIXELS as f64).sqrt().ceil() as usize).max(1);
     let (centre_col, _) = s.pixel_of(cx, cy);
-    let FloorBuffers { floor, slopes } = buf;
+    let FloorBuffers {
+        floor,
+        pixels,
+        slopes,
+    } = buf;
     floor.clear();
+    pixels.clear();
     slopes.clear();
     let (heights, w, h) = (&g.heights_m[..], g.width, g.height);
-    let (mut wall_sum, mut wall_n) = (0.0, 0usize);
     let (mut px_sum, mut px_n) = (0.0, 0usize);
+    // First pass: which pixels are floor or wall, and the floor's heights for the fit.
     for r in (rmin..=rmax).step_by(stride) {
         // Ground pixel size along the row, at the crater's column (as terrain::derivatives does
         // per row at the window centre; identical for cylindrical grids).
@@ -158,35 +177,23 @@ pub fn measure(
             if !(on_floor || on_wall) {
                 continue;
             }
-            let slope = horn_slope_deg(heights, w, h, c, r, dx, dy);
             if on_floor {
-                floor.push((
-                    [1.0, x, y, x * x + y * y],
-                    z as f64,
-                    slope.unwrap_or(f64::NAN),
-                ));
+                floor.push(([1.0, x, y, x * x + y * y], z as f64));
                 px_sum += (dx * dy).sqrt();
                 px_n += 1;
-                if let Some(sl) = slope {
-                    slopes.push(sl);
-                }
             }
-            if on_wall {
-                if let Some(sl) = slope {
-                    wall_sum += sl;
-                    wall_n += 1;
-                }
-            }
+            pixels.push((c, r, (dx, dy), on_floor, on_wall));
         }
     }
     if floor.len() < 4 {
-        return None;
+        return Err(FloorFail::TooFewPixels);
     }
     // With too few pixels for the curvature term, fall back to a plane.
     let coef = if floor.len() >= 8 {
-        crate::lsq::fit_linear(floor.iter().map(|f| (f.0, f.1)))?
+        crate::lsq::fit_linear(floor.iter().map(|f| (f.0, f.1))).ok_or(FloorFail::TooFewPixels)?
     } else {
-        let p = crate::lsq::fit_linear(floor.iter().map(|f| ([f.0[0], f.0[1], f.0[2]], f.1)))?;
+        let p = crate::lsq::fit_linear(floor.iter().map(|f| ([f.0[0], f.0[1], f.0[2]], f.1)))
+            .ok_or(FloorFail::TooFewPixels)?;
         [p[0], p[1], p[2], 0.0]
     };
     let model = |f: &[f64; 4]| coef[0] + coef[1] * f[1] + coef[2] * f[2] + coef[3] * f[3];
@@ -200,17 +207,34 @@ pub fn measure(
         .iter()
         .map(|f| model(&f.0) - plane.at(cx + f.0[1], cy + f.0[2]))
         .fold(f64::INFINITY, f64::min);
+    if !(floor_level_m <= highest_level_m) {
+        return Err(FloorFail::TooHigh);
+    }
     let floor_height_m = floor
         .iter()
         .map(|f| model(&f.0))
         .fold(f64::INFINITY, f64::min);
+    // Second pass: Horn slopes, once per pixel, in the first pass's order.
+    let (mut wall_sum, mut wall_n) = (0.0, 0usize);
+    for &(c, r, (dx, dy), on_floor, on_wall) in pixels.iter() {
+        let slope = horn_slope_deg(heights, w, h, c, r, dx, dy);
+        if let Some(sl) = slope {
+            if on_floor {
+                slopes.push(sl);
+            }
+            if on_wall {
+                wall_sum += sl;
+                wall_n += 1;
+            }
+        }
+    }
     let (b, c) = (coef[1], coef[2]);
     let obstacles = slopes
         .iter()
         .filter(|&&sl| sl > spec.obstacle_slope_deg)
         .count();
     let n_slopes = slopes.len();
-    Some(FloorMetrics {
+    Ok(FloorMetrics {
         floor_level_m,
         floor_height_m,
         tilt_deg: b.hypot(c).atan().to_degrees(),

@@ -30,6 +30,10 @@ mod radial_symmetry;
 mod sampler;
 mod stats;
 mod survey;
+/// The integration tests' analytic grids, for unit tests that need a crater.
+#[cfg(test)]
+#[path = "../tests/common/mod.rs"]
+mod test_grids;
 
 pub use detect::{detect, Cue, DetectOptions, Detection};
 pub use error::CraterError;

@@ -2,6 +2,7 @@
 //! report the rim, the floor and their uncertainties. See docs/metrics.md for each metric.
 
 use crate::circle_fit::{self, Circle};
+use crate::detect::DetectOptions;
 use crate::error::CraterError;
 use crate::floor::{self, FloorSpec};
 use crate::profiles::{Crest, Profiles, RegionalBuffers, Surface};
@@ -228,7 +229,7 @@ pub fn measure(
     diameter_guess_m: f64,
     opts: &MeasureOptions,
 ) -> Result<CraterMeasurement, CraterError> {
-    measure_screened(grid, lon_deg, lat_deg, diameter_guess_m, opts, 0.0)
+    measure_screened(grid, lon_deg, lat_deg, diameter_guess_m, opts, 0.0, None)
 }
 
 /// [`measure`], giving up after the first round when the bowl is clearly shallower than
@@ -236,6 +237,10 @@ pub fn measure(
 /// 0.3 R, over 2 R, below 0.35 of it. That rough depth is never smaller than the final one by
 /// much (the lowest sample lies at or below the floor fit), so the screen only saves the
 /// survey from fully measuring hollows its shape gates would reject (ours).
+///
+/// With `gates`, also stops as soon as the fitted diameter or the depth fails
+/// [`crate::looks_like_crater`]'s diameter range or depth gate, before the costly floor slopes,
+/// ellipse and bootstrap; what passes is the same measurement as without.
 pub(crate) fn measure_screened(
     grid: &ElevationGrid,
     lon_deg: f64,
@@ -243,6 +248,7 @@ pub(crate) fn measure_screened(
     diameter_guess_m: f64,
     opts: &MeasureOptions,
     min_depth_to_diameter: f64,
+    gates: Option<&DetectOptions>,
 ) -> Result<CraterMeasurement, CraterError> {
     // The thread's buffers are taken out for the call, so a nested call (there is none)
     // would start from fresh ones instead of failing.
@@ -255,6 +261,7 @@ pub(crate) fn measure_screened(
         diameter_guess_m,
         opts,
         min_depth_to_diameter,
+        gates,
     );
     SCRATCH.with(|s| *s.borrow_mut() = sc);
     out
@@ -268,6 +275,7 @@ fn measure_in(
     diameter_guess_m: f64,
     opts: &MeasureOptions,
     min_depth_to_diameter: f64,
+    gates: Option<&DetectOptions>,
 ) -> Result<CraterMeasurement, CraterError> {
     let nm = |reason: &str| not_measurable(lon_deg, lat_deg, diameter_guess_m, reason);
     if opts.azimuths < 16
@@ -332,6 +340,9 @@ fn measure_in(
     };
     let circle = rd.circle;
     let (cx, cy, r) = (circle.cx, circle.cy, circle.r);
+    if gates.is_some_and(|g| 2.0 * r < g.diameter_min_m || 2.0 * r > g.diameter_max_m) {
+        return Err(nm("the fitted rim is outside the diameter range"));
+    }
 
     // Coverage over the disc out to 1.5 R, area-weighted (each sample stands for r dr dtheta).
     let p = &sc.det;
@@ -426,11 +437,29 @@ fn measure_in(
         wall_outer_m: opts.wall_outer_frac * r,
         obstacle_slope_deg: opts.obstacle_slope_deg,
     };
-    let fl = floor::measure(&s, cx, cy, &spec, &rd.plane, &mut sc.floor)
-        .ok_or_else(|| nm("the floor has too few valid pixels"))?;
+    // The survey's depth gate, d/D >= least, as a highest floor level; loosened by a hair so
+    // rounding never stops a floor the exact test below would pass.
+    let least = gates.map_or(0.0, |g| {
+        g.min_fraction_of_fresh_depth * crate::survey::fresh_depth_to_diameter(2.0 * r)
+    });
+    let highest = if least > 0.0 {
+        rim_det_median - least * 2.0 * r * (1.0 - 1e-9)
+    } else {
+        f64::INFINITY
+    };
+    let fl = match floor::measure(&s, cx, cy, &spec, &rd.plane, highest, &mut sc.floor) {
+        Ok(fl) => fl,
+        Err(floor::FloorFail::TooFewPixels) => {
+            return Err(nm("the floor has too few valid pixels"))
+        }
+        Err(floor::FloorFail::TooHigh) => return Err(nm("shallower than the depth gate")),
+    };
     let depth = rim_det_median - fl.floor_level_m;
     if !(depth > 0.0) {
         return Err(nm("the rim does not stand above the floor"));
+    }
+    if depth / (2.0 * r) < least {
+        return Err(nm("shallower than the depth gate"));
     }
 
     let ell = ellipse_fit::fit(&rim_pts);
@@ -583,7 +612,45 @@ fn widest_gap(has: &[bool]) -> (usize, f64) {
 
 #[cfg(test)]
 mod tests {
-    use super::widest_gap;
+    use super::{measure, measure_screened, widest_gap, MeasureOptions};
+    use crate::detect::DetectOptions;
+
+    use crate::test_grids as common;
+
+    /// The survey's early gates change only how soon a failing crater is given up: a bowl
+    /// inside the range measures exactly as without them, one outside it (by diameter or by
+    /// depth) fails. A rimmed paraboloid 1.2 km across and 150 m deep (d/D 0.125).
+    #[test]
+    fn gates_stop_early_without_changing_what_passes() {
+        let (d, depth) = (1200.0, 150.0);
+        let g = common::grid_around(200, 200, 0.0, 180.0, 0.0, |x, y| {
+            common::rimmed_bowl(x.hypot(y), d / 2.0, depth, 20.0)
+        });
+        let opts = MeasureOptions::default();
+        let plain = measure(&g, 180.0, 0.0, d, &opts).expect("bowl measures");
+        let gates = |lo: f64, hi: f64, frac: f64| DetectOptions {
+            diameter_min_m: lo,
+            diameter_max_m: hi,
+            min_fraction_of_fresh_depth: frac,
+            ..DetectOptions::default()
+        };
+        let run = |o: &DetectOptions| measure_screened(&g, 180.0, 0.0, d, &opts, 0.0, Some(o));
+        assert_eq!(run(&gates(1000.0, 1500.0, 0.2)).expect("passes"), plain);
+        assert!(
+            run(&gates(1300.0, 2000.0, 0.2)).is_err(),
+            "too small for the range"
+        );
+        assert!(
+            run(&gates(500.0, 1100.0, 0.2)).is_err(),
+            "too large for the range"
+        );
+        // Fresh d/D at 1.2 km is about 0.197 (Pike 1977, from memory); 0.125 is 0.63 of it.
+        assert!(run(&gates(1000.0, 1500.0, 0.6)).is_ok());
+        assert!(
+            run(&gates(1000.0, 1500.0, 0.7)).is_err(),
+            "shallower than the gate"
+        );
+    }
 
     #[test]
     fn widest_gap_wraps_around_north() {

@@ -62,9 +62,17 @@ pub fn survey_grid(
             GUESS_FACTORS.iter().find_map(|f| {
                 let dia = f * d.diameter_m;
                 let least = detect_opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(dia);
-                measure_screened(grid, d.lon_deg, d.lat_deg, dia, measure_opts, least)
-                    .ok()
-                    .filter(|m| looks_like_crater(m, detect_opts))
+                measure_screened(
+                    grid,
+                    d.lon_deg,
+                    d.lat_deg,
+                    dia,
+                    measure_opts,
+                    least,
+                    Some(detect_opts),
+                )
+                .ok()
+                .filter(|m| looks_like_crater(m, detect_opts))
             })
         })
         .collect();
