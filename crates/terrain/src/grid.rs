@@ -186,12 +186,67 @@ impl ElevationGrid {
 
     /// Smallest and largest valid height, or `None` if the window holds no data.
     pub fn min_max(&self) -> Option<(f32, f32)> {
-        self.heights_m
-            .iter()
-            .filter(|h| !h.is_nan())
-            .fold(None, |acc, &h| match acc {
-                None => Some((h, h)),
-                Some((lo, hi)) => Some((lo.min(h), hi.max(h))),
-            })
+        // Eight running extremes side by side, so the loop runs in vector registers (a survey
+        // scans every tile window); `f32::min` and `max` pass over NaN, as nodata should be.
+        const LANES: usize = 8;
+        let (mut lo, mut hi) = ([f32::INFINITY; LANES], [f32::NEG_INFINITY; LANES]);
+        let chunks = self.heights_m.chunks_exact(LANES);
+        let rest = chunks.remainder();
+        for c in chunks {
+            for k in 0..LANES {
+                lo[k] = lo[k].min(c[k]);
+                hi[k] = hi[k].max(c[k]);
+            }
+        }
+        for &h in rest {
+            lo[0] = lo[0].min(h);
+            hi[0] = hi[0].max(h);
+        }
+        let lo = lo.into_iter().fold(f32::INFINITY, f32::min);
+        let hi = hi.into_iter().fold(f32::NEG_INFINITY, f32::max);
+        // Any height at all leaves lo <= hi; none leaves them at their starting infinities.
+        (lo <= hi).then_some((lo, hi))
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn grid(heights_m: Vec<f32>) -> ElevationGrid {
+        ElevationGrid {
+            geometry: Arc::new(GridGeometry::global_simple_cylindrical(1.0, 1)),
+            col0: 0,
+            row0: 0,
+            width: heights_m.len(),
+            height: 1,
+            heights_m,
+        }
+    }
+
+    /// The lane-wise extremes against a plain pass over the heights, with holes in every
+    /// position of a lane and a tail shorter than a lane.
+    #[test]
+    fn min_max_skips_nodata_in_every_lane_and_the_tail() {
+        for n in [0usize, 1, 7, 8, 9, 61] {
+            let heights: Vec<f32> = (0..n)
+                .map(|k| {
+                    if k % 3 == 1 {
+                        f32::NAN
+                    } else {
+                        ((k * 37) % 23) as f32 - 11.5
+                    }
+                })
+                .collect();
+            let valid: Vec<f32> = heights.iter().copied().filter(|h| !h.is_nan()).collect();
+            let plain = (!valid.is_empty()).then(|| {
+                (
+                    valid.iter().copied().fold(f32::INFINITY, f32::min),
+                    valid.iter().copied().fold(f32::NEG_INFINITY, f32::max),
+                )
+            });
+            assert_eq!(grid(heights).min_max(), plain, "{n} heights");
+        }
+        assert_eq!(grid(vec![f32::NAN; 20]).min_max(), None);
     }
 }
