@@ -73,9 +73,20 @@ fn horn_slope_deg(
 pub struct FloorBuffers {
     /// Floor pixels: the fit's terms (1, x, y, x^2 + y^2) and the height.
     floor: Vec<([f64; 4], f64)>,
-    /// Every floor or wall pixel in visiting order: column, row, pixel size, on floor, on wall.
-    pixels: Vec<(usize, usize, (f64, f64), bool, bool)>,
+    /// Every floor or wall pixel in visiting order.
+    pixels: Vec<FloorPixel>,
     slopes: Vec<f64>,
+}
+
+/// A pixel of the floor disc or the wall ring, for the slope pass.
+#[derive(Clone, Copy, Debug)]
+struct FloorPixel {
+    col: usize,
+    row: usize,
+    /// Ground size (east-west, north-south), m.
+    size: (f64, f64),
+    on_floor: bool,
+    on_wall: bool,
 }
 
 /// Why [`measure`] gave no metrics.
@@ -182,7 +193,13 @@ pub fn measure(
                 px_sum += (dx * dy).sqrt();
                 px_n += 1;
             }
-            pixels.push((c, r, (dx, dy), on_floor, on_wall));
+            pixels.push(FloorPixel {
+                col: c,
+                row: r,
+                size: (dx, dy),
+                on_floor,
+                on_wall,
+            });
         }
     }
     if floor.len() < 4 {
@@ -216,13 +233,13 @@ pub fn measure(
         .fold(f64::INFINITY, f64::min);
     // Second pass: Horn slopes, once per pixel, in the first pass's order.
     let (mut wall_sum, mut wall_n) = (0.0, 0usize);
-    for &(c, r, (dx, dy), on_floor, on_wall) in pixels.iter() {
-        let slope = horn_slope_deg(heights, w, h, c, r, dx, dy);
+    for p in pixels.iter() {
+        let slope = horn_slope_deg(heights, w, h, p.col, p.row, p.size.0, p.size.1);
         if let Some(sl) = slope {
-            if on_floor {
+            if p.on_floor {
                 slopes.push(sl);
             }
-            if on_wall {
+            if p.on_wall {
                 wall_sum += sl;
                 wall_n += 1;
             }
