@@ -25,7 +25,9 @@ pub use criteria::{
 };
 pub use error::SitingError;
 pub use export::Provenance;
-pub use ranking::{rank, FailedRequirement, PreparedTable, RankedEntry, Ranking};
+pub use ranking::{
+    rank, rank_on_demand, FailedRequirement, PreparedTable, RankedEntry, Ranking, RankingOnDemand,
+};
 pub use smaa::{smaa, SmaaResult};
 pub use study::Study;
 

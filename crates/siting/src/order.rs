@@ -4,19 +4,21 @@
 //!
 //! A large group is sorted in two stages, both radix sorts (Knuth, "The Art of Computer
 //! Programming" vol. 3, 2nd ed. 1998, section 5.2.5):
-//! - a most-significant-digit distribution of the group into key ranges, stable, with both
-//!   cores filling the ranges side by side;
-//! - each run of ranges of about `PART_ITEMS` candidates (small enough to stay in one core's
-//!   cache with its scratch) sorted on its own by a stable least-significant-digit radix
-//!   sort, the runs shared out between the cores.
+//! - a most-significant-digit distribution of the group into key ranges ("shelves"), stable,
+//!   with both cores filling the shelves side by side;
+//! - each shelf sorted on its own, either when a reader first asks for a place on it
+//!   ([`Shelves::at`], [`Shelves::position_of`]) or all at once ([`Shelves::complete`]): runs
+//!   of shelves of about `PART_ITEMS` candidates (small enough to stay in one core's cache with
+//!   their scratch) by a stable least-significant-digit radix sort, shared out between the
+//!   cores.
 //!
-//! The places (`ranks`) are written as each part of the order is finished, while it is in cache.
+//! A window showing the first rows of 500,000 thus needs the distribution and a shelf or two,
+//! not the whole sort: the workbench re-ranks every frame while a weight is dragged.
 //!
 //! Both stages sort on a 32-bit window of the key: its offset from the group's least key,
 //! shifted so the window spans the group's whole range. Candidates that agree on the window
 //! but not on the whole key (rare for scores: the window resolves about one part in 4e9 of
-//! the range) are then put in order on the whole key. Nothing has to be merged at the end,
-//! which is what keeps a 500,000-row re-rank inside a GUI frame.
+//! the range) are then put in order on the whole key. Nothing has to be merged at the end.
 
 use rayon::prelude::*;
 use std::cell::RefCell;
@@ -32,16 +34,21 @@ const BUCKETS: usize = 1 << DIGIT_BITS;
 /// Candidates per in-cache sort: 16k items of 8 bytes plus as much scratch fill half of a
 /// 512 KB second-level cache (the project machine's per core).
 const PART_ITEMS: usize = 1 << 14;
+/// Items per 64-byte cache line, the unit the distribution writes in.
+const LINE: usize = 8;
 /// Candidates per parallel work unit of the distribution.
 const CHUNK: usize = 1 << 16;
-/// Below this a group is sorted by a plain stable comparison sort: the radix machinery
-/// costs more than it saves.
+/// Below this a group is one shelf, sorted by a plain stable comparison sort: the radix
+/// machinery costs more than it saves.
 const SMALL: usize = 1 << 13;
+/// A shelf sorted alone uses the radix sort from this size, a comparison sort below it (the
+/// radix sort's three passes over 2048 counters each cost more on a few hundred items).
+const RADIX_MIN: usize = 1 << 10;
 
 thread_local! {
-    /// The distribution's buffer, kept between sorts on the same thread: a weight drag sorts
-    /// every frame, and fresh megabytes each time cost page faults and zeroing.
-    static PLACED: RefCell<Vec<AtomicU64>> = const { RefCell::new(Vec::new()) };
+    /// The distribution's items in input order, kept between sorts on the same thread: a
+    /// weight drag re-ranks every frame, and fresh megabytes each time cost page faults.
+    static KEYED: RefCell<Vec<u64>> = const { RefCell::new(Vec::new()) };
 }
 
 /// One group: candidate indices in tie order and the least and greatest key among them.
@@ -59,66 +66,305 @@ pub(crate) struct Sorted {
 }
 
 /// Sort `groups` by `key` (ascending, equal keys in input order) into one order, with the
-/// place of each value; `ranks_len` is one more than the largest value.
+/// place of each value; `ranks_len` is one more than the largest value. (The ranking does the
+/// same through [`Shelves`], reading places before it completes.)
+#[cfg(test)]
 pub(crate) fn sort_groups<K>(groups: &[Group], ranks_len: usize, key: K) -> Sorted
 where
     K: Fn(u32) -> u64 + Sync,
 {
-    let n: usize = groups.iter().map(|g| g.values.len()).sum();
-    let mut order = vec![0u32; n];
-    // Each place is written once, by whichever core sorted that part of the order; relaxed
-    // atomics make the scattered writes safe without locks (a relaxed store is a plain store).
-    let ranks: Vec<AtomicU32> = (0..ranks_len).map(|_| AtomicU32::new(0)).collect();
-    let mut rest: &mut [u32] = &mut order;
-    let mut base = 0;
-    for g in groups {
-        let (mine, after) = std::mem::take(&mut rest).split_at_mut(g.values.len());
-        rest = after;
-        let places = Places {
-            ranks: &ranks,
-            base,
-        };
-        base += g.values.len();
-        if g.values.len() < SMALL || g.key_min >= g.key_max {
-            sort_small(g.values, &key, mine);
-            places.record(0, mine);
-        } else {
-            // The buffer is borrowed for this thread's sort; a sort started on the same
-            // thread meanwhile (rayon may run one while this one waits) takes a fresh one.
-            let done = PLACED.with(|p| match p.try_borrow_mut() {
-                Ok(mut placed) => {
-                    sort_large(g, &key, mine, &mut placed, &places);
-                    true
+    let mut shelves = Shelves::distribute(groups, &key);
+    shelves.complete(&key);
+    shelves.sorted(ranks_len)
+}
+
+/// How one group's keys map to the 32-bit window and its window to a shelf.
+#[derive(Clone, Copy, Debug)]
+struct Span {
+    /// Candidates in the group.
+    len: usize,
+    /// The group's shelves: `first_shelf..first_shelf + shelves`.
+    first_shelf: usize,
+    shelves: usize,
+    key_min: u64,
+    span: u64,
+    shift: u32,
+    /// Right shift from window to shelf; `None` when the group is a single shelf.
+    top_shift: Option<u32>,
+    /// The window is the whole key offset: no ties to order on the whole key.
+    exact: bool,
+}
+
+impl Span {
+    fn window(&self, key: u64) -> u32 {
+        // Clamped so a key outside the stated bounds cannot wrap around (it would still sort
+        // to an end of the group, not corrupt anything).
+        (key.saturating_sub(self.key_min).min(self.span) >> self.shift) as u32
+    }
+
+    fn shelf(&self, window: u32) -> usize {
+        self.first_shelf + self.top_shift.map_or(0, |s| (window >> s) as usize)
+    }
+}
+
+/// The groups distributed onto shelves (the first stage done), each shelf sorted when first
+/// read. Every read gives the place it would have in the fully sorted order.
+#[derive(Debug)]
+pub(crate) struct Shelves {
+    /// `(window << 32) | value`, group after group, each group's shelves in key order.
+    items: Vec<AtomicU64>,
+    /// Shelf `s` holds `items[bounds[s]..bounds[s + 1]]`.
+    bounds: Vec<usize>,
+    sorted: Vec<bool>,
+    spans: Vec<Span>,
+}
+
+impl Shelves {
+    /// The first stage: each group's candidates onto its shelves, stable. Each slot is written
+    /// once by one core; relaxed atomics make that safe without locks (a relaxed store is a
+    /// plain store).
+    pub(crate) fn distribute<K>(groups: &[Group], key: &K) -> Shelves
+    where
+        K: Fn(u32) -> u64 + Sync,
+    {
+        let n: usize = groups.iter().map(|g| g.values.len()).sum();
+        let items: Vec<AtomicU64> = (0..n).map(|_| AtomicU64::new(0)).collect();
+        let mut bounds = vec![0usize];
+        let mut spans = Vec::with_capacity(groups.len());
+        let mut base = 0;
+        for g in groups {
+            let len = g.values.len();
+            let span = g.key_max.saturating_sub(g.key_min);
+            let span_bits = 64 - span.leading_zeros();
+            let shift = span_bits.saturating_sub(32);
+            let used_bits = span_bits - shift;
+            let one_shelf = len < SMALL || g.key_min >= g.key_max;
+            let sp = Span {
+                len,
+                first_shelf: bounds.len() - 1,
+                shelves: if one_shelf { 1 } else { TOP },
+                key_min: g.key_min,
+                span,
+                shift,
+                top_shift: (!one_shelf).then(|| used_bits.saturating_sub(TOP_BITS)),
+                exact: shift == 0,
+            };
+            let mine = &items[base..base + len];
+            let item = |v: u32| (u64::from(sp.window(key(v))) << 32) | u64::from(v);
+            if one_shelf {
+                for (slot, &v) in mine.iter().zip(g.values) {
+                    slot.store(item(v), Relaxed);
                 }
-                Err(_) => false,
-            });
-            if !done {
-                sort_large(g, &key, mine, &mut Vec::new(), &places);
+                bounds.push(base + len);
+            } else {
+                let first = sp.first_shelf;
+                // Count each chunk's candidates per shelf, then place them: chunk c's
+                // candidates of shelf d follow chunk c-1's, so the distribution is stable.
+                // The items are made once, in input order, while counting.
+                // Taken out of the thread's slot, not borrowed: a sort started meanwhile on
+                // this thread (rayon may run one while this one waits) finds it empty.
+                let mut keyed = KEYED.with(|k| std::mem::take(&mut *k.borrow_mut()));
+                keyed.clear();
+                keyed.resize(len, 0);
+                let counts: Vec<Vec<u32>> = g
+                    .values
+                    .par_chunks(CHUNK)
+                    .zip(keyed.par_chunks_mut(CHUNK))
+                    .map(|(vs, out)| {
+                        let mut h = vec![0u32; TOP];
+                        for (o, &v) in out.iter_mut().zip(vs) {
+                            let x = item(v);
+                            *o = x;
+                            h[sp.shelf((x >> 32) as u32) - first] += 1;
+                        }
+                        h
+                    })
+                    .collect();
+                let mut next = counts.clone();
+                let mut sum = 0usize;
+                for d in 0..TOP {
+                    for (nx, c) in next.iter_mut().zip(&counts) {
+                        nx[d] = sum as u32;
+                        sum += c[d] as usize;
+                    }
+                    bounds.push(base + sum);
+                }
+                // Items are gathered per shelf in a cache line's worth (software write
+                // combining): a store straight to its shelf would miss the cache every time,
+                // a full line written at once misses once.
+                keyed
+                    .par_chunks(CHUNK)
+                    .zip(next.par_iter_mut())
+                    .for_each(|(xs, nx)| {
+                        let mut lines = vec![[0u64; LINE]; TOP];
+                        let mut fill = vec![0u8; TOP];
+                        let mut put = |d: usize, xs: &[u64]| {
+                            let at = nx[d] as usize;
+                            if let Some(slots) = mine.get(at..at + xs.len()) {
+                                for (slot, &x) in slots.iter().zip(xs) {
+                                    slot.store(x, Relaxed);
+                                }
+                            }
+                            nx[d] += xs.len() as u32;
+                        };
+                        for &x in xs {
+                            let d = sp.shelf((x >> 32) as u32) - first;
+                            let f = usize::from(fill[d]);
+                            lines[d][f] = x;
+                            if f + 1 == LINE {
+                                put(d, &lines[d]);
+                                fill[d] = 0;
+                            } else {
+                                fill[d] = f as u8 + 1;
+                            }
+                        }
+                        for d in 0..TOP {
+                            put(d, &lines[d][..usize::from(fill[d])]);
+                        }
+                    });
+                KEYED.with(|k| *k.borrow_mut() = keyed);
             }
+            spans.push(sp);
+            base += len;
+        }
+        let sorted = vec![false; bounds.len() - 1];
+        Shelves {
+            items,
+            bounds,
+            sorted,
+            spans,
         }
     }
-    // Same size and alignment: collected in place.
-    let ranks = ranks.into_iter().map(AtomicU32::into_inner).collect();
-    Sorted { order, ranks }
-}
 
-/// Where the places of one group's values go: `ranks[v]` = 1-based place of `v` in the
-/// whole order, the group starting at `base`.
-struct Places<'a> {
-    ranks: &'a [AtomicU32],
-    base: usize,
-}
+    /// Number of places.
+    #[cfg(test)]
+    pub(crate) fn len(&self) -> usize {
+        self.items.len()
+    }
 
-impl Places<'_> {
-    /// Record that `values` fill the group's order from position `start` on. Written while
-    /// each part of the order is still in cache, so no second pass over the order is needed.
-    fn record(&self, start: usize, values: &[u32]) {
-        let first = self.base + start + 1;
-        for (k, &v) in values.iter().enumerate() {
-            if let Some(r) = self.ranks.get(v as usize) {
-                r.store((first + k) as u32, Relaxed);
+    fn span_of_shelf(&self, s: usize) -> &Span {
+        self.spans
+            .iter()
+            .find(|sp| s >= sp.first_shelf && s < sp.first_shelf + sp.shelves)
+            .unwrap_or(&self.spans[0])
+    }
+
+    /// Sort shelf `s` if it is not yet.
+    fn sort_shelf<K: Fn(u32) -> u64>(&mut self, s: usize, key: &K) {
+        if self.sorted[s] {
+            return;
+        }
+        let (a, b) = (self.bounds[s], self.bounds[s + 1]);
+        if b - a > 1 {
+            let exact = self.span_of_shelf(s).exact;
+            let mut items: Vec<u64> = self.items[a..b].iter().map(|x| x.load(Relaxed)).collect();
+            sort_items(&mut items, &mut Vec::new(), exact, key);
+            for (slot, x) in self.items[a..b].iter().zip(items) {
+                slot.store(x, Relaxed);
             }
         }
+        self.sorted[s] = true;
+    }
+
+    /// The value at 0-based place `pos` of the whole order.
+    pub(crate) fn at<K: Fn(u32) -> u64>(&mut self, pos: usize, key: &K) -> Option<u32> {
+        if pos >= self.items.len() {
+            return None;
+        }
+        let s = self.bounds.partition_point(|&b| b <= pos) - 1;
+        self.sort_shelf(s, key);
+        Some(self.items[pos].load(Relaxed) as u32)
+    }
+
+    /// The 0-based place of value `v`, which belongs to group `group`.
+    pub(crate) fn position_of<K: Fn(u32) -> u64>(
+        &mut self,
+        group: usize,
+        v: u32,
+        key: &K,
+    ) -> Option<usize> {
+        let sp = *self.spans.get(group)?;
+        if sp.len == 0 {
+            return None;
+        }
+        let s = sp.shelf(sp.window(key(v)));
+        self.sort_shelf(s, key);
+        let (a, b) = (self.bounds[s], self.bounds[s + 1]);
+        (a..b).find(|&p| self.items[p].load(Relaxed) as u32 == v)
+    }
+
+    /// Sort every shelf not yet sorted: runs of whole shelves of about `PART_ITEMS`
+    /// candidates (a run of shelves sorted together comes out as each sorted alone, since
+    /// the shelves split the window into consecutive ranges), shared out between the cores.
+    pub(crate) fn complete<K: Fn(u32) -> u64 + Sync>(&mut self, key: &K) {
+        let mut parts: Vec<(usize, usize, bool)> = Vec::new();
+        for sp in &self.spans {
+            let (mut start, mut open) = (sp.first_shelf, false);
+            for s in sp.first_shelf..sp.first_shelf + sp.shelves {
+                open |= !self.sorted[s];
+                let (a, b) = (self.bounds[start], self.bounds[s + 1]);
+                if b - a >= PART_ITEMS || s + 1 == sp.first_shelf + sp.shelves {
+                    if open && b - a > 1 {
+                        parts.push((a, b, sp.exact));
+                    }
+                    (start, open) = (s + 1, false);
+                }
+            }
+        }
+        let items = &self.items;
+        parts.into_par_iter().for_each_init(
+            || (Vec::new(), Vec::new()),
+            |(buf, scratch): &mut (Vec<u64>, Vec<u64>), (a, b, exact)| {
+                buf.clear();
+                buf.extend(items[a..b].iter().map(|x| x.load(Relaxed)));
+                sort_items(buf, scratch, exact, key);
+                for (slot, &x) in items[a..b].iter().zip(buf.iter()) {
+                    slot.store(x, Relaxed);
+                }
+            },
+        );
+        self.sorted.iter_mut().for_each(|s| *s = true);
+    }
+
+    /// The whole order and every value's place, once [`Shelves::complete`] has run.
+    pub(crate) fn sorted(&self, ranks_len: usize) -> Sorted {
+        let order: Vec<u32> = self
+            .items
+            .par_iter()
+            .map(|x| x.load(Relaxed) as u32)
+            .collect();
+        // Each place is written once; relaxed atomics make the scattered writes safe without
+        // locks.
+        let ranks: Vec<AtomicU32> = (0..ranks_len).map(|_| AtomicU32::new(0)).collect();
+        order.par_chunks(CHUNK).enumerate().for_each(|(c, vs)| {
+            for (k, &v) in vs.iter().enumerate() {
+                if let Some(r) = ranks.get(v as usize) {
+                    r.store((c * CHUNK + k + 1) as u32, Relaxed);
+                }
+            }
+        });
+        // Same size and alignment: collected in place.
+        let ranks = ranks.into_iter().map(AtomicU32::into_inner).collect();
+        Sorted { order, ranks }
+    }
+}
+
+/// `(window << 32) | value` items in window order, equal windows in their present order, then
+/// runs that agree on the window in whole-key order (unless the window is `exact`).
+fn sort_items<K: Fn(u32) -> u64>(
+    items: &mut Vec<u64>,
+    scratch: &mut Vec<u64>,
+    exact: bool,
+    key: &K,
+) {
+    if items.len() >= RADIX_MIN {
+        radix_on_window(items, scratch);
+    } else {
+        // Stable: equal windows keep their order.
+        items.sort_by_key(|&x| x >> 32);
+    }
+    if !exact {
+        order_window_ties(items, key);
     }
 }
 
@@ -138,109 +384,6 @@ where
         key_max,
     };
     sort_groups(&[g], len, key).order
-}
-
-fn sort_small<K: Fn(u32) -> u64>(values: &[u32], key: &K, out: &mut [u32]) {
-    let mut keyed: Vec<(u64, u32)> = values.iter().map(|&v| (key(v), v)).collect();
-    // Stable: equal keys keep their input order.
-    keyed.sort_by_key(|&(k, _)| k);
-    for (o, (_, v)) in out.iter_mut().zip(keyed) {
-        *o = v;
-    }
-}
-
-/// The two-stage radix sort of one large group into `out`; `placed` is scratch.
-fn sort_large<K>(g: &Group, key: &K, out: &mut [u32], placed: &mut Vec<AtomicU64>, places: &Places)
-where
-    K: Fn(u32) -> u64 + Sync,
-{
-    let values = g.values;
-    let n = values.len();
-    let span = g.key_max - g.key_min;
-    let span_bits = 64 - span.leading_zeros();
-    let shift = span_bits.saturating_sub(32);
-    let used_bits = span_bits - shift;
-    let (key_min, exact) = (g.key_min, shift == 0);
-    // Clamped so a key outside the stated bounds cannot wrap around (it would still sort
-    // to an end of the group, not corrupt anything).
-    let window = |v: u32| (key(v).saturating_sub(key_min).min(span) >> shift) as u32;
-    let top = |w: u32| (w >> used_bits.saturating_sub(TOP_BITS)) as usize;
-
-    // Stage 1: count each chunk's candidates per key range, then place them: chunk c's
-    // candidates of range d follow chunk c-1's, so the distribution is stable.
-    let counts: Vec<Vec<u32>> = values
-        .par_chunks(CHUNK)
-        .map(|vs| {
-            let mut h = vec![0u32; TOP];
-            for &v in vs {
-                h[top(window(v))] += 1;
-            }
-            h
-        })
-        .collect();
-    let mut next = counts.clone();
-    let mut range_start = vec![0usize; TOP + 1];
-    let mut sum = 0usize;
-    for d in 0..TOP {
-        range_start[d] = sum;
-        for (nx, c) in next.iter_mut().zip(&counts) {
-            nx[d] = sum as u32;
-            sum += c[d] as usize;
-        }
-    }
-    range_start[TOP] = sum;
-    // Each slot is written once by one core; relaxed atomics make that safe without locks
-    // (a relaxed store is a plain store). Left-over contents are all overwritten.
-    if placed.len() < n {
-        placed.resize_with(n, || AtomicU64::new(0));
-    }
-    let placed = &placed[..n];
-    values
-        .par_chunks(CHUNK)
-        .zip(next.par_iter_mut())
-        .for_each(|(vs, nx)| {
-            for &v in vs {
-                let w = window(v);
-                let d = top(w);
-                if let Some(slot) = placed.get(nx[d] as usize) {
-                    slot.store((u64::from(w) << 32) | u64::from(v), Relaxed);
-                }
-                nx[d] += 1;
-            }
-        });
-
-    // Stage 2: whole key ranges gathered into parts of about PART_ITEMS, each sorted alone.
-    let mut parts: Vec<(usize, &mut [u32])> = Vec::new();
-    let mut rest = out;
-    let mut start = 0;
-    for d in 0..TOP {
-        let end = range_start[d + 1];
-        if end - start >= PART_ITEMS || (d + 1 == TOP && end > start) {
-            let (mine, after) = std::mem::take(&mut rest).split_at_mut(end - start);
-            rest = after;
-            parts.push((start, mine));
-            start = end;
-        }
-    }
-    parts.into_par_iter().for_each_init(
-        || (Vec::new(), Vec::new()),
-        |(items, scratch): &mut (Vec<u64>, Vec<u64>), (start, mine)| {
-            items.clear();
-            items.extend(
-                placed[start..start + mine.len()]
-                    .iter()
-                    .map(|x| x.load(Relaxed)),
-            );
-            radix_on_window(items, scratch);
-            if !exact {
-                order_window_ties(items, key);
-            }
-            for (o, &x) in mine.iter_mut().zip(items.iter()) {
-                *o = x as u32;
-            }
-            places.record(start, mine);
-        },
-    );
 }
 
 /// Stable least-significant-digit radix sort of `(window << 32) | value` items on the window.
@@ -363,6 +506,56 @@ mod tests {
         }
         check(|x| x, 0);
         check(|_| 7, 50_000);
+    }
+
+    /// Places read shelf by shelf, in a scattered order and before anything else is sorted,
+    /// are the places of the full sort; so are the positions found from the values, and a
+    /// completion after some reads changes nothing.
+    #[test]
+    fn places_read_before_the_sort_are_the_sorted_places() {
+        for (n, coarse) in [(60_000u32, false), (60_000, true), (5_000, false)] {
+            let key_of: Vec<u64> = stream(n)
+                .into_iter()
+                .map(|x| {
+                    let s = unit(x);
+                    score_key(if coarse {
+                        (s * 300.0).round() / 300.0
+                    } else {
+                        s
+                    })
+                })
+                .collect();
+            let key = |v: u32| key_of[v as usize];
+            let (a, b): (Vec<u32>, Vec<u32>) = (0..n).rev().partition(|v| v % 3 != 0);
+            let bounds = |vs: &[u32]| {
+                let ks = vs.iter().map(|&v| key(v));
+                (ks.clone().min().unwrap_or(u64::MAX), ks.max().unwrap_or(0))
+            };
+            let groups = [(&a, bounds(&a)), (&b, bounds(&b))].map(|(values, (lo, hi))| Group {
+                values,
+                key_min: lo,
+                key_max: hi,
+            });
+            let full = sort_groups(&groups, n as usize, key);
+            let mut lazy = Shelves::distribute(&groups, &key);
+            assert_eq!(lazy.len(), n as usize);
+            let step = 7919; // a prime: visits every place once, far from in order
+            for k in 0..n as usize {
+                let pos = (k * step) % n as usize;
+                assert_eq!(lazy.at(pos, &key), Some(full.order[pos]), "place {pos}");
+            }
+            assert_eq!(lazy.at(n as usize, &key), None);
+            let mut fresh = Shelves::distribute(&groups, &key);
+            for v in (0..n).step_by(13) {
+                let group = usize::from(v % 3 == 0);
+                let pos = fresh.position_of(group, v, &key);
+                assert_eq!(pos, Some(full.ranks[v as usize] as usize - 1), "value {v}");
+            }
+            fresh.complete(&key);
+            let again = fresh.sorted(n as usize);
+            assert_eq!(again.order, full.order);
+            assert_eq!(again.ranks, full.ranks);
+        }
     }
 
     #[test]

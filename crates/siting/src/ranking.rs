@@ -6,7 +6,7 @@
 //! [`rank`] then forms the weighted sum (or product) over contiguous columns and sorts, so a
 //! weight change re-ranks hundreds of thousands of candidates within a GUI frame.
 
-use std::sync::OnceLock;
+use std::sync::{Arc, OnceLock};
 
 use rayon::prelude::*;
 use survey::SurveyFile;
@@ -207,6 +207,19 @@ pub struct Ranking {
 /// (descending), ties by candidate id then survey position, so the order is total and a
 /// rerun gives the same ranking.
 pub fn rank(table: &PreparedTable, criteria: &Criteria) -> Result<Ranking, SitingError> {
+    let mut draft = rank_on_demand(table, criteria)?;
+    Ok(draft.complete())
+}
+
+/// [`rank`] with the order put together as it is read: every score is final at once, and a
+/// place ([`RankingOnDemand::at`], [`RankingOnDemand::place`]) costs the sort of the few
+/// hundred candidates whose scores lie near it, not of all of them. A window that shows the
+/// first rows of a large survey then re-ranks in a fraction of the full sort, with the same
+/// places the full sort gives. [`RankingOnDemand::complete`] gives the whole [`Ranking`].
+pub fn rank_on_demand(
+    table: &PreparedTable,
+    criteria: &Criteria,
+) -> Result<RankingOnDemand, SitingError> {
     if let Some(reason) = table.stale_reason(criteria) {
         return Err(SitingError::StaleTable(reason));
     }
@@ -225,20 +238,91 @@ pub fn rank(table: &PreparedTable, criteria: &Criteria) -> Result<Ranking, Sitin
             key_max: bounds[1].1,
         },
     ];
-    let sorted =
-        crate::order::sort_groups(&groups, scores.len(), |i| score_key(scores[i as usize]));
-    Ok(Ranking {
+    let shelves = crate::order::Shelves::distribute(&groups, &|i| score_key(scores[i as usize]));
+    Ok(RankingOnDemand {
         method: criteria.scoring,
         weights,
-        scores,
-        ranks: sorted.ranks,
-        order: sorted.order,
+        passing: table.tie_passing.len(),
+        scores: Arc::new(scores),
+        shelves,
     })
 }
 
+/// A ranking whose scores are all known and whose order is sorted where it is read (see
+/// [`rank_on_demand`]).
+pub struct RankingOnDemand {
+    pub method: ScoreMethod,
+    /// Normalised weights (sum 1), in criteria order.
+    pub weights: Vec<f64>,
+    passing: usize,
+    scores: Arc<Vec<f64>>,
+    shelves: crate::order::Shelves,
+}
+
+impl std::fmt::Debug for RankingOnDemand {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("RankingOnDemand")
+            .field("candidates", &self.scores.len())
+            .field("passing", &self.passing)
+            .finish_non_exhaustive()
+    }
+}
+
+impl RankingOnDemand {
+    /// Score in [0, 1] per candidate, in survey order (shared, not copied).
+    pub fn scores(&self) -> &Arc<Vec<f64>> {
+        &self.scores
+    }
+
+    pub fn len(&self) -> usize {
+        self.scores.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.scores.is_empty()
+    }
+
+    /// Candidates that pass every hard requirement; they fill the first places.
+    pub fn passing_count(&self) -> usize {
+        self.passing
+    }
+
+    /// The candidate at 0-based place `pos` of the whole order.
+    pub fn at(&mut self, pos: usize) -> Option<u32> {
+        let scores = &self.scores;
+        self.shelves.at(pos, &|i| score_key(scores[i as usize]))
+    }
+
+    /// 1-based place of candidate `index` in the whole order (failed ones after all that
+    /// pass); `table` is the one this ranking was made from.
+    pub fn place(&mut self, table: &PreparedTable, index: usize) -> Option<u32> {
+        let group = usize::from(!*table.passed.get(index)?);
+        let scores = &self.scores;
+        self.shelves
+            .position_of(group, index as u32, &|i| score_key(scores[i as usize]))
+            .map(|p| p as u32 + 1)
+    }
+
+    /// The whole ranking (sorting what has not been read yet).
+    pub fn complete(&mut self) -> Ranking {
+        let scores = &self.scores;
+        let key = |i: u32| score_key(scores[i as usize]);
+        self.shelves.complete(&key);
+        let sorted = self.shelves.sorted(scores.len());
+        Ranking {
+            method: self.method,
+            weights: self.weights.clone(),
+            scores: scores.as_ref().clone(),
+            ranks: sorted.ranks,
+            order: sorted.order,
+        }
+    }
+}
+
 /// Sort key of a score in [0, 1]: non-negative f64 bit patterns order like the values, so
-/// the complement sorts the best score first.
-fn score_key(score: f64) -> u64 {
+/// the complement sorts the best score first. Within each group (passing, then failing) the
+/// order is by this key, equal keys in tie order.
+pub fn score_key(score: f64) -> u64 {
     (u64::MAX >> 1) - score.max(0.0).to_bits()
 }
 

@@ -4,42 +4,106 @@
 
 use crate::export_dialog::{ExportFormat, ExportRequest};
 use std::sync::mpsc::{channel, Receiver};
-use std::sync::Arc;
+use std::sync::{Arc, Mutex, MutexGuard, OnceLock};
 use survey::SurveyFile;
 
 pub use siting::{Criteria, PreparedTable, Requirement, SmaaResult, SoftCriterion};
 
 /// What the views read of a ranking, indexed like `survey.candidates`: a view onto the
-/// library's own ranking and the table it was ranked on, shared rather than copied (a
-/// weight drag re-ranks every frame, and copying 500,000 rows per frame costs more than
-/// reading the few that are drawn).
+/// library's ranking and the table it was ranked on, shared rather than copied (a weight drag
+/// re-ranks every frame, and copying 500,000 rows per frame costs more than reading the few
+/// that are drawn). The order is the library's on-demand one: a place costs the sort of the
+/// candidates scored near it, so a frame that shows the first rows does not sort them all;
+/// the places are those of the full sort.
 #[derive(Clone, Debug, Default)]
 pub struct Ranking {
     /// Bumped on every new ranking so views know to refresh their caches.
     pub generation: u64,
-    /// The library's own ranking, for exports.
-    pub full: Option<Arc<siting::Ranking>>,
+    /// Scores per candidate (shared with the library's ranking).
+    scores: Option<Arc<Vec<f64>>>,
+    passing: usize,
+    /// The library's ranking, its order sorted where it is read.
+    on_demand: Option<Arc<Mutex<siting::RankingOnDemand>>>,
+    /// The whole library ranking, made the first time something needs all of it (exports,
+    /// the whole order).
+    whole: OnceLock<Arc<siting::Ranking>>,
     /// The table the ranking was made from: pass/fail and reasons.
     table: Option<Arc<PreparedTable>>,
 }
 
 impl Ranking {
     pub fn len(&self) -> usize {
-        self.full.as_ref().map_or(0, |f| f.scores.len())
+        self.scores.as_ref().map_or(0, |s| s.len())
     }
 
     pub fn is_empty(&self) -> bool {
         self.len() == 0
     }
 
-    /// Candidate indices, best first (passing by score, then failed).
+    fn on_demand(&self) -> Option<MutexGuard<'_, siting::RankingOnDemand>> {
+        self.on_demand
+            .as_ref()
+            .map(|m| m.lock().unwrap_or_else(|p| p.into_inner()))
+    }
+
+    /// The library's whole ranking (sorted in full on first use: exports, tests).
+    pub fn full(&self) -> Option<&Arc<siting::Ranking>> {
+        if let Some(w) = self.whole.get() {
+            return Some(w);
+        }
+        let whole = Arc::new(self.on_demand()?.complete());
+        Some(self.whole.get_or_init(|| whole))
+    }
+
+    /// Candidate indices, best first (passing by score, then failed): the whole order, sorted
+    /// in full. Views read places one at a time with [`Ranking::at`] instead.
     pub fn order(&self) -> &[u32] {
-        self.full.as_ref().map_or(&[], |f| &f.order)
+        self.full().map_or(&[], |f| &f.order)
+    }
+
+    /// The candidate at 0-based place `pos` of the order.
+    pub fn at(&self, pos: usize) -> Option<u32> {
+        match self.whole.get() {
+            Some(w) => w.order.get(pos).copied(),
+            None => self.on_demand()?.at(pos),
+        }
+    }
+
+    /// Candidates from place `start` on, best first, while `f` asks for more. `f` must not
+    /// read this ranking (the order is held for the walk).
+    pub fn walk(&self, start: usize, mut f: impl FnMut(u32) -> bool) {
+        if let Some(w) = self.whole.get() {
+            for &i in w.order.iter().skip(start) {
+                if !f(i) {
+                    return;
+                }
+            }
+            return;
+        }
+        let Some(mut od) = self.on_demand() else {
+            return;
+        };
+        let mut pos = start;
+        while let Some(i) = od.at(pos) {
+            if !f(i) {
+                return;
+            }
+            pos += 1;
+        }
+    }
+
+    /// What the order sorts candidate `index` by: failing after passing, then the library's
+    /// score key; candidates equal on it follow the ranking's tie order ([`Ranking::place`]).
+    pub fn sort_key(&self, index: usize) -> (bool, u64) {
+        (
+            !self.passed(index),
+            siting::ranking::score_key(self.score(index).unwrap_or(0.0)),
+        )
     }
 
     /// Score in [0, 1] of candidate `index`, higher is better.
     pub fn score(&self, index: usize) -> Option<f64> {
-        self.full.as_ref()?.scores.get(index).copied()
+        self.scores.as_ref()?.get(index).copied()
     }
 
     /// Candidate `index` passes every hard requirement.
@@ -60,19 +124,21 @@ impl Ranking {
 
     /// 1-based place of candidate `index` in the whole order (failed ones after all that pass).
     pub fn place(&self, index: usize) -> Option<u32> {
-        self.full.as_ref()?.ranks.get(index).copied()
+        match self.whole.get() {
+            Some(w) => w.ranks.get(index).copied(),
+            None => self.on_demand()?.place(self.table.as_ref()?, index),
+        }
     }
 
     pub fn passing_count(&self) -> usize {
-        // `order` lists every passing candidate before any failed one.
-        self.order().partition_point(|&i| self.passed(i as usize))
+        self.passing
     }
 
-    /// Lowest and highest score among passing candidates, if any pass. `order` sorts those
-    /// that pass by score, so its ends give the range without reading every score.
+    /// Lowest and highest score among passing candidates, if any pass: the scores at the
+    /// ends of the passing places.
     pub fn passing_score_range(&self) -> Option<(f64, f64)> {
         let n = self.passing_count();
-        let at = |k: usize| self.score(*self.order().get(k)? as usize);
+        let at = |k: usize| self.score(self.at(k)? as usize);
         if n > 0 {
             at(n - 1).zip(at(0))
         } else {
@@ -116,8 +182,11 @@ pub fn rank_into(
     generation: u64,
     out: &mut Ranking,
 ) -> Result<(), String> {
-    let full = siting::rank(table, criteria).map_err(|e| e.to_string())?;
-    out.full = Some(Arc::new(full));
+    let od = siting::rank_on_demand(table, criteria).map_err(|e| e.to_string())?;
+    out.scores = Some(od.scores().clone());
+    out.passing = od.passing_count();
+    out.on_demand = Some(Arc::new(Mutex::new(od)));
+    out.whole = OnceLock::new();
     out.table = Some(table.clone());
     out.generation = generation;
     Ok(())
@@ -161,7 +230,7 @@ impl SmaaRun {
 /// Write the shortlist through `siting`'s exporters.
 pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<String, String> {
     let (Some(survey), Some(table), Some(full)) =
-        (&session.survey, &session.prepared, &session.ranking.full)
+        (&session.survey, &session.prepared, session.ranking.full())
     else {
         return Err("Nothing to export: no ranked survey.".into());
     };

@@ -320,34 +320,38 @@ impl CandidateMarks {
     fn choose_drawn(&mut self, session: &Session) {
         let ranking = &session.ranking;
         self.drawn.clear();
-        if ranking.order().len() != self.marks.len() {
+        if ranking.len() != self.marks.len() {
             self.drawn
                 .extend(self.in_view_list.iter().take(MARK_BUDGET));
             return;
         }
-        // A candidate's 1-based place in `order` (the library's rank covers failed ones too).
-        let places = ranking
-            .full
-            .as_ref()
-            .map(|f| &f.ranks)
-            .filter(|r| r.len() == self.marks.len());
-        match places {
-            // Few in view: sort them by their place in the ranking.
-            Some(place) if self.in_view_list.len() <= MARK_BUDGET => {
-                self.drawn.extend_from_slice(&self.in_view_list);
-                self.drawn.sort_unstable_by_key(|&i| place[i as usize]);
-            }
-            // Many: walk the ranking until the budget is full.
-            _ => {
-                for &i in ranking.order() {
-                    if self.in_view.get(i as usize).copied().unwrap_or(false) {
-                        self.drawn.push(i);
-                        if self.drawn.len() == MARK_BUDGET {
-                            break;
-                        }
-                    }
+        if self.in_view_list.len() <= MARK_BUDGET {
+            // Few in view: put them in ranking order by the order's own key, and runs equal
+            // on it by their places (the tie order).
+            self.drawn.extend_from_slice(&self.in_view_list);
+            self.drawn
+                .sort_unstable_by_key(|&i| (ranking.sort_key(i as usize), i));
+            let mut k = 0;
+            while k < self.drawn.len() {
+                let key = ranking.sort_key(self.drawn[k] as usize);
+                let mut end = k + 1;
+                while end < self.drawn.len() && ranking.sort_key(self.drawn[end] as usize) == key {
+                    end += 1;
                 }
+                if end - k > 1 {
+                    self.drawn[k..end].sort_by_key(|&i| ranking.place(i as usize));
+                }
+                k = end;
             }
+        } else {
+            // Many: walk the ranking until the budget is full.
+            let (in_view, drawn) = (&self.in_view, &mut self.drawn);
+            ranking.walk(0, |i| {
+                if in_view.get(i as usize).copied().unwrap_or(false) {
+                    drawn.push(i);
+                }
+                drawn.len() < MARK_BUDGET
+            });
         }
     }
 

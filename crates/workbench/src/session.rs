@@ -147,11 +147,12 @@ impl Session {
 
     /// Index of the candidate ranked `rank` (1-based) among those that pass.
     pub fn index_of_rank(&self, rank: u32) -> Option<usize> {
-        let i = *self
-            .ranking
-            .order()
-            .get(usize::try_from(rank).ok()?.checked_sub(1)?)? as usize;
-        (self.ranking.rank(i) == Some(rank)).then_some(i)
+        let pos = usize::try_from(rank).ok()?.checked_sub(1)?;
+        // Passing candidates fill the first places, so rank r is place r if it passes.
+        (pos < self.ranking.passing_count())
+            .then(|| self.ranking.at(pos))
+            .flatten()
+            .map(|i| i as usize)
     }
 
     pub fn review_mut(&mut self, id: u32) -> &mut CandidateReview {

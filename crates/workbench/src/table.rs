@@ -4,7 +4,6 @@
 use crate::session::{candidate_label, Session};
 use egui::{Align, Color32, RichText};
 use egui_extras::{Column, TableBuilder};
-use std::sync::Arc;
 use survey::METRICS;
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -33,8 +32,8 @@ pub struct CandidateTable {
     /// Candidate indices in display order, rebuilt only when its key changes.
     rows: Vec<u32>,
     /// Set instead of `rows` when the list is the ranking as it is (the common case while
-    /// weights move): the ranking's own order, shared, not copied.
-    rows_are_ranking: Option<Arc<siting::Ranking>>,
+    /// weights move): rows are read from the ranking's own order, place by place.
+    rows_are_ranking: bool,
     rows_key: Option<ViewKey>,
 }
 
@@ -46,7 +45,7 @@ impl Default for CandidateTable {
             filter_text: String::new(),
             status: StatusFilter::All,
             rows: Vec::new(),
-            rows_are_ranking: None,
+            rows_are_ranking: false,
             rows_key: None,
         }
     }
@@ -66,11 +65,31 @@ fn format_value(v: Option<f64>, unit: &str) -> String {
 }
 
 impl CandidateTable {
-    /// Candidate indices as currently listed.
-    pub fn rows(&self) -> &[u32] {
-        match &self.rows_are_ranking {
-            Some(r) => &r.order,
-            None => &self.rows,
+    /// Candidate indices as currently listed (all of them: for tests and tools; the table
+    /// itself reads only the rows it shows).
+    pub fn rows(&self, session: &Session) -> Vec<u32> {
+        if self.rows_are_ranking {
+            session.ranking.order().to_vec()
+        } else {
+            self.rows.clone()
+        }
+    }
+
+    /// How many rows are listed.
+    fn row_count(&self, session: &Session) -> usize {
+        if self.rows_are_ranking {
+            session.ranking.len()
+        } else {
+            self.rows.len()
+        }
+    }
+
+    /// Where candidate `index` is listed, if it is.
+    fn row_of(&self, session: &Session, index: usize) -> Option<usize> {
+        if self.rows_are_ranking {
+            session.ranking.place(index).map(|p| p as usize - 1)
+        } else {
+            self.rows.iter().position(|&r| r as usize == index)
         }
     }
 
@@ -86,7 +105,7 @@ impl CandidateTable {
         if self.rows_key.as_ref() == Some(&key) {
             return;
         }
-        self.rows_are_ranking = None;
+        self.rows_are_ranking = false;
         let Some(survey) = &session.survey else {
             self.rows.clear();
             self.rows_key = Some(key);
@@ -115,20 +134,24 @@ impl CandidateTable {
         let unfiltered = needle.is_empty() && self.status == StatusFilter::All;
         let by_rank = matches!(self.sort, SortKey::Rank | SortKey::Score);
         if by_rank && unfiltered && !self.descending {
-            if let Some(full) = r.full.as_ref().filter(|f| f.order.len() == r.len()) {
+            if r.len() == survey.candidates.len() {
                 self.rows.clear();
-                self.rows_are_ranking = Some(full.clone());
+                self.rows_are_ranking = true;
                 self.rows_key = Some(key);
                 return;
             }
         }
         let mut rows: Vec<u32> = match self.sort {
-            SortKey::Rank | SortKey::Score => r
-                .order()
-                .iter()
-                .copied()
-                .filter(|&i| keep(i as usize))
-                .collect(),
+            SortKey::Rank | SortKey::Score => {
+                let mut rows = Vec::new();
+                r.walk(0, |i| {
+                    if keep(i as usize) {
+                        rows.push(i);
+                    }
+                    true
+                });
+                rows
+            }
             _ => (0..survey.candidates.len() as u32)
                 .filter(|&i| keep(i as usize))
                 .collect(),
@@ -219,7 +242,7 @@ impl CandidateTable {
             ui.separator();
             ui.label(format!(
                 "{} shown of {} ({} pass)",
-                self.rows().len(),
+                self.row_count(session),
                 session.candidate_count(),
                 session.ranking.passing_count()
             ));
@@ -227,9 +250,7 @@ impl CandidateTable {
         self.rebuild(session);
         let scroll_to = if session.scroll_table_to_selection {
             session.scroll_table_to_selection = false;
-            session
-                .selected
-                .and_then(|s| self.rows().iter().position(|&r| r as usize == s))
+            session.selected.and_then(|s| self.row_of(session, s))
         } else {
             None
         };
@@ -303,9 +324,16 @@ impl CandidateTable {
                         }
                     })
                     .body(|body| {
-                        let rows = self.rows();
-                        body.rows(row_h, rows.len(), |mut row| {
-                            let Some(&i) = rows.get(row.index()) else {
+                        let (by_ranking, rows) = (self.rows_are_ranking, &self.rows);
+                        let count = self.row_count(session);
+                        body.rows(row_h, count, |mut row| {
+                            let k = row.index();
+                            let i = if by_ranking {
+                                session.ranking.at(k)
+                            } else {
+                                rows.get(k).copied()
+                            };
+                            let Some(i) = i else {
                                 return;
                             };
                             let i = i as usize;
@@ -313,7 +341,12 @@ impl CandidateTable {
                             let selected = session.selected == Some(i);
                             row.set_selected(selected);
                             let pass = session.ranking.passed(i);
-                            let rank = session.ranking.rank(i);
+                            // Listed in ranking order, the row is the place.
+                            let rank = if by_ranking {
+                                pass.then_some(k as u32 + 1)
+                            } else {
+                                session.ranking.rank(i)
+                            };
                             row.col(|ui| {
                                 ui.label(rank.map_or("–".into(), |r| r.to_string()));
                             });
