@@ -73,7 +73,7 @@ pub(crate) fn sort_groups<K>(groups: &[Group], ranks_len: usize, key: K) -> Sort
 where
     K: Fn(u32) -> u64 + Sync,
 {
-    let mut shelves = Shelves::distribute(groups, &key);
+    let mut shelves = Shelves::distribute(groups, groups.len(), &key);
     shelves.complete(&key);
     shelves.sorted(ranks_len)
 }
@@ -81,7 +81,8 @@ where
 /// How one group's keys map to the 32-bit window and its window to a shelf.
 #[derive(Clone, Copy, Debug)]
 struct Span {
-    /// Candidates in the group.
+    /// First place of the group in the whole order, and its size.
+    base: usize,
     len: usize,
     /// The group's shelves: `first_shelf..first_shelf + shelves`.
     first_shelf: usize,
@@ -117,21 +118,23 @@ pub(crate) struct Shelves {
     bounds: Vec<usize>,
     sorted: Vec<bool>,
     spans: Vec<Span>,
+    /// Each group's candidates while it waits to be distributed.
+    pending: Vec<Option<Vec<u32>>>,
 }
 
 impl Shelves {
-    /// The first stage: each group's candidates onto its shelves, stable. Each slot is written
-    /// once by one core; relaxed atomics make that safe without locks (a relaxed store is a
-    /// plain store).
-    pub(crate) fn distribute<K>(groups: &[Group], key: &K) -> Shelves
+    /// The first stage for the first `now` groups: each group's candidates onto its
+    /// shelves, stable. The later groups are distributed when a place in them is first read
+    /// (or on [`Shelves::complete`]): the candidates that fail a requirement come after all
+    /// that pass, and a window showing the first rows never needs them.
+    pub(crate) fn distribute<K>(groups: &[Group], now: usize, key: &K) -> Shelves
     where
         K: Fn(u32) -> u64 + Sync,
     {
         let n: usize = groups.iter().map(|g| g.values.len()).sum();
         let items: Vec<AtomicU64> = (0..n).map(|_| AtomicU64::new(0)).collect();
-        let mut bounds = vec![0usize];
         let mut spans = Vec::with_capacity(groups.len());
-        let mut base = 0;
+        let (mut base, mut shelves) = (0, 0);
         for g in groups {
             let len = g.values.len();
             let span = g.key_max.saturating_sub(g.key_min);
@@ -140,8 +143,9 @@ impl Shelves {
             let used_bits = span_bits - shift;
             let one_shelf = len < SMALL || g.key_min >= g.key_max;
             let sp = Span {
+                base,
                 len,
-                first_shelf: bounds.len() - 1,
+                first_shelf: shelves,
                 shelves: if one_shelf { 1 } else { TOP },
                 key_min: g.key_min,
                 span,
@@ -149,91 +153,110 @@ impl Shelves {
                 top_shift: (!one_shelf).then(|| used_bits.saturating_sub(TOP_BITS)),
                 exact: shift == 0,
             };
-            let mine = &items[base..base + len];
-            let item = |v: u32| (u64::from(sp.window(key(v))) << 32) | u64::from(v);
-            if one_shelf {
-                for (slot, &v) in mine.iter().zip(g.values) {
-                    slot.store(item(v), Relaxed);
-                }
-                bounds.push(base + len);
-            } else {
-                let first = sp.first_shelf;
-                // Count each chunk's candidates per shelf, then place them: chunk c's
-                // candidates of shelf d follow chunk c-1's, so the distribution is stable.
-                // The items are made once, in input order, while counting.
-                // Taken out of the thread's slot, not borrowed: a sort started meanwhile on
-                // this thread (rayon may run one while this one waits) finds it empty.
-                let mut keyed = KEYED.with(|k| std::mem::take(&mut *k.borrow_mut()));
-                keyed.clear();
-                keyed.resize(len, 0);
-                let counts: Vec<Vec<u32>> = g
-                    .values
-                    .par_chunks(CHUNK)
-                    .zip(keyed.par_chunks_mut(CHUNK))
-                    .map(|(vs, out)| {
-                        let mut h = vec![0u32; TOP];
-                        for (o, &v) in out.iter_mut().zip(vs) {
-                            let x = item(v);
-                            *o = x;
-                            h[sp.shelf((x >> 32) as u32) - first] += 1;
-                        }
-                        h
-                    })
-                    .collect();
-                let mut next = counts.clone();
-                let mut sum = 0usize;
-                for d in 0..TOP {
-                    for (nx, c) in next.iter_mut().zip(&counts) {
-                        nx[d] = sum as u32;
-                        sum += c[d] as usize;
-                    }
-                    bounds.push(base + sum);
-                }
-                // Items are gathered per shelf in a cache line's worth (software write
-                // combining): a store straight to its shelf would miss the cache every time,
-                // a full line written at once misses once.
-                keyed
-                    .par_chunks(CHUNK)
-                    .zip(next.par_iter_mut())
-                    .for_each(|(xs, nx)| {
-                        let mut lines = vec![[0u64; LINE]; TOP];
-                        let mut fill = vec![0u8; TOP];
-                        let mut put = |d: usize, xs: &[u64]| {
-                            let at = nx[d] as usize;
-                            if let Some(slots) = mine.get(at..at + xs.len()) {
-                                for (slot, &x) in slots.iter().zip(xs) {
-                                    slot.store(x, Relaxed);
-                                }
-                            }
-                            nx[d] += xs.len() as u32;
-                        };
-                        for &x in xs {
-                            let d = sp.shelf((x >> 32) as u32) - first;
-                            let f = usize::from(fill[d]);
-                            lines[d][f] = x;
-                            if f + 1 == LINE {
-                                put(d, &lines[d]);
-                                fill[d] = 0;
-                            } else {
-                                fill[d] = f as u8 + 1;
-                            }
-                        }
-                        for d in 0..TOP {
-                            put(d, &lines[d][..usize::from(fill[d])]);
-                        }
-                    });
-                KEYED.with(|k| *k.borrow_mut() = keyed);
-            }
-            spans.push(sp);
+            shelves += sp.shelves;
             base += len;
+            spans.push(sp);
         }
-        let sorted = vec![false; bounds.len() - 1];
-        Shelves {
+        // Until its group is distributed, each of its shelves reads as empty at its end.
+        let mut bounds = vec![0usize; shelves + 1];
+        for sp in &spans {
+            bounds[sp.first_shelf + 1..=sp.first_shelf + sp.shelves].fill(sp.base + sp.len);
+            bounds[sp.first_shelf] = sp.base;
+        }
+        let mut out = Shelves {
             items,
             bounds,
-            sorted,
+            sorted: vec![false; shelves],
             spans,
+            pending: groups.iter().map(|g| Some(g.values.to_vec())).collect(),
+        };
+        for g in 0..now.min(groups.len()) {
+            out.fill(g, key);
         }
+        out
+    }
+
+    /// Distribute group `g` if it is still pending.
+    fn fill<K: Fn(u32) -> u64 + Sync>(&mut self, g: usize, key: &K) {
+        let Some(values) = self.pending.get_mut(g).and_then(Option::take) else {
+            return;
+        };
+        let sp = self.spans[g];
+        let (base, len, first) = (sp.base, sp.len, sp.first_shelf);
+        let mine = &self.items[base..base + len];
+        let bounds = &mut self.bounds[first..=first + sp.shelves];
+        let item = |v: u32| (u64::from(sp.window(key(v))) << 32) | u64::from(v);
+        if sp.top_shift.is_none() {
+            for (slot, &v) in mine.iter().zip(&values) {
+                slot.store(item(v), Relaxed);
+            }
+            return;
+        }
+        // Count each chunk's candidates per shelf, then place them: chunk c's candidates of
+        // shelf d follow chunk c-1's, so the distribution is stable. The items are made once,
+        // in input order, while counting. The buffer is taken out of the thread's slot, not
+        // borrowed: a sort started meanwhile on this thread (rayon may run one while this one
+        // waits) finds it empty.
+        let mut keyed = KEYED.with(|k| std::mem::take(&mut *k.borrow_mut()));
+        keyed.clear();
+        keyed.resize(len, 0);
+        let counts: Vec<Vec<u32>> = values
+            .par_chunks(CHUNK)
+            .zip(keyed.par_chunks_mut(CHUNK))
+            .map(|(vs, out)| {
+                let mut h = vec![0u32; TOP];
+                for (o, &v) in out.iter_mut().zip(vs) {
+                    let x = item(v);
+                    *o = x;
+                    h[sp.shelf((x >> 32) as u32) - first] += 1;
+                }
+                h
+            })
+            .collect();
+        let mut next = counts.clone();
+        let mut sum = 0usize;
+        for d in 0..TOP {
+            bounds[d] = base + sum;
+            for (nx, c) in next.iter_mut().zip(&counts) {
+                nx[d] = sum as u32;
+                sum += c[d] as usize;
+            }
+        }
+        bounds[TOP] = base + sum;
+        // Items are gathered per shelf in a cache line's worth (software write combining): a
+        // store straight to its shelf would miss the cache every time, a full line written at
+        // once misses once.
+        keyed
+            .par_chunks(CHUNK)
+            .zip(next.par_iter_mut())
+            .for_each(|(xs, nx)| {
+                let mut lines = vec![[0u64; LINE]; TOP];
+                let mut fill = vec![0u8; TOP];
+                let mut put = |d: usize, xs: &[u64]| {
+                    let at = nx[d] as usize;
+                    if let Some(slots) = mine.get(at..at + xs.len()) {
+                        for (slot, &x) in slots.iter().zip(xs) {
+                            slot.store(x, Relaxed);
+                        }
+                    }
+                    nx[d] += xs.len() as u32;
+                };
+                for &x in xs {
+                    let d = sp.shelf((x >> 32) as u32) - first;
+                    let f = usize::from(fill[d]);
+                    lines[d][f] = x;
+                    if f + 1 == LINE {
+                        put(d, &lines[d]);
+                        fill[d] = 0;
+                    } else {
+                        fill[d] = f as u8 + 1;
+                    }
+                }
+                for d in 0..TOP {
+                    put(d, &lines[d][..usize::from(fill[d])]);
+                }
+            });
+        KEYED.with(|k| *k.borrow_mut() = keyed);
     }
 
     /// Number of places.
@@ -267,17 +290,49 @@ impl Shelves {
     }
 
     /// The value at 0-based place `pos` of the whole order.
-    pub(crate) fn at<K: Fn(u32) -> u64>(&mut self, pos: usize, key: &K) -> Option<u32> {
+    pub(crate) fn at<K: Fn(u32) -> u64 + Sync>(&mut self, pos: usize, key: &K) -> Option<u32> {
         if pos >= self.items.len() {
             return None;
+        }
+        if let Some(g) = self.spans.iter().position(|sp| pos < sp.base + sp.len) {
+            self.fill(g, key);
         }
         let s = self.bounds.partition_point(|&b| b <= pos) - 1;
         self.sort_shelf(s, key);
         Some(self.items[pos].load(Relaxed) as u32)
     }
 
+    /// Values from place `start` on, in order, while `f` asks for more: shelf by shelf, each
+    /// sorted (and its group distributed) when the walk reaches it.
+    pub(crate) fn walk<K: Fn(u32) -> u64 + Sync>(
+        &mut self,
+        start: usize,
+        key: &K,
+        mut f: impl FnMut(u32) -> bool,
+    ) {
+        for g in 0..self.spans.len() {
+            let sp = self.spans[g];
+            if sp.base + sp.len <= start {
+                continue;
+            }
+            self.fill(g, key);
+            for s in sp.first_shelf..sp.first_shelf + sp.shelves {
+                let (a, b) = (self.bounds[s], self.bounds[s + 1]);
+                if b <= start || a == b {
+                    continue;
+                }
+                self.sort_shelf(s, key);
+                for x in &self.items[a.max(start)..b] {
+                    if !f(x.load(Relaxed) as u32) {
+                        return;
+                    }
+                }
+            }
+        }
+    }
+
     /// The 0-based place of value `v`, which belongs to group `group`.
-    pub(crate) fn position_of<K: Fn(u32) -> u64>(
+    pub(crate) fn position_of<K: Fn(u32) -> u64 + Sync>(
         &mut self,
         group: usize,
         v: u32,
@@ -287,6 +342,7 @@ impl Shelves {
         if sp.len == 0 {
             return None;
         }
+        self.fill(group, key);
         let s = sp.shelf(sp.window(key(v)));
         self.sort_shelf(s, key);
         let (a, b) = (self.bounds[s], self.bounds[s + 1]);
@@ -297,6 +353,9 @@ impl Shelves {
     /// candidates (a run of shelves sorted together comes out as each sorted alone, since
     /// the shelves split the window into consecutive ranges), shared out between the cores.
     pub(crate) fn complete<K: Fn(u32) -> u64 + Sync>(&mut self, key: &K) {
+        for g in 0..self.spans.len() {
+            self.fill(g, key);
+        }
         let mut parts: Vec<(usize, usize, bool)> = Vec::new();
         for sp in &self.spans {
             let (mut start, mut open) = (sp.first_shelf, false);
@@ -537,7 +596,7 @@ mod tests {
                 key_max: hi,
             });
             let full = sort_groups(&groups, n as usize, key);
-            let mut lazy = Shelves::distribute(&groups, &key);
+            let mut lazy = Shelves::distribute(&groups, 1, &key);
             assert_eq!(lazy.len(), n as usize);
             let step = 7919; // a prime: visits every place once, far from in order
             for k in 0..n as usize {
@@ -545,7 +604,16 @@ mod tests {
                 assert_eq!(lazy.at(pos, &key), Some(full.order[pos]), "place {pos}");
             }
             assert_eq!(lazy.at(n as usize, &key), None);
-            let mut fresh = Shelves::distribute(&groups, &key);
+            let mut walker = Shelves::distribute(&groups, 0, &key);
+            for start in [0, 1, n as usize / 3, n as usize - 1] {
+                let mut seen = Vec::new();
+                walker.walk(start, &key, |v| {
+                    seen.push(v);
+                    true
+                });
+                assert_eq!(seen, full.order[start..], "walk from {start}");
+            }
+            let mut fresh = Shelves::distribute(&groups, 0, &key);
             for v in (0..n).step_by(13) {
                 let group = usize::from(v % 3 == 0);
                 let pos = fresh.position_of(group, v, &key);

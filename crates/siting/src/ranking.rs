@@ -238,7 +238,8 @@ pub fn rank_on_demand(
             key_max: bounds[1].1,
         },
     ];
-    let shelves = crate::order::Shelves::distribute(&groups, &|i| score_key(scores[i as usize]));
+    // The passing group now; the failing one when a place in it is first read.
+    let shelves = crate::order::Shelves::distribute(&groups, 1, &|i| score_key(scores[i as usize]));
     Ok(RankingOnDemand {
         method: criteria.scoring,
         weights,
@@ -291,6 +292,13 @@ impl RankingOnDemand {
     pub fn at(&mut self, pos: usize) -> Option<u32> {
         let scores = &self.scores;
         self.shelves.at(pos, &|i| score_key(scores[i as usize]))
+    }
+
+    /// Candidates from 0-based place `start` on, best first, while `f` asks for more.
+    pub fn walk(&mut self, start: usize, f: impl FnMut(u32) -> bool) {
+        let scores = &self.scores;
+        self.shelves
+            .walk(start, &|i| score_key(scores[i as usize]), f)
     }
 
     /// 1-based place of candidate `index` in the whole order (failed ones after all that

@@ -80,15 +80,8 @@ impl Ranking {
             }
             return;
         }
-        let Some(mut od) = self.on_demand() else {
-            return;
-        };
-        let mut pos = start;
-        while let Some(i) = od.at(pos) {
-            if !f(i) {
-                return;
-            }
-            pos += 1;
+        if let Some(mut od) = self.on_demand() {
+            od.walk(start, f);
         }
     }
 
