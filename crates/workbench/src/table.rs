@@ -133,13 +133,11 @@ impl CandidateTable {
         };
         let unfiltered = needle.is_empty() && self.status == StatusFilter::All;
         let by_rank = matches!(self.sort, SortKey::Rank | SortKey::Score);
-        if by_rank && unfiltered && !self.descending {
-            if r.len() == survey.candidates.len() {
-                self.rows.clear();
-                self.rows_are_ranking = true;
-                self.rows_key = Some(key);
-                return;
-            }
+        if by_rank && unfiltered && !self.descending && r.len() == survey.candidates.len() {
+            self.rows.clear();
+            self.rows_are_ranking = true;
+            self.rows_key = Some(key);
+            return;
         }
         let mut rows: Vec<u32> = match self.sort {
             SortKey::Rank | SortKey::Score => {
