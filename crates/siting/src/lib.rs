@@ -26,7 +26,8 @@ pub use criteria::{
 pub use error::SitingError;
 pub use export::Provenance;
 pub use ranking::{
-    rank, rank_on_demand, FailedRequirement, PreparedTable, RankedEntry, Ranking, RankingOnDemand,
+    rank, rank_on_demand, rank_on_demand_reusing, FailedRequirement, PreparedTable, RankedEntry,
+    Ranking, RankingOnDemand,
 };
 pub use smaa::{smaa, SmaaResult};
 pub use study::Study;

@@ -73,7 +73,7 @@ pub(crate) fn sort_groups<K>(groups: &[Group], ranks_len: usize, key: K) -> Sort
 where
     K: Fn(u32) -> u64 + Sync,
 {
-    let mut shelves = Shelves::distribute(groups, groups.len(), &key);
+    let mut shelves = Shelves::distribute(groups, groups.len(), Vec::new(), &key);
     shelves.complete(&key);
     shelves.sorted(ranks_len)
 }
@@ -127,12 +127,21 @@ impl Shelves {
     /// shelves, stable. The later groups are distributed when a place in them is first read
     /// (or on [`Shelves::complete`]): the candidates that fail a requirement come after all
     /// that pass, and a window showing the first rows never needs them.
-    pub(crate) fn distribute<K>(groups: &[Group], now: usize, key: &K) -> Shelves
+    ///
+    /// `items` is an earlier value's buffer ([`Shelves::into_items`]) or empty: every slot is
+    /// written before it is read, so it is reused as it is.
+    pub(crate) fn distribute<K>(
+        groups: &[Group],
+        now: usize,
+        mut items: Vec<AtomicU64>,
+        key: &K,
+    ) -> Shelves
     where
         K: Fn(u32) -> u64 + Sync,
     {
         let n: usize = groups.iter().map(|g| g.values.len()).sum();
-        let items: Vec<AtomicU64> = (0..n).map(|_| AtomicU64::new(0)).collect();
+        items.truncate(n);
+        items.resize_with(n, || AtomicU64::new(0));
         let mut spans = Vec::with_capacity(groups.len());
         let (mut base, mut shelves) = (0, 0);
         for g in groups {
@@ -176,6 +185,11 @@ impl Shelves {
         out
     }
 
+    /// The item buffer, for a later [`Shelves::distribute`].
+    pub(crate) fn into_items(self) -> Vec<AtomicU64> {
+        self.items
+    }
+
     /// Distribute group `g` if it is still pending.
     fn fill<K: Fn(u32) -> u64 + Sync>(&mut self, g: usize, key: &K) {
         let Some(values) = self.pending.get_mut(g).and_then(Option::take) else {
@@ -198,7 +212,7 @@ impl Shelves {
         // borrowed: a sort started meanwhile on this thread (rayon may run one while this one
         // waits) finds it empty.
         let mut keyed = KEYED.with(|k| std::mem::take(&mut *k.borrow_mut()));
-        keyed.clear();
+        // Every item is overwritten below, so a buffer of the right size is not cleared.
         keyed.resize(len, 0);
         let counts: Vec<Vec<u32>> = values
             .par_chunks(CHUNK)
@@ -596,7 +610,7 @@ mod tests {
                 key_max: hi,
             });
             let full = sort_groups(&groups, n as usize, key);
-            let mut lazy = Shelves::distribute(&groups, 1, &key);
+            let mut lazy = Shelves::distribute(&groups, 1, Vec::new(), &key);
             assert_eq!(lazy.len(), n as usize);
             let step = 7919; // a prime: visits every place once, far from in order
             for k in 0..n as usize {
@@ -604,7 +618,7 @@ mod tests {
                 assert_eq!(lazy.at(pos, &key), Some(full.order[pos]), "place {pos}");
             }
             assert_eq!(lazy.at(n as usize, &key), None);
-            let mut walker = Shelves::distribute(&groups, 0, &key);
+            let mut walker = Shelves::distribute(&groups, 0, Vec::new(), &key);
             for start in [0, 1, n as usize / 3, n as usize - 1] {
                 let mut seen = Vec::new();
                 walker.walk(start, &key, |v| {
@@ -613,7 +627,8 @@ mod tests {
                 });
                 assert_eq!(seen, full.order[start..], "walk from {start}");
             }
-            let mut fresh = Shelves::distribute(&groups, 0, &key);
+            // Reusing a used buffer (its old contents must not show through).
+            let mut fresh = Shelves::distribute(&groups, 0, walker.into_items(), &key);
             for v in (0..n).step_by(13) {
                 let group = usize::from(v % 3 == 0);
                 let pos = fresh.position_of(group, v, &key);

@@ -121,6 +121,15 @@ impl PreparedTable {
         Ok(true)
     }
 
+    /// Whether `criteria` can be ranked on this table: not stale, and valid.
+    pub fn check(&self, criteria: &Criteria) -> Result<(), SitingError> {
+        if let Some(reason) = self.stale_reason(criteria) {
+            return Err(SitingError::StaleTable(reason));
+        }
+        criteria.validate()?;
+        Ok(())
+    }
+
     /// Why this table does not fit `criteria` (None when it does: only weights may differ).
     pub fn stale_reason(&self, criteria: &Criteria) -> Option<String> {
         if self.requirements != criteria.requirements {
@@ -220,12 +229,27 @@ pub fn rank_on_demand(
     table: &PreparedTable,
     criteria: &Criteria,
 ) -> Result<RankingOnDemand, SitingError> {
-    if let Some(reason) = table.stale_reason(criteria) {
-        return Err(SitingError::StaleTable(reason));
-    }
-    criteria.validate()?;
+    rank_on_demand_reusing(table, criteria, None)
+}
+
+/// [`rank_on_demand`] into the buffers of an earlier ranking (a weight drag re-ranks every
+/// frame; fresh megabytes each time cost page faults and clearing). On error `previous` is
+/// dropped; check with [`PreparedTable::check`] first to keep it.
+pub fn rank_on_demand_reusing(
+    table: &PreparedTable,
+    criteria: &Criteria,
+    previous: Option<RankingOnDemand>,
+) -> Result<RankingOnDemand, SitingError> {
+    table.check(criteria)?;
+    let (old_scores, old_items) = match previous {
+        Some(p) => (
+            Arc::try_unwrap(p.scores).unwrap_or_default(),
+            p.shelves.into_items(),
+        ),
+        None => (Vec::new(), Vec::new()),
+    };
     let weights = criteria.normalised_weights();
-    let (scores, bounds) = score_all(table, &weights, criteria.scoring);
+    let (scores, bounds) = score_all(table, &weights, criteria.scoring, old_scores);
     let groups = [
         crate::order::Group {
             values: &table.tie_passing,
@@ -239,7 +263,9 @@ pub fn rank_on_demand(
         },
     ];
     // The passing group now; the failing one when a place in it is first read.
-    let shelves = crate::order::Shelves::distribute(&groups, 1, &|i| score_key(scores[i as usize]));
+    let shelves = crate::order::Shelves::distribute(&groups, 1, old_items, &|i| {
+        score_key(scores[i as usize])
+    });
     Ok(RankingOnDemand {
         method: criteria.scoring,
         weights,
@@ -347,9 +373,15 @@ fn widen(a: KeyBounds, b: KeyBounds) -> KeyBounds {
 
 /// Scores of all candidates under normalised `weights`, with the key bounds the sort needs
 /// (gathered here, while the scores are at hand, to spare the sort a pass over them).
-fn score_all(table: &PreparedTable, weights: &[f64], method: ScoreMethod) -> (Vec<f64>, KeyBounds) {
+fn score_all(
+    table: &PreparedTable,
+    weights: &[f64],
+    method: ScoreMethod,
+    buffer: Vec<f64>,
+) -> (Vec<f64>, KeyBounds) {
     let n = table.len();
-    let mut scores = vec![0.0f64; n];
+    let mut scores = buffer;
+    scores.resize(n, 0.0);
     let (columns, exp) = match method {
         ScoreMethod::WeightedSum => (table.columns(), false),
         ScoreMethod::WeightedProduct => (table.log_columns(), true),
@@ -360,6 +392,8 @@ fn score_all(table: &PreparedTable, weights: &[f64], method: ScoreMethod) -> (Ve
         .enumerate()
         .map(|(k, out)| {
             let (start, len) = (k * CHUNK, out.len());
+            // The buffer may hold an earlier ranking's scores.
+            out.fill(0.0);
             for (col, &w) in columns.iter().zip(weights) {
                 // A zero weight leaves the criterion out; in the product it must not meet ln(0).
                 if w == 0.0 {

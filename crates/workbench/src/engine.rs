@@ -175,7 +175,19 @@ pub fn rank_into(
     generation: u64,
     out: &mut Ranking,
 ) -> Result<(), String> {
-    let od = siting::rank_on_demand(table, criteria).map_err(|e| e.to_string())?;
+    // Checked first, so an error leaves the earlier ranking as it was.
+    table.check(criteria).map_err(|e| e.to_string())?;
+    // The earlier ranking's buffers are reused when nothing else holds them.
+    out.scores = None;
+    let previous = out
+        .on_demand
+        .take()
+        .and_then(|a| Arc::try_unwrap(a).ok())
+        .map(|m| m.into_inner().unwrap_or_else(|p| p.into_inner()));
+    let od = siting::rank_on_demand_reusing(table, criteria, previous).map_err(|e| {
+        *out = Ranking::default();
+        e.to_string()
+    })?;
     out.scores = Some(od.scores().clone());
     out.passing = od.passing_count();
     out.on_demand = Some(Arc::new(Mutex::new(od)));

@@ -67,4 +67,19 @@ fn places_read_one_by_one_are_the_full_rankings() {
     // The whole ranking, when asked for, is the library's full sort.
     assert_eq!(r.full().map(Arc::as_ref), Some(&full));
     assert_eq!(r.order(), &full.order[..]);
+
+    // A re-rank into an earlier ranking (its buffers reused, some shelves already sorted)
+    // gives the new weights' ranking, read place by place and whole.
+    let mut r = fresh();
+    assert_eq!(r.at(0), Some(full.order[0]));
+    let mut heavier = criteria.clone();
+    heavier.criteria[0].weight = 3.0;
+    engine::rank_into(&table, &heavier, 2, &mut r).expect("re-rank");
+    let full2 = siting::rank(&table, &heavier).expect("full ranking");
+    assert_ne!(full2.order, full.order, "the weight changes the order");
+    for pos in (0..n).step_by(97) {
+        assert_eq!(r.at(pos), Some(full2.order[pos]), "place {pos} after the re-rank");
+    }
+    assert_eq!(r.score(5), Some(full2.scores[5]));
+    assert_eq!(r.order(), &full2.order[..]);
 }
