@@ -78,7 +78,11 @@ fn places_read_one_by_one_are_the_full_rankings() {
     let full2 = siting::rank(&table, &heavier).expect("full ranking");
     assert_ne!(full2.order, full.order, "the weight changes the order");
     for pos in (0..n).step_by(97) {
-        assert_eq!(r.at(pos), Some(full2.order[pos]), "place {pos} after the re-rank");
+        assert_eq!(
+            r.at(pos),
+            Some(full2.order[pos]),
+            "place {pos} after the re-rank"
+        );
     }
     assert_eq!(r.score(5), Some(full2.scores[5]));
     assert_eq!(r.order(), &full2.order[..]);
