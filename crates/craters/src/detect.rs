@@ -6,6 +6,7 @@
 
 use crate::error::CraterError;
 use crate::{blobs, depressions, pyramid, radial_symmetry};
+use rayon::prelude::*;
 use rstar::RTree;
 use serde::{Deserialize, Serialize};
 use terrain::ElevationGrid;
@@ -129,7 +130,11 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
         return Err(CraterError::AllNodata);
     }
     let d_max = opts.diameter_max_m.min(window_m / 2.0);
-    let mut out = Vec::new();
+    // The levels and their diameter bands first (the pyramid builds are parallel inside), then
+    // every level's cues at once: the priority-flood fill is serial, so running it beside the
+    // other cues and levels keeps both cores busy. The proposals are joined in level order,
+    // and within a level as depressions, blobs, symmetry peaks: the order of a serial scan.
+    let mut levels: Vec<(pyramid::Level, pyramid::Level, f64, f64)> = Vec::new();
     let mut level_idx = 0u32;
     let mut next: Option<pyramid::Level> = None;
     loop {
@@ -157,12 +162,20 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
             break;
         }
         let coarse = pyramid::build(grid, (dx, dy), 2.0 * cell);
-        scan_level(grid, &level, &coarse, lo, hi, opts, &mut out);
-        next = Some(coarse);
+        next = Some(coarse.clone());
+        levels.push((level, coarse, lo, hi));
     }
+    let out: Vec<Detection> = levels
+        .par_iter()
+        .map(|(level, coarse, lo, hi)| scan_level(grid, level, coarse, *lo, *hi, opts))
+        .collect::<Vec<_>>()
+        .into_iter()
+        .flatten()
+        .collect();
     Ok(suppress(out, grid.geometry.body_radius_m))
 }
 
+/// One level's proposals: depressions, blobs, then symmetry peaks, the three computed at once.
 fn scan_level(
     grid: &ElevationGrid,
     level: &pyramid::Level,
@@ -170,14 +183,48 @@ fn scan_level(
     lo: f64,
     hi: f64,
     opts: &DetectOptions,
+) -> Vec<Detection> {
+    let (mut out, (blobs, symmetry)) = rayon::join(
+        || {
+            let mut v = Vec::new();
+            if opts.use_depressions {
+                scan_depressions(grid, coarse, lo, hi, opts, &mut v);
+            }
+            v
+        },
+        || {
+            rayon::join(
+                || {
+                    let mut v = Vec::new();
+                    if opts.use_blobs {
+                        scan_blobs(grid, coarse, lo, hi, opts, &mut v);
+                    }
+                    v
+                },
+                || {
+                    let mut v = Vec::new();
+                    if opts.use_symmetry {
+                        scan_symmetry(grid, level, lo, hi, opts, &mut v);
+                    }
+                    v
+                },
+            )
+        },
+    );
+    out.extend(blobs);
+    out.extend(symmetry);
+    out
+}
+
+/// Radial-symmetry peaks on the level itself, voting radii over the band.
+fn scan_symmetry(
+    grid: &ElevationGrid,
+    level: &pyramid::Level,
+    lo: f64,
+    hi: f64,
+    opts: &DetectOptions,
     out: &mut Vec<Detection>,
 ) {
-    if opts.use_depressions {
-        scan_depressions(grid, coarse, lo, hi, opts, out);
-    }
-    if opts.use_blobs {
-        scan_blobs(grid, coarse, lo, hi, opts, out);
-    }
     let cell = level.cell_m;
     let (w, h) = (level.width, level.height);
     let to_lonlat = |i: f64, j: f64| {
@@ -185,26 +232,24 @@ fn scan_level(
         grid.geometry
             .pixel_to_lonlat(grid.col0 as f64 + c + 0.5, grid.row0 as f64 + r + 0.5)
     };
-    if opts.use_symmetry {
-        let n_lo = (0.4 * lo / cell).max(1.0);
-        let n_hi = (0.45 * hi / cell).max(n_lo);
-        let mut radii = Vec::new();
-        let mut n = n_lo.round().max(1.0);
-        while n <= n_hi.round() {
-            radii.push(n);
-            n += 1.0;
-        }
-        for p in radial_symmetry::peaks(&level.z, w, h, &radii, opts.min_symmetry_score) {
-            let dia = (DIAMETER_PER_VOTE_RADIUS * p.radius_cells * cell).clamp(lo, hi);
-            if let Some((lon, lat)) = to_lonlat(p.i as f64, p.j as f64) {
-                out.push(Detection {
-                    lon_deg: lon,
-                    lat_deg: lat,
-                    diameter_m: dia,
-                    score: p.score,
-                    cue: Cue::RadialSymmetry,
-                });
-            }
+    let n_lo = (0.4 * lo / cell).max(1.0);
+    let n_hi = (0.45 * hi / cell).max(n_lo);
+    let mut radii = Vec::new();
+    let mut n = n_lo.round().max(1.0);
+    while n <= n_hi.round() {
+        radii.push(n);
+        n += 1.0;
+    }
+    for p in radial_symmetry::peaks(&level.z, w, h, &radii, opts.min_symmetry_score) {
+        let dia = (DIAMETER_PER_VOTE_RADIUS * p.radius_cells * cell).clamp(lo, hi);
+        if let Some((lon, lat)) = to_lonlat(p.i as f64, p.j as f64) {
+            out.push(Detection {
+                lon_deg: lon,
+                lat_deg: lat,
+                diameter_m: dia,
+                score: p.score,
+                cue: Cue::RadialSymmetry,
+            });
         }
     }
 }

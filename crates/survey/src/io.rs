@@ -39,10 +39,64 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
 impl SurveyFile {
     /// Pretty JSON with a trailing newline. Field order is the struct order and every float is
     /// printed by serde_json's shortest round-trip form, so equal surveys give equal bytes.
+    ///
+    /// The candidates, nearly all of the bytes, are printed in parallel (each one at the
+    /// indentation it has in the whole document) and joined in order, giving the bytes serde_json
+    /// prints for the whole value (checked by `parallel_print_equals_serde_json` below).
     pub fn to_json(&self) -> String {
-        let mut s = serde_json::to_string_pretty(self).unwrap_or_default();
-        s.push('\n');
+        use rayon::prelude::*;
+        const LAST_FIELD: &str = "\n  \"candidates\": []\n}";
+        let head =
+            serde_json::to_string_pretty(&self.clone_without_candidates()).unwrap_or_default();
+        let Some(head) = head.strip_suffix(LAST_FIELD) else {
+            // Not the layout assumed above: print the whole value in one go.
+            let mut s = serde_json::to_string_pretty(self).unwrap_or_default();
+            s.push('\n');
+            return s;
+        };
+        if self.candidates.is_empty() {
+            return format!("{head}{LAST_FIELD}\n");
+        }
+        let parts: Vec<String> = self
+            .candidates
+            .par_iter()
+            .map(|c| {
+                let one = serde_json::to_string_pretty(c).unwrap_or_default();
+                // JSON strings hold no raw line breaks, so every line break is layout.
+                let mut out = String::with_capacity(one.len() + one.len() / 8);
+                for (i, line) in one.split('\n').enumerate() {
+                    if i > 0 {
+                        out.push('\n');
+                    }
+                    out.push_str("    ");
+                    out.push_str(line);
+                }
+                out
+            })
+            .collect();
+        let body: usize = parts.iter().map(|p| p.len() + 2).sum();
+        let mut s = String::with_capacity(head.len() + body + 32);
+        s.push_str(head);
+        s.push_str("\n  \"candidates\": [\n");
+        for (i, p) in parts.iter().enumerate() {
+            if i > 0 {
+                s.push_str(",\n");
+            }
+            s.push_str(p);
+        }
+        s.push_str("\n  ]\n}\n");
         s
+    }
+
+    fn clone_without_candidates(&self) -> SurveyFile {
+        SurveyFile {
+            schema_version: self.schema_version,
+            tool_version: self.tool_version.clone(),
+            input: self.input.clone(),
+            parameters: self.parameters.clone(),
+            shard: self.shard,
+            candidates: Vec::new(),
+        }
     }
 
     /// Parse a survey file, refusing one from a newer schema with the reason.

@@ -26,6 +26,15 @@ fn survey_file_round_trips_and_is_byte_identical_across_runs() {
     let a = small_run();
     assert!(!a.candidates.is_empty());
     let text = a.to_json();
+    // The candidates are printed in parallel: the bytes must be serde_json's own pretty print
+    // of the whole value, with and without candidates.
+    assert_eq!(text, serde_json::to_string_pretty(&a).unwrap() + "\n");
+    let mut empty = a.clone();
+    empty.candidates.clear();
+    assert_eq!(
+        empty.to_json(),
+        serde_json::to_string_pretty(&empty).unwrap() + "\n"
+    );
     let back = SurveyFile::from_json(&text).unwrap();
     let again = back.to_json();
     if again != text {

@@ -609,12 +609,27 @@ fn identify_iau_moon(projection: &MapProjection, radius_m: f64) -> Option<String
         .map(|(n, _, _)| n.clone())
 }
 
-/// Median of a small decimated read, to recognise files whose values are radii.
+/// Median of a small decimated read, to recognise files whose values are radii: first over a
+/// central window of at most 512 x 512 px (a few blocks to decode, where a look at the whole
+/// raster would decode every block of it on one thread), then, if that window holds no
+/// value, over the whole raster.
 fn coarse_median(ds: &Dataset, nodata: Option<f64>) -> Option<f64> {
     let band = ds.rasterband(1).ok()?;
     let (w, h) = band.size();
-    let (bw, bh) = (w.min(64), h.min(64));
-    let buf = band.read_as::<f64>((0, 0), (w, h), (bw, bh), None).ok()?;
+    let (cw, ch) = (w.min(512), h.min(512));
+    let centre = ((w - cw) as isize / 2, (h - ch) as isize / 2);
+    median_of_read(&band, centre, (cw, ch), nodata)
+        .or_else(|| median_of_read(&band, (0, 0), (w, h), nodata))
+}
+
+fn median_of_read(
+    band: &gdal::raster::RasterBand,
+    at: (isize, isize),
+    size: (usize, usize),
+    nodata: Option<f64>,
+) -> Option<f64> {
+    let (bw, bh) = (size.0.min(64), size.1.min(64));
+    let buf = band.read_as::<f64>(at, size, (bw, bh), None).ok()?;
     let mut v: Vec<f64> = buf
         .data()
         .iter()
