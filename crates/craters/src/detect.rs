@@ -6,7 +6,6 @@
 
 use crate::error::CraterError;
 use crate::{blobs, depressions, pyramid, radial_symmetry};
-use rayon::prelude::*;
 use rstar::RTree;
 use serde::{Deserialize, Serialize};
 use terrain::ElevationGrid;
@@ -130,11 +129,10 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
         return Err(CraterError::AllNodata);
     }
     let d_max = opts.diameter_max_m.min(window_m / 2.0);
-    // The levels and their diameter bands first (the pyramid builds are parallel inside), then
-    // every level's cues at once: the priority-flood fill is serial, so running it beside the
-    // other cues and levels keeps both cores busy. The proposals are joined in level order,
-    // and within a level as depressions, blobs, symmetry peaks: the order of a serial scan.
-    let mut levels: Vec<(pyramid::Level, pyramid::Level, f64, f64)> = Vec::new();
+    // Level by level (at most two levels in memory), each level's three cues at once: the
+    // priority-flood fill is serial, so running it beside the other cues keeps both cores busy.
+    // Within a level the proposals are joined as depressions, blobs, symmetry peaks.
+    let mut out = Vec::new();
     let mut level_idx = 0u32;
     let mut next: Option<pyramid::Level> = None;
     loop {
@@ -162,16 +160,9 @@ pub fn detect(grid: &ElevationGrid, opts: &DetectOptions) -> Result<Vec<Detectio
             break;
         }
         let coarse = pyramid::build(grid, (dx, dy), 2.0 * cell);
-        next = Some(coarse.clone());
-        levels.push((level, coarse, lo, hi));
+        out.extend(scan_level(grid, &level, &coarse, lo, hi, opts));
+        next = Some(coarse);
     }
-    let out: Vec<Detection> = levels
-        .par_iter()
-        .map(|(level, coarse, lo, hi)| scan_level(grid, level, coarse, *lo, *hi, opts))
-        .collect::<Vec<_>>()
-        .into_iter()
-        .flatten()
-        .collect();
     Ok(suppress(out, grid.geometry.body_radius_m))
 }
 
