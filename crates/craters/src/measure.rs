@@ -240,7 +240,10 @@ pub fn measure(
 ///
 /// With `gates`, also stops as soon as the fitted diameter or the depth fails
 /// [`crate::looks_like_crater`]'s diameter range or depth gate, before the costly floor slopes,
-/// ellipse and bootstrap; what passes is the same measurement as without.
+/// ellipse and bootstrap; what passes is the same measurement as without. It also stops when
+/// the rim fitted by the first round lies more than 1.5 times outside the diameter range, or
+/// by the second round more than 1.3 times: a screen like the shallow one, which on the
+/// mosaic measured for it never stopped a measurement that would have passed.
 pub(crate) fn measure_screened(
     grid: &ElevationGrid,
     lon_deg: f64,
@@ -316,6 +319,17 @@ fn measure_in(
                 .fold(f64::INFINITY, f64::min);
             if (stats::median(&mut zs) - low) / (2.0 * r) < 0.35 * min_depth_to_diameter {
                 return Err(nm("far too shallow for a crater"));
+            }
+        }
+        // A rim fitted far outside the survey's range after the first rounds does not come
+        // back into it: stop (on a 144 Mpx mosaic surveyed for 1-2 km craters, none of 4,152
+        // measurements more than 1.5 times out after the first round, nor of 1,950 more than
+        // 1.3 times out after the second, passed; ours).
+        if let Some(g) = gates {
+            let reach = [1.5, 1.3].get(it).copied().unwrap_or(f64::INFINITY);
+            let d = 2.0 * rd.circle.r;
+            if d > reach * g.diameter_max_m || d * reach < g.diameter_min_m {
+                return Err(nm("the fitted rim is far outside the diameter range"));
             }
         }
         let moved =

@@ -47,6 +47,11 @@ pub fn looks_like_crater(m: &CraterMeasurement, opts: &DetectOptions) -> bool {
 
 const GUESS_FACTORS: [f64; 3] = [1.0, 1.5, 1.0 / 1.5];
 
+/// A retry's size guess that lies more than this factor outside the survey's diameter range
+/// is not measured: on a 144 Mpx mosaic surveyed for 1-2 km craters such retries took a fifth
+/// of all measurement rounds and passed the gates 4 times in 2,159 (ours).
+const RETRY_REACH: f64 = 1.4;
+
 /// Every crater found and measured in the window, duplicates merged, sorted by (lat, lon).
 pub fn survey_grid(
     grid: &ElevationGrid,
@@ -61,6 +66,12 @@ pub fn survey_grid(
             // found from it, look once more on either side.
             GUESS_FACTORS.iter().find_map(|f| {
                 let dia = f * d.diameter_m;
+                if f != &1.0
+                    && (dia > RETRY_REACH * detect_opts.diameter_max_m
+                        || dia * RETRY_REACH < detect_opts.diameter_min_m)
+                {
+                    return None;
+                }
                 let least = detect_opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(dia);
                 measure_screened(
                     grid,

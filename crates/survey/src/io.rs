@@ -9,6 +9,15 @@ use std::path::Path;
 /// temporary file in the same directory, flush it to disk, then rename it over the target. On
 /// any failure the temporary file is removed and the target is untouched.
 pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    write_atomic_with(path, |w| w.write_all(bytes))
+}
+
+/// [`write_atomic`] with the content written by `fill` through a buffered writer, so a large
+/// file need not be held in memory whole.
+pub fn write_atomic_with(
+    path: &Path,
+    fill: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
+) -> std::io::Result<()> {
     let dir = match path.parent() {
         Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
         _ => std::path::PathBuf::from("."),
@@ -25,8 +34,9 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
         std::process::id()
     ));
     let result = (|| {
-        let mut f = std::fs::File::create(&tmp)?;
-        f.write_all(bytes)?;
+        let mut w = std::io::BufWriter::with_capacity(1 << 20, std::fs::File::create(&tmp)?);
+        fill(&mut w)?;
+        let f = w.into_inner().map_err(|e| e.into_error())?;
         f.sync_all()?;
         std::fs::rename(&tmp, path)
     })();
@@ -36,56 +46,64 @@ pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
     result
 }
 
+/// Candidates printed at once, in parallel, before they are written out in order.
+const PRINT_CHUNK: usize = 1024;
+
 impl SurveyFile {
     /// Pretty JSON with a trailing newline. Field order is the struct order and every float is
     /// printed by serde_json's shortest round-trip form, so equal surveys give equal bytes.
-    ///
-    /// The candidates, nearly all of the bytes, are printed in parallel (each one at the
-    /// indentation it has in the whole document) and joined in order, giving the bytes serde_json
-    /// prints for the whole value (checked by `parallel_print_equals_serde_json` below).
     pub fn to_json(&self) -> String {
+        let mut out = Vec::new();
+        // Writing into memory cannot fail.
+        let _ = self.write_json(&mut out);
+        String::from_utf8(out).unwrap_or_default()
+    }
+
+    /// [`SurveyFile::to_json`]'s bytes, written to `out`. The candidates, nearly all of the
+    /// bytes, are printed in parallel a chunk at a time (each at the indentation it has in the
+    /// whole document) and written in order, giving the bytes serde_json prints for the whole
+    /// value (checked by the survey_file tests) without holding them all in memory.
+    pub fn write_json(&self, out: &mut dyn Write) -> std::io::Result<()> {
         use rayon::prelude::*;
         const LAST_FIELD: &str = "\n  \"candidates\": []\n}";
-        let head =
-            serde_json::to_string_pretty(&self.clone_without_candidates()).unwrap_or_default();
+        let head = serde_json::to_string_pretty(&self.clone_without_candidates())
+            .map_err(std::io::Error::other)?;
         let Some(head) = head.strip_suffix(LAST_FIELD) else {
-            // Not the layout assumed above: print the whole value in one go.
-            let mut s = serde_json::to_string_pretty(self).unwrap_or_default();
-            s.push('\n');
-            return s;
+            // Not the layout assumed here: print the whole value in one go.
+            serde_json::to_writer_pretty(&mut *out, self).map_err(std::io::Error::other)?;
+            return out.write_all(b"\n");
         };
+        out.write_all(head.as_bytes())?;
         if self.candidates.is_empty() {
-            return format!("{head}{LAST_FIELD}\n");
+            out.write_all(LAST_FIELD.as_bytes())?;
+            return out.write_all(b"\n");
         }
-        let parts: Vec<String> = self
-            .candidates
-            .par_iter()
-            .map(|c| {
-                let one = serde_json::to_string_pretty(c).unwrap_or_default();
-                // JSON strings hold no raw line breaks, so every line break is layout.
-                let mut out = String::with_capacity(one.len() + one.len() / 8);
-                for (i, line) in one.split('\n').enumerate() {
-                    if i > 0 {
-                        out.push('\n');
+        out.write_all(b"\n  \"candidates\": [\n")?;
+        for (n, chunk) in self.candidates.chunks(PRINT_CHUNK).enumerate() {
+            let parts: Vec<String> = chunk
+                .par_iter()
+                .map(|c| {
+                    let one = serde_json::to_string_pretty(c).unwrap_or_default();
+                    // JSON strings hold no raw line breaks, so every line break is layout.
+                    let mut s = String::with_capacity(one.len() + one.len() / 8);
+                    for (i, line) in one.split('\n').enumerate() {
+                        if i > 0 {
+                            s.push('\n');
+                        }
+                        s.push_str("    ");
+                        s.push_str(line);
                     }
-                    out.push_str("    ");
-                    out.push_str(line);
+                    s
+                })
+                .collect();
+            for (i, p) in parts.iter().enumerate() {
+                if n > 0 || i > 0 {
+                    out.write_all(b",\n")?;
                 }
-                out
-            })
-            .collect();
-        let body: usize = parts.iter().map(|p| p.len() + 2).sum();
-        let mut s = String::with_capacity(head.len() + body + 32);
-        s.push_str(head);
-        s.push_str("\n  \"candidates\": [\n");
-        for (i, p) in parts.iter().enumerate() {
-            if i > 0 {
-                s.push_str(",\n");
+                out.write_all(p.as_bytes())?;
             }
-            s.push_str(p);
         }
-        s.push_str("\n  ]\n}\n");
-        s
+        out.write_all(b"\n  ]\n}\n")
     }
 
     fn clone_without_candidates(&self) -> SurveyFile {
@@ -136,7 +154,7 @@ impl SurveyFile {
     }
 
     pub fn write(&self, path: &Path) -> Result<(), SurveyError> {
-        write_atomic(path, self.to_json().as_bytes()).map_err(|e| SurveyError::Io {
+        write_atomic_with(path, |w| self.write_json(w)).map_err(|e| SurveyError::Io {
             path: path.display().to_string(),
             reason: e.to_string(),
         })

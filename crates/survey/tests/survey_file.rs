@@ -35,6 +35,15 @@ fn survey_file_round_trips_and_is_byte_identical_across_runs() {
         empty.to_json(),
         serde_json::to_string_pretty(&empty).unwrap() + "\n"
     );
+    // Several print chunks (1,024 candidates each), the last one partial.
+    let mut many = a.clone();
+    while many.candidates.len() < 2500 {
+        many.candidates.extend(a.candidates.iter().cloned());
+    }
+    assert_eq!(
+        many.to_json(),
+        serde_json::to_string_pretty(&many).unwrap() + "\n"
+    );
     let back = SurveyFile::from_json(&text).unwrap();
     let again = back.to_json();
     if again != text {
