@@ -22,6 +22,11 @@ pub struct Hit {
     pub y_m: f64,
 }
 
+thread_local! {
+    /// [`Crest::ray_hit`]'s working list of vertex sides.
+    static SIDES: std::cell::RefCell<Vec<f64>> = const { std::cell::RefCell::new(Vec::new()) };
+}
+
 impl Crest {
     pub fn from_measurement(m: &CraterMeasurement) -> Result<Crest, StructureError> {
         let r = &m.rim_crest_radius_m;
@@ -63,26 +68,31 @@ impl Crest {
 
     /// First crossing of the crest by the ray from `o` along unit vector `u`.
     pub fn ray_hit(&self, o: (f64, f64), u: (f64, f64)) -> Option<Hit> {
-        let n = self.pts.len();
         // Which side of the ray's line each vertex lies on (the numerator of `s` in the exact
         // test), all at once in a loop the compiler vectorises. An edge whose two ends lie
         // clearly on one side cannot be crossed and is skipped: "clearly" keeps a margin of
         // 1e-9 of their sizes, far above round-off and above the exact test's own 1e-12
         // tolerance on `s`, so every edge that test could accept still reaches it, and the hit
         // is the same to the bit. Only the two or so edges the line crosses are tested.
-        // `sides[n]` repeats `sides[0]`, closing the ring.
-        let mut on_stack = [0.0f64; 257];
-        let mut on_heap = Vec::new();
-        let sides: &mut [f64] = if n < on_stack.len() {
-            &mut on_stack[..n + 1]
-        } else {
-            on_heap.resize(n + 1, 0.0);
-            &mut on_heap
-        };
-        for (side, p) in sides.iter_mut().zip(&self.pts) {
-            *side = (p.0 - o.0) * u.1 - (p.1 - o.1) * u.0;
-        }
-        sides[n] = sides[0];
+        // `sides[n]` repeats `sides[0]`, closing the ring. The list lives in a per-thread
+        // buffer, filled without being zeroed first.
+        SIDES.with(|buf| {
+            let mut sides = buf.borrow_mut();
+            sides.clear();
+            sides.extend(
+                self.pts
+                    .iter()
+                    .map(|p| (p.0 - o.0) * u.1 - (p.1 - o.1) * u.0),
+            );
+            if let Some(&first) = sides.first() {
+                sides.push(first);
+            }
+            self.first_crossing(&sides, o, u)
+        })
+    }
+
+    fn first_crossing(&self, sides: &[f64], o: (f64, f64), u: (f64, f64)) -> Option<Hit> {
+        let n = self.pts.len();
         let mut best: Option<f64> = None;
         // Edges to test, 64 at a time as bits of a mask built without branches.
         for chunk in (0..n).step_by(64) {
