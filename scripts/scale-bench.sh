@@ -40,3 +40,11 @@ echo "mosaic: ${total} x ${total} px ($((total * total / 1000000)) Mpx), diamete
 rm -f "$work/survey.json" "$work/survey.json.checkpoint"
 /usr/bin/time -v target/release/quietbowl survey "$work/mosaic.vrt" --diameter "$diameter" --no-checkpoint --out "$work/survey.json" 2> "$work/time.txt" | tail -2
 grep -E "Maximum resident|Elapsed" "$work/time.txt"
+# CPU time as well: on a shared or throttled machine the wall clock swings from run to run, and
+# megapixels per CPU-second times the core count is the figure to compare across runs.
+python3 - "$work/time.txt" "$((total * total))" "$(nproc)" <<'PY'
+import re, sys
+text, px, cores = open(sys.argv[1]).read(), int(sys.argv[2]), int(sys.argv[3])
+cpu = sum(float(re.search(rf"{k} time \(seconds\): ([0-9.]+)", text).group(1)) for k in ("User", "System"))
+print(f"CPU {cpu:.1f} s (user + system): {px / 1e6 / cpu:.2f} Mpx per CPU-second, {cores * px / 1e6 / cpu:.1f} Mpx/s if all {cores} cores were busy the whole time")
+PY
