@@ -54,6 +54,12 @@ pub struct DetectOptions {
 }
 
 impl DetectOptions {
+    /// Whether diameter `d_m` lies more than `factor` times outside the requested range
+    /// (`factor` 1: outside it at all).
+    pub(crate) fn outside_range(&self, d_m: f64, factor: f64) -> bool {
+        d_m > factor * self.diameter_max_m || d_m * factor < self.diameter_min_m
+    }
+
     /// The default range for a window: 3 pixels up to a third of the window's shorter side.
     pub fn for_grid(grid: &ElevationGrid) -> Result<DetectOptions, CraterError> {
         let (dx, dy) = pyramid::window_pixel_size_m(grid)
@@ -177,27 +183,27 @@ fn scan_level(
 ) -> Vec<Detection> {
     let (mut out, (blobs, symmetry)) = rayon::join(
         || {
-            let mut v = Vec::new();
             if opts.use_depressions {
-                scan_depressions(grid, coarse, lo, hi, opts, &mut v);
+                scan_depressions(grid, coarse, lo, hi, opts)
+            } else {
+                Vec::new()
             }
-            v
         },
         || {
             rayon::join(
                 || {
-                    let mut v = Vec::new();
                     if opts.use_blobs {
-                        scan_blobs(grid, coarse, lo, hi, opts, &mut v);
+                        scan_blobs(grid, coarse, lo, hi, opts)
+                    } else {
+                        Vec::new()
                     }
-                    v
                 },
                 || {
-                    let mut v = Vec::new();
                     if opts.use_symmetry {
-                        scan_symmetry(grid, level, lo, hi, opts, &mut v);
+                        scan_symmetry(grid, level, lo, hi, opts)
+                    } else {
+                        Vec::new()
                     }
-                    v
                 },
             )
         },
@@ -214,8 +220,8 @@ fn scan_symmetry(
     lo: f64,
     hi: f64,
     opts: &DetectOptions,
-    out: &mut Vec<Detection>,
-) {
+) -> Vec<Detection> {
+    let mut out = Vec::new();
     let cell = level.cell_m;
     let (w, h) = (level.width, level.height);
     let to_lonlat = |i: f64, j: f64| {
@@ -243,6 +249,7 @@ fn scan_symmetry(
             });
         }
     }
+    out
 }
 
 /// Closed depressions, looked for one level coarser than the symmetry votes (craters of the
@@ -254,12 +261,12 @@ fn scan_depressions(
     lo: f64,
     hi: f64,
     opts: &DetectOptions,
-    out: &mut Vec<Detection>,
-) {
+) -> Vec<Detection> {
+    let mut out = Vec::new();
     let cell = level.cell_m;
     let (w, h) = (level.width, level.height);
     if w < 8 || h < 8 {
-        return;
+        return out;
     }
     // Remove relief broader than the band so a small crater on a large one's floor is a
     // closed depression of its own.
@@ -285,6 +292,7 @@ fn scan_depressions(
             });
         }
     }
+    out
 }
 
 /// Bowl-shaped blobs, on the coarser level like the depressions (craters of the band span 4-8
@@ -295,12 +303,12 @@ fn scan_blobs(
     lo: f64,
     hi: f64,
     opts: &DetectOptions,
-    out: &mut Vec<Detection>,
-) {
+) -> Vec<Detection> {
+    let mut out = Vec::new();
     let cell = level.cell_m;
     let (w, h) = (level.width, level.height);
     if w < 8 || h < 8 {
-        return;
+        return out;
     }
     let to_sigma = |d: f64| d / (blobs::DIAMETER_PER_SIGMA * cell);
     let (s_lo, s_hi) = (to_sigma(lo).max(0.7), to_sigma(hi).max(0.7));
@@ -329,6 +337,7 @@ fn scan_blobs(
             });
         }
     }
+    out
 }
 
 /// Drop proposals that repeat a stronger-placed one: centre within 0.25 D and diameter within

@@ -327,8 +327,7 @@ fn measure_in(
         // 1.3 times out after the second, passed; ours).
         if let Some(g) = gates {
             let reach = [1.5, 1.3].get(it).copied().unwrap_or(f64::INFINITY);
-            let d = 2.0 * rd.circle.r;
-            if d > reach * g.diameter_max_m || d * reach < g.diameter_min_m {
+            if g.outside_range(2.0 * rd.circle.r, reach) {
                 return Err(nm("the fitted rim is far outside the diameter range"));
             }
         }
@@ -354,7 +353,7 @@ fn measure_in(
     };
     let circle = rd.circle;
     let (cx, cy, r) = (circle.cx, circle.cy, circle.r);
-    if gates.is_some_and(|g| 2.0 * r < g.diameter_min_m || 2.0 * r > g.diameter_max_m) {
+    if gates.is_some_and(|g| g.outside_range(2.0 * r, 1.0)) {
         return Err(nm("the fitted rim is outside the diameter range"));
     }
 

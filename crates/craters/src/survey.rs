@@ -66,10 +66,7 @@ pub fn survey_grid(
             // found from it, look once more on either side.
             GUESS_FACTORS.iter().find_map(|f| {
                 let dia = f * d.diameter_m;
-                if f != &1.0
-                    && (dia > RETRY_REACH * detect_opts.diameter_max_m
-                        || dia * RETRY_REACH < detect_opts.diameter_min_m)
-                {
+                if f != &1.0 && detect_opts.outside_range(dia, RETRY_REACH) {
                     return None;
                 }
                 let least = detect_opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(dia);
