@@ -196,6 +196,9 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                                 (p.diameter_m / d * 5.0).round() / 5.0
                             ),
                         };
+                        if std::env::var_os("QB_VERBOSE").is_some() {
+                            println!("measurable, missed: id {} D {d:.0} m: {key}", c["id"]);
+                        }
                         *missed.entry(key).or_insert(0) += 1;
                     }
                 }

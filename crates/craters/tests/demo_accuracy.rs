@@ -18,6 +18,10 @@
 //! found, 554 (92%) show one. The misses are mostly heavily diffused craters on rising ground,
 //! whose planted crest radius (taken from the crater's own profile before the background was
 //! added) no longer marks a feature of the terrain.
+//!
+//! The thresholds were set on this patch. `scripts/accuracy-heldout.sh` scores patches of the
+//! same kind from other seeds with this same test (`QUIETBOWL_DEMO_DIR`); their figures, and
+//! where they fall short of the targets asserted here, are in docs/metrics.md.
 
 use craters::{survey_grid, DetectOptions, MeasureOptions};
 use serde::Deserialize;

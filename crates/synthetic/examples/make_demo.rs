@@ -1,5 +1,7 @@
 //! Regenerate the committed demo terrain: `cargo run --release -p quietbowl-synthetic
-//! --example make_demo -- [OUT_DIR]` (default: `demo-terrain/` at the workspace root).
+//! --example make_demo -- [OUT_DIR [SEED]]` (default: `demo-terrain/` at the workspace root,
+//! the default spec's seed). Another seed gives a patch of the same kind with other craters:
+//! held-out terrain for checking that a detection change tuned on the demo holds elsewhere.
 
 use std::path::PathBuf;
 
@@ -10,7 +12,12 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         .unwrap_or_else(|| {
             PathBuf::from(concat!(env!("CARGO_MANIFEST_DIR"), "/../../demo-terrain"))
         });
-    let spec = synthetic::DemoSpec::default();
+    let mut spec = synthetic::DemoSpec::default();
+    if let Some(seed) = std::env::args().nth(2) {
+        spec.seed = seed
+            .parse()
+            .map_err(|e| format!("SEED must be a whole number ({e})"))?;
+    }
     let started = std::time::Instant::now();
     let terrain = synthetic::generate(&spec)?;
     let generated = started.elapsed();
