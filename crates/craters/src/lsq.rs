@@ -35,8 +35,9 @@ pub fn fit_linear<const N: usize>(rows: impl Iterator<Item = ([f64; N], f64)>) -
         b.swap(col, piv);
         for r in col + 1..N {
             let k = m[r][col] / m[col][col];
-            for c in col..N {
-                m[r][c] -= k * m[col][c];
+            let pivot = m[col];
+            for (x, p) in m[r][col..].iter_mut().zip(&pivot[col..]) {
+                *x -= k * p;
             }
             b[r] -= k * b[col];
         }

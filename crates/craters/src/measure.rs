@@ -270,6 +270,8 @@ pub(crate) fn measure_screened(
     out
 }
 
+// `measure_screened`'s arguments and the thread's scratch buffers.
+#[allow(clippy::too_many_arguments)]
 fn measure_in(
     sc: &mut Scratch,
     grid: &ElevationGrid,

@@ -28,6 +28,10 @@ const COARSE_OFFSET_STEPS: i32 = 4;
 const COARSE_ROTATIONS: usize = 8;
 const MAX_ITERATIONS: usize = 200;
 
+/// The offset (east, north) of the last excavation asked for, and its nodes' (ground +
+/// clearance, sag) pairs.
+type ExcavationNodes = ((f64, f64), Vec<(f64, f64)>);
+
 /// Everything the search reuses between placements.
 pub struct Ctx<'a> {
     pub patch: &'a Patch,
@@ -42,7 +46,7 @@ pub struct Ctx<'a> {
     /// For the last offset whose excavation was asked for: (ground + clearance, sag) of every
     /// lattice node with data inside the aperture, in lattice order. The search scores several
     /// rotations at one offset, and each may need the excavation at another vertex height.
-    excavation_nodes: std::cell::RefCell<((f64, f64), Vec<(f64, f64)>)>,
+    excavation_nodes: std::cell::RefCell<ExcavationNodes>,
 }
 
 /// The aperture's vertical fit at one offset.

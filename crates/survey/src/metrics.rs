@@ -207,6 +207,11 @@ pub static METRICS: &[MetricInfo] = &[
     ),
 ];
 
+/// Look a metric up by name.
+pub fn metric(name: &str) -> Option<&'static MetricInfo> {
+    METRICS.iter().find(|m| m.name == name)
+}
+
 #[cfg(test)]
 mod tests {
     #[test]
@@ -217,9 +222,4 @@ mod tests {
             assert_eq!(ours.unit, m.unit);
         }
     }
-}
-
-/// Look a metric up by name.
-pub fn metric(name: &str) -> Option<&'static MetricInfo> {
-    METRICS.iter().find(|m| m.name == name)
 }

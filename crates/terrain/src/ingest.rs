@@ -235,7 +235,6 @@ impl Dem {
         };
         let pixel_size_m = geometry.pixel_size_m().unwrap_or((f64::NAN, f64::NAN));
         let (lon_range_deg, lat_range_deg, crosses_180) = extent(&geometry);
-        drop(band);
         // Values stored as planetary radii (no offset): detect from a decimated look.
         if let HeightConvention::ScaleOffset { scale, offset } = height_convention {
             if let Some(median) = coarse_median(&ds, nodata) {

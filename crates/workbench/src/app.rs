@@ -361,7 +361,7 @@ impl WorkbenchApp {
         };
         self.job = None;
         match outcome {
-            JobOutcome::Survey { survey, path } => self.adopt_survey(ctx, survey, path),
+            JobOutcome::Survey { survey, path } => self.adopt_survey(ctx, *survey, path),
             JobOutcome::Failed(e) => self.status = e,
             JobOutcome::Cancelled => self.status = "Cancelled.".into(),
         }

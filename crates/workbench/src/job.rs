@@ -8,8 +8,9 @@ use std::sync::Arc;
 use survey::SurveyFile;
 
 pub enum JobOutcome {
+    /// Boxed: a survey file is far larger than the other outcomes.
     Survey {
-        survey: SurveyFile,
+        survey: Box<SurveyFile>,
         path: Option<PathBuf>,
     },
     Failed(String),
@@ -108,7 +109,10 @@ pub fn run_survey(runner: SurveyRunner, dem_path: PathBuf, ctx: &egui::Context) 
     );
     Job::spawn(title, ctx, move |ctl| match runner(&dem_path, ctl) {
         _ if ctl.cancelled() => JobOutcome::Cancelled,
-        Ok(survey) => JobOutcome::Survey { survey, path: None },
+        Ok(survey) => JobOutcome::Survey {
+            survey: Box::new(survey),
+            path: None,
+        },
         Err(e) => JobOutcome::Failed(format!("The survey of {} failed: {e}", dem_path.display())),
     })
 }
@@ -130,7 +134,10 @@ pub fn refit_survey(
         };
         let cancel = ctl.cancel_flag();
         match survey::refit(&survey, &dem_path, &spec, &progress, &cancel) {
-            Ok(survey) => JobOutcome::Survey { survey, path: None },
+            Ok(survey) => JobOutcome::Survey {
+                survey: Box::new(survey),
+                path: None,
+            },
             Err(survey::SurveyError::RefitCancelled) => JobOutcome::Cancelled,
             Err(e) => JobOutcome::Failed(format!("The refit failed: {e}")),
         }
@@ -152,7 +159,7 @@ pub fn load_survey(path: PathBuf, ctx: &egui::Context) -> Job {
         ctl.set_progress(0.5);
         match serde_json::from_str::<SurveyFile>(&text) {
             Ok(survey) => JobOutcome::Survey {
-                survey,
+                survey: Box::new(survey),
                 path: Some(path),
             },
             Err(e) => JobOutcome::Failed(format!(

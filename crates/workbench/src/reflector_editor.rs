@@ -114,7 +114,7 @@ impl ReflectorEditor {
                     .filter(|c| c.fit.as_ref().is_some_and(|f| f.fit_ok))
                     .count();
                 let total = survey.candidates.len();
-                session.replace_fits(survey);
+                session.replace_fits(*survey);
                 (
                     true,
                     format!("Refitted: the reflector fits {n} of {total} candidates."),
