@@ -33,9 +33,9 @@ pub fn fit_linear<const N: usize>(rows: impl Iterator<Item = ([f64; N], f64)>) -
         }
         m.swap(col, piv);
         b.swap(col, piv);
+        let pivot = m[col];
         for r in col + 1..N {
-            let k = m[r][col] / m[col][col];
-            let pivot = m[col];
+            let k = m[r][col] / pivot[col];
             for (x, p) in m[r][col..].iter_mut().zip(&pivot[col..]) {
                 *x -= k * p;
             }

@@ -7,9 +7,6 @@ use craters::{measure, MeasureOptions};
 const D: f64 = 1200.0; // 40 px at 30 m
 const DEPTH: f64 = 0.2 * D; // fresh d/D about 0.2 (Pike 1977, from memory)
 const RIM_H: f64 = 0.036 * D; // fresh rim height (Pike 1977, from memory)
-                              // Centre placed between pixel centres, just east of the 180 meridian.
-const LON_C: f64 = -179.99;
-const LAT_C: f64 = 16.003;
 
 fn bowl_grid(f: impl Fn(f64, f64) -> f64) -> terrain::ElevationGrid {
     grid_around(200, 200, 16.0, LON_C, LAT_C, f)

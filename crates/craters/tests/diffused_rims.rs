@@ -22,9 +22,6 @@ use common::*;
 use craters::{measure, MeasureOptions};
 use synthetic::profile::CraterProfile;
 
-const LON_C: f64 = -179.99;
-const LAT_C: f64 = 16.003;
-
 fn measured_over_crest(fresh_d_m: f64, kappa_t_over_r2: f64) -> (f64, f64) {
     let r = fresh_d_m / 2.0;
     let prof = CraterProfile::new(fresh_d_m, kappa_t_over_r2 * r * r);

@@ -6,6 +6,9 @@ use std::sync::Arc;
 use terrain::{ElevationGrid, GridGeometry, LocalFrame, MapProjection, MOON_RADIUS_M};
 
 pub const PIXEL_M: f64 = 30.0;
+/// Where the analytic craters are centred: between pixel centres, just east of the 180 meridian.
+pub const LON_C: f64 = -179.99;
+pub const LAT_C: f64 = 16.003;
 
 /// A `w` x `h` window whose centre pixel sits at (180 E, `lat_deg`), heights from `f(x, y)`
 /// where (x, y) are metres east/north of (`lon_c`, `lat_c`) in the exact azimuthal
