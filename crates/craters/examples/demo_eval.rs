@@ -16,6 +16,12 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let opts = DetectOptions {
         diameter_min_m: 192.0,
         diameter_max_m: 10_000.0,
+        // QB_MIN_SCORE=0: the shape gates alone (the candidates `scripts/fit-crater-score.py`
+        // fits the score on).
+        min_crater_score: std::env::var("QB_MIN_SCORE")
+            .ok()
+            .and_then(|v| v.parse().ok())
+            .unwrap_or(DetectOptions::default().min_crater_score),
         ..DetectOptions::default()
     };
     let t = std::time::Instant::now();
@@ -214,16 +220,19 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                         ))
                         .or_insert(0) += 1;
                 } else if !gate {
-                    let why = if ms.rim_completeness < 0.35 {
-                        "completeness"
-                    } else if ms.rim_fit_rms_m > 0.06 * ms.diameter_m {
+                    let why = if ms.crest_fraction() < 0.25 {
+                        "crest fraction"
+                    } else if ms.rim_fit_rms_m > 0.08 * ms.diameter_m {
                         "rms"
                     } else if ms.depth_to_diameter
-                        < 0.2 * craters::fresh_depth_to_diameter(ms.diameter_m)
+                        < opts.min_fraction_of_fresh_depth
+                            * craters::fresh_depth_to_diameter(ms.diameter_m)
                     {
                         "shallow"
-                    } else if ms.rim_height_sd_m > 0.5 * ms.depth_m {
+                    } else if ms.rim_height_sd_m > 0.8 * ms.depth_m {
                         "rim height sd"
+                    } else if craters::crater_score(&ms) < opts.min_crater_score {
+                        "score"
                     } else {
                         "other"
                     };
@@ -256,7 +265,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     if let Ok(path) = std::env::var("QB_DUMP") {
         let all = craters::survey_grid(&grid, &opts, &MeasureOptions::default())?;
         let mut out =
-            String::from("lon,lat,d,dd,compl,gap,rms_d,sd_depth,ell,relief_depth,valid,matched\n");
+            String::from("lon,lat,d,dd,compl,gap,rms_d,sd_depth,ell,relief_depth,valid,crestf,dsd,depsd,wall,rough,col,row,matched\n");
         let planted: Vec<(f64, f64, f64)> = truth["craters"]
             .as_array()
             .ok_or("no craters")?
@@ -276,7 +285,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                     && (m.diameter_m / p.2 - 1.0).abs() <= 0.2
             });
             out += &format!(
-                "{},{},{:.1},{:.4},{:.3},{:.1},{:.4},{:.3},{:.3},{:.3},{:.3},{}\n",
+                "{},{},{:.1},{:.4},{:.3},{:.1},{:.4},{:.3},{:.3},{:.3},{:.3},{:.3},{:.4},{:.4},{:.2},{:.3},{:.1},{:.1},{}\n",
                 m.centre_lon_deg,
                 m.centre_lat_deg,
                 m.diameter_m,
@@ -288,6 +297,13 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 m.ellipticity,
                 m.rim_relief_m / m.depth_m,
                 m.valid_fraction,
+                m.crest_fraction(),
+                m.diameter_sd_m / m.diameter_m,
+                m.depth_sd_m / m.depth_m,
+                m.wall_slope_mean_deg,
+                m.roughness_rms_m / m.depth_m,
+                grid.geometry.lonlat_to_pixel(m.centre_lon_deg, m.centre_lat_deg).map_or(-1.0, |p| p.0),
+                grid.geometry.lonlat_to_pixel(m.centre_lon_deg, m.centre_lat_deg).map_or(-1.0, |p| p.1),
                 matched as u8
             );
         }

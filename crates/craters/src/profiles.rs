@@ -201,6 +201,11 @@ impl Profiles {
     }
 
     /// Crest candidate on profile `i` within radii [lo, hi]; neighbourhoods of width `nb`.
+    /// The crest is the local maximum nearest the middle of the band among those standing at
+    /// least [`CREST_PROMINENCE_SHARE`] of the most prominent one's height above their
+    /// neighbourhoods (prominence: the smaller drop to the lowest sample within `nb` inwards
+    /// and outwards), not simply the highest sample: on a degraded rim that background relief
+    /// outtops further out, the highest sample is the relief, not the rim.
     /// On a rim found not `sharp` the crest is the top of the profile (parabola through the
     /// highest three samples), otherwise where the flanks meet when they do.
     pub fn crest(
@@ -217,31 +222,42 @@ impl Profiles {
         if k_hi <= k_lo {
             return None;
         }
-        let mut best: Option<(usize, f64)> = None;
-        for k in k_lo..=k_hi {
-            let z = self.at(i, k);
-            if z.is_finite() && best.is_none_or(|b| z > b.1) {
-                best = Some((k, z));
-            }
-        }
-        let (k, zc) = best?;
-        let (zm, zp) = (self.at(i, k - 1), self.at(i, k + 1));
-        // Must be a true local maximum, not the band edge on a monotonic slope.
-        if !(zm.is_finite() && zp.is_finite()) || zm > zc || zp > zc || k == k_lo || k == k_hi {
-            return None;
-        }
         let nbk = ((nb / self.dr).round() as usize).max(2);
-        let inner = (k.saturating_sub(nbk)..k)
-            .map(|j| self.at(i, j))
-            .filter(|z| z.is_finite())
-            .fold(f64::INFINITY, f64::min);
-        let outer = (k + 1..=(k + nbk).min(self.n_r - 1))
-            .map(|j| self.at(i, j))
-            .filter(|z| z.is_finite())
-            .fold(f64::INFINITY, f64::min);
-        if !(inner.is_finite() && outer.is_finite()) {
-            return None;
-        }
+        let drops = |k: usize| {
+            let z = self.at(i, k);
+            let inner = (k.saturating_sub(nbk)..k)
+                .map(|j| self.at(i, j))
+                .filter(|z| z.is_finite())
+                .fold(f64::INFINITY, f64::min);
+            let outer = (k + 1..=(k + nbk).min(self.n_r - 1))
+                .map(|j| self.at(i, j))
+                .filter(|z| z.is_finite())
+                .fold(f64::INFINITY, f64::min);
+            (z - inner, z - outer)
+        };
+        // Prominence of a local maximum strictly inside the band (a band edge on a monotonic
+        // slope is no crest).
+        let prominence = |k: usize| {
+            let z = self.at(i, k);
+            let (zm, zp) = (self.at(i, k - 1), self.at(i, k + 1));
+            if !(z.is_finite() && zm.is_finite() && zp.is_finite() && z >= zm && z >= zp) {
+                return None;
+            }
+            let (di, dout) = drops(k);
+            Some(di.min(dout)).filter(|p| *p > 0.0)
+        };
+        let most = (k_lo + 1..k_hi).filter_map(prominence).fold(0.0, f64::max);
+        let mid = 0.5 * (lo + hi);
+        let k = (k_lo + 1..k_hi)
+            .filter(|&k| prominence(k).is_some_and(|p| p >= CREST_PROMINENCE_SHARE * most))
+            .min_by(|&a, &b| {
+                (a as f64 * self.dr - mid)
+                    .abs()
+                    .total_cmp(&(b as f64 * self.dr - mid).abs())
+            })?;
+        let zc = self.at(i, k);
+        let (zm, zp) = (self.at(i, k - 1), self.at(i, k + 1));
+        let (inner_drop, outer_drop) = drops(k);
         // Parabolic interpolation of the peak between samples.
         let den = zm - 2.0 * zc + zp;
         let off = if den < 0.0 {
@@ -266,8 +282,8 @@ impl Profiles {
             r_top,
             flank_met: flank.is_some(),
             z: z_peak,
-            inner_drop: z_peak - inner,
-            outer_drop: z_peak - outer,
+            inner_drop: inner_drop + (z_peak - zc),
+            outer_drop: outer_drop + (z_peak - zc),
         })
     }
 
@@ -323,6 +339,12 @@ impl Profiles {
         .is_some()
     }
 }
+
+/// Share of the most prominent local maximum's prominence a nearer one needs to be taken as a
+/// profile's crest ([`Profiles::crest`]). Set on demo terrains of seeds 11-13 (never scored):
+/// over the highest-sample rule it found 2-3% more planted craters on every scored patch, the
+/// added ones mostly degraded (ours).
+const CREST_PROMINENCE_SHARE: f64 = 0.5;
 
 /// How far above the top the flank lines of a sharp rim may meet, as the inner flank's rise
 /// over this fraction of a pixel. A kink sampled bilinearly is rounded within half a pixel and
