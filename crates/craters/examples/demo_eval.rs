@@ -284,6 +284,10 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                     <= 0.25 * p.2
                     && (m.diameter_m / p.2 - 1.0).abs() <= 0.2
             });
+            let px = grid
+                .geometry
+                .lonlat_to_pixel(m.centre_lon_deg, m.centre_lat_deg)
+                .unwrap_or((-1.0, -1.0));
             out += &format!(
                 "{},{},{:.1},{:.4},{:.3},{:.1},{:.4},{:.3},{:.3},{:.3},{:.3},{:.3},{:.4},{:.4},{:.2},{:.3},{:.1},{:.1},{}\n",
                 m.centre_lon_deg,
@@ -302,8 +306,8 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 m.depth_sd_m / m.depth_m,
                 m.wall_slope_mean_deg,
                 m.roughness_rms_m / m.depth_m,
-                grid.geometry.lonlat_to_pixel(m.centre_lon_deg, m.centre_lat_deg).map_or(-1.0, |p| p.0),
-                grid.geometry.lonlat_to_pixel(m.centre_lon_deg, m.centre_lat_deg).map_or(-1.0, |p| p.1),
+                px.0,
+                px.1,
                 matched as u8
             );
         }
