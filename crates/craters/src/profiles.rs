@@ -235,29 +235,51 @@ impl Profiles {
                 .fold(f64::INFINITY, f64::min);
             (z - inner, z - outer)
         };
-        // Prominence of a local maximum strictly inside the band (a band edge on a monotonic
-        // slope is no crest).
-        let prominence = |k: usize| {
+        // A local maximum strictly inside the band (a band edge on a monotonic slope is no
+        // crest) with its drops; its prominence is the smaller drop.
+        let peak = |k: usize| {
             let z = self.at(i, k);
             let (zm, zp) = (self.at(i, k - 1), self.at(i, k + 1));
             if !(z.is_finite() && zm.is_finite() && zp.is_finite() && z >= zm && z >= zp) {
                 return None;
             }
             let (di, dout) = drops(k);
-            Some(di.min(dout)).filter(|p| *p > 0.0)
+            (di.min(dout) > 0.0).then_some((k, di, dout))
         };
-        let most = (k_lo + 1..k_hi).filter_map(prominence).fold(0.0, f64::max);
+        // One pass keeps the peaks in a small buffer; a profile with more peaks than it holds
+        // (a very rough band) has them worked out again in the second pass.
+        let mut kept = [(0usize, 0.0f64, 0.0f64); PEAK_BUFFER];
+        let (mut n_kept, mut overflow, mut most) = (0usize, false, 0.0f64);
+        for found in (k_lo + 1..k_hi).filter_map(peak) {
+            most = most.max(found.1.min(found.2));
+            if n_kept < PEAK_BUFFER {
+                kept[n_kept] = found;
+                n_kept += 1;
+            } else {
+                overflow = true;
+            }
+        }
         let mid = 0.5 * (lo + hi);
-        let k = (k_lo + 1..k_hi)
-            .filter(|&k| prominence(k).is_some_and(|p| p >= CREST_PROMINENCE_SHARE * most))
-            .min_by(|&a, &b| {
-                (a as f64 * self.dr - mid)
-                    .abs()
-                    .total_cmp(&(b as f64 * self.dr - mid).abs())
-            })?;
+        let nearest = |a: &(usize, f64, f64), b: &(usize, f64, f64)| {
+            (a.0 as f64 * self.dr - mid)
+                .abs()
+                .total_cmp(&(b.0 as f64 * self.dr - mid).abs())
+        };
+        let prominent = |p: &(usize, f64, f64)| p.1.min(p.2) >= CREST_PROMINENCE_SHARE * most;
+        let (k, inner_drop, outer_drop) = if overflow {
+            (k_lo + 1..k_hi)
+                .filter_map(peak)
+                .filter(prominent)
+                .min_by(nearest)?
+        } else {
+            kept[..n_kept]
+                .iter()
+                .copied()
+                .filter(prominent)
+                .min_by(nearest)?
+        };
         let zc = self.at(i, k);
         let (zm, zp) = (self.at(i, k - 1), self.at(i, k + 1));
-        let (inner_drop, outer_drop) = drops(k);
         // Parabolic interpolation of the peak between samples.
         let den = zm - 2.0 * zc + zp;
         let off = if den < 0.0 {
@@ -345,6 +367,10 @@ impl Profiles {
 /// over the highest-sample rule it found 2-3% more planted craters on every scored patch, the
 /// added ones mostly degraded (ours).
 const CREST_PROMINENCE_SHARE: f64 = 0.5;
+
+/// Local maxima of one profile's band that [`Profiles::crest`] keeps from its first pass; a
+/// band with more (a very rough one) has its peaks worked out again in a second pass.
+const PEAK_BUFFER: usize = 16;
 
 /// How far above the top the flank lines of a sharp rim may meet, as the inner flank's rise
 /// over this fraction of a pixel. A kink sampled bilinearly is rounded within half a pixel and
@@ -515,6 +541,45 @@ mod tests {
             width: 1440,
             height: 720,
             heights_m,
+        }
+    }
+
+    /// One profile, samples `dr` = 1 m apart: a ripple of many small peaks (0.1 m) plus the
+    /// given broad bumps (centre sample, height in m).
+    fn rippled(bumps: &[(f64, f64)]) -> Profiles {
+        let z = (0..200)
+            .map(|k| {
+                let ripple = if k % 2 == 0 { 0.1 } else { 0.0 };
+                let kf = k as f64;
+                ripple
+                    + bumps
+                        .iter()
+                        .map(|&(c, h)| h * (-((kf - c) / 4.0).powi(2)).exp())
+                        .sum::<f64>()
+            })
+            .collect();
+        Profiles {
+            n_az: 1,
+            n_r: 200,
+            dr: 1.0,
+            z,
+            dir: vec![(0.0, 1.0)],
+            ..Profiles::default()
+        }
+    }
+
+    #[test]
+    fn crest_is_the_prominent_peak_nearest_mid_band_however_many_peaks_the_band_holds() {
+        // Band 20..120 m (middle 70): the ripple puts 50 small local maxima in it, more than
+        // the first pass keeps, and over 8 of them (band 66..82) fewer than it keeps.
+        for (lo, hi) in [(20.0, 120.0), (66.0, 82.0)] {
+            // The ripple's peaks are far below half the bump's prominence: the bump wins.
+            let one = rippled(&[(76.0, 10.0)]).crest(0, lo, hi, 30.0, 1.0, false);
+            assert_eq!(one.map(|c| c.r_top.round()), Some(76.0), "band {lo}..{hi}");
+            // Two bumps both prominent enough: the one nearer the band's middle.
+            let two = rippled(&[(64.0, 6.0), (79.0, 10.0)]).crest(0, lo, hi, 30.0, 1.0, false);
+            let want = if lo < 60.0 { 64.0 } else { 79.0 };
+            assert_eq!(two.map(|c| c.r_top.round()), Some(want), "band {lo}..{hi}");
         }
     }
 
