@@ -25,12 +25,6 @@ TERMS = ["d/D over fresh", "crest fraction", "rim relief / depth",
          "diameter sd / diameter", "depth sd / depth", "roughness / depth"]
 
 
-def fresh_depth_to_diameter(d_m):
-    """Pike (1977), as craters::fresh_depth_to_diameter."""
-    k = d_m / 1000.0
-    return 0.196 * k ** 0.010 if k < 15.0 else 1.044 * k ** 0.301 / k
-
-
 def run(*args, env=None):
     subprocess.run(args, cwd=ROOT, check=True, env=env, stdout=subprocess.DEVNULL)
 
@@ -45,8 +39,7 @@ def candidates(seed):
     rows = []
     with open(dump) as f:
         for r in csv.DictReader(f):
-            d, dd = float(r["d"]), float(r["dd"])
-            x = [dd / fresh_depth_to_diameter(d), float(r["crestf"]), float(r["relief_depth"]),
+            x = [float(r["ddf"]), float(r["crestf"]), float(r["relief_depth"]),
                  float(r["dsd"]), float(r["depsd"]), float(r["rough"])]
             if all(np.isfinite(x)):
                 rows.append((x, int(r["matched"])))

@@ -265,7 +265,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     if let Ok(path) = std::env::var("QB_DUMP") {
         let all = craters::survey_grid(&grid, &opts, &MeasureOptions::default())?;
         let mut out =
-            String::from("lon,lat,d,dd,compl,gap,rms_d,sd_depth,ell,relief_depth,valid,crestf,dsd,depsd,wall,rough,col,row,matched\n");
+            String::from("lon,lat,d,dd,compl,gap,rms_d,sd_depth,ell,relief_depth,valid,crestf,dsd,depsd,wall,rough,col,row,ddf,matched\n");
         let planted: Vec<(f64, f64, f64)> = truth["craters"]
             .as_array()
             .ok_or("no craters")?
@@ -289,7 +289,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 .lonlat_to_pixel(m.centre_lon_deg, m.centre_lat_deg)
                 .unwrap_or((-1.0, -1.0));
             out += &format!(
-                "{},{},{:.1},{:.4},{:.3},{:.1},{:.4},{:.3},{:.3},{:.3},{:.3},{:.3},{:.4},{:.4},{:.2},{:.3},{:.1},{:.1},{}\n",
+                "{},{},{:.1},{:.4},{:.3},{:.1},{:.4},{:.3},{:.3},{:.3},{:.3},{:.3},{:.4},{:.4},{:.2},{:.3},{:.1},{:.1},{:.4},{}\n",
                 m.centre_lon_deg,
                 m.centre_lat_deg,
                 m.diameter_m,
@@ -308,6 +308,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                 m.roughness_rms_m / m.depth_m,
                 px.0,
                 px.1,
+                m.depth_to_diameter / craters::fresh_depth_to_diameter(m.diameter_m),
                 matched as u8
             );
         }
