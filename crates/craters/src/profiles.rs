@@ -208,7 +208,7 @@ impl Profiles {
     /// inwards and outwards (within `nb`) to the lowest sample before the profile rises above
     /// the peak again, as a peak's prominence is measured to its key col: a noise bump beside
     /// the crest of a sharp rim drops only to the col between them, so it does not pull the
-    /// crest off (an analytic bowl with 6 m of white noise on 30 m posts was read 12% too
+    /// crest off (an analytic bowl with ±3 m of white noise on 30 m posts was read 12% too
     /// large when the drops ran to the lowest sample in the whole neighbourhood; ours).
     /// On a rim found not `sharp` the crest is the top of the profile (parabola through the
     /// highest three samples), otherwise where the flanks meet when they do.
