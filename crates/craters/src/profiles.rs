@@ -227,41 +227,30 @@ impl Profiles {
             return None;
         }
         let nbk = ((nb / self.dr).round() as usize).max(2);
-        // From a sample at height z, along `js` (outwards from it, at most `nb`): the drop to
-        // the lowest sample, and the drop to the lowest sample before the profile climbs above
-        // z again (the col to a higher neighbour: a bump on the flank of a higher peak drops
-        // only that far). Nodata is skipped.
-        let side = |z: f64, js: &mut dyn Iterator<Item = usize>| {
-            let (mut low, mut col_low, mut open) = (f64::INFINITY, f64::INFINITY, true);
-            for v in js.map(|j| self.at(i, j)) {
-                open &= !(v > z);
-                low = low.min(v);
-                if open {
-                    col_low = col_low.min(v);
-                }
-            }
-            (z - low, z - col_low)
-        };
         // A local maximum strictly inside the band (a band edge on a monotonic slope is no
-        // crest) with its drops inwards and outwards (what [`Crest`] reports) and its
-        // prominence, the smaller of its two drops to a col.
+        // crest) with its drops inwards and outwards.
         let peak = |k: usize| {
             let z = self.at(i, k);
             let (zm, zp) = (self.at(i, k - 1), self.at(i, k + 1));
             if !(z.is_finite() && zm.is_finite() && zp.is_finite() && z >= zm && z >= zp) {
                 return None;
             }
-            let (di, col_in) = side(z, &mut (k.saturating_sub(nbk)..k).rev());
-            let (dout, col_out) = side(z, &mut (k + 1..=(k + nbk).min(self.n_r - 1)));
-            let prom = col_in.min(col_out);
-            (di.min(dout) > 0.0).then_some((k, di, dout, prom))
+            let along = |j: usize| self.at(i, j);
+            let (inner_drop, col_in) = drops(z, (k.saturating_sub(nbk)..k).rev().map(along));
+            let (outer_drop, col_out) = drops(z, (k + 1..=(k + nbk).min(self.n_r - 1)).map(along));
+            (inner_drop.min(outer_drop) > 0.0).then_some(Peak {
+                k,
+                inner_drop,
+                outer_drop,
+                prominence: col_in.min(col_out),
+            })
         };
         // One pass keeps the peaks in a small buffer; a profile with more peaks than it holds
         // (a very rough band) has them worked out again in the second pass.
-        let mut kept = [(0usize, 0.0f64, 0.0f64, 0.0f64); PEAK_BUFFER];
+        let mut kept = [Peak::default(); PEAK_BUFFER];
         let (mut n_kept, mut overflow, mut most) = (0usize, false, 0.0f64);
         for found in (k_lo + 1..k_hi).filter_map(peak) {
-            most = most.max(found.3);
+            most = most.max(found.prominence);
             if n_kept < PEAK_BUFFER {
                 kept[n_kept] = found;
                 n_kept += 1;
@@ -270,13 +259,18 @@ impl Profiles {
             }
         }
         let mid = 0.5 * (lo + hi);
-        let nearest = |a: &(usize, f64, f64, f64), b: &(usize, f64, f64, f64)| {
-            (a.0 as f64 * self.dr - mid)
+        let nearest = |a: &Peak, b: &Peak| {
+            (a.k as f64 * self.dr - mid)
                 .abs()
-                .total_cmp(&(b.0 as f64 * self.dr - mid).abs())
+                .total_cmp(&(b.k as f64 * self.dr - mid).abs())
         };
-        let prominent = |p: &(usize, f64, f64, f64)| p.3 >= CREST_PROMINENCE_SHARE * most;
-        let (k, inner_drop, outer_drop, _) = if overflow {
+        let prominent = |p: &Peak| p.prominence >= CREST_PROMINENCE_SHARE * most;
+        let Peak {
+            k,
+            inner_drop,
+            outer_drop,
+            ..
+        } = if overflow {
             (k_lo + 1..k_hi)
                 .filter_map(peak)
                 .filter(prominent)
@@ -380,6 +374,34 @@ impl Profiles {
 /// over the highest-sample rule it found 2-3% more planted craters on every scored patch, the
 /// added ones mostly degraded (ours).
 const CREST_PROMINENCE_SHARE: f64 = 0.5;
+
+/// A local maximum of a profile ([`Profiles::crest`]): its sample, its drops inwards and
+/// outwards to the lowest sample within the neighbourhood (what [`Crest`] reports), and its
+/// prominence, the smaller of its two drops to a col ([`drops`]).
+#[derive(Clone, Copy, Debug, Default)]
+struct Peak {
+    k: usize,
+    inner_drop: f64,
+    outer_drop: f64,
+    prominence: f64,
+}
+
+/// From a sample at height `z`, along `heights` (outwards from it, the neighbourhood's
+/// samples in order): the drop to the lowest of them, and the drop to the lowest before the
+/// profile climbs above `z` again (the col to a higher neighbour: a bump on the flank of a
+/// higher peak drops only that far). Nodata is skipped.
+#[inline]
+fn drops(z: f64, heights: impl Iterator<Item = f64>) -> (f64, f64) {
+    let (mut low, mut col_low, mut open) = (f64::INFINITY, f64::INFINITY, true);
+    for v in heights {
+        open &= !(v > z);
+        low = low.min(v);
+        if open {
+            col_low = col_low.min(v);
+        }
+    }
+    (z - low, z - col_low)
+}
 
 /// Local maxima of one profile's band that [`Profiles::crest`] keeps from its first pass; a
 /// band with more (a very rough one) has its peaks worked out again in a second pass.
