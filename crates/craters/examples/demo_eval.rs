@@ -220,22 +220,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
                         ))
                         .or_insert(0) += 1;
                 } else if !gate {
-                    let why = if ms.crest_fraction() < 0.25 {
-                        "crest fraction"
-                    } else if ms.rim_fit_rms_m > 0.08 * ms.diameter_m {
-                        "rms"
-                    } else if ms.depth_to_diameter
-                        < opts.min_fraction_of_fresh_depth
-                            * craters::fresh_depth_to_diameter(ms.diameter_m)
-                    {
-                        "shallow"
-                    } else if ms.rim_height_sd_m > 0.8 * ms.depth_m {
-                        "rim height sd"
-                    } else if craters::crater_score(&ms) < opts.min_crater_score {
-                        "score"
-                    } else {
-                        "other"
-                    };
+                    let why = craters::failed_crater_test(&ms, &opts).unwrap_or("other");
                     *reasons.entry(format!("gate {why}")).or_insert(0) += 1;
                 }
                 // Measured over planted rim-crest diameter by degradation (QB_RATIO=1).

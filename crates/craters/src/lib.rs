@@ -44,4 +44,6 @@ pub use error::CraterError;
 pub use measure::{measure, MeasureOptions};
 pub use measurement::CraterMeasurement;
 pub use merge::{merge_duplicates, merge_duplicates_on, same_crater};
-pub use survey::{crater_score, fresh_depth_to_diameter, looks_like_crater, survey_grid};
+pub use survey::{
+    crater_score, failed_crater_test, fresh_depth_to_diameter, looks_like_crater, survey_grid,
+};

@@ -36,15 +36,35 @@ const SIMPLE_COMPLEX_TRANSITION_KM: f64 = 15.0;
 ///   the azimuths, scattered by at most 8% of D about its circle, with a rim-height standard
 ///   deviation at most 0.8 of the depth.
 pub fn looks_like_crater(m: &CraterMeasurement, opts: &DetectOptions) -> bool {
-    m.diameter_m >= opts.diameter_min_m
-        && m.diameter_m <= opts.diameter_max_m
-        && m.depth_to_diameter
-            >= opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(m.diameter_m)
-        && m.depth_to_diameter <= 0.4
-        && m.crest_fraction() >= 0.25
-        && m.rim_fit_rms_m <= 0.08 * m.diameter_m
-        && m.rim_height_sd_m <= 0.8 * m.depth_m
-        && (opts.min_crater_score <= 0.0 || crater_score(m) >= opts.min_crater_score)
+    failed_crater_test(m, opts).is_none()
+}
+
+/// The first test of [`looks_like_crater`] that `m` fails, in a few words (for diagnostics),
+/// or `None` when it passes them all. Not-a-number fails every test it enters.
+pub fn failed_crater_test(m: &CraterMeasurement, opts: &DetectOptions) -> Option<&'static str> {
+    // Each test is written as what passes, so that NaN fails it.
+    let failed = if !(m.diameter_m >= opts.diameter_min_m) {
+        "diameter below the range"
+    } else if !(m.diameter_m <= opts.diameter_max_m) {
+        "diameter above the range"
+    } else if !(m.depth_to_diameter
+        >= opts.min_fraction_of_fresh_depth * fresh_depth_to_diameter(m.diameter_m))
+    {
+        "shallow"
+    } else if !(m.depth_to_diameter <= 0.4) {
+        "d/D above 0.4"
+    } else if !(m.crest_fraction() >= 0.25) {
+        "crest fraction"
+    } else if !(m.rim_fit_rms_m <= 0.08 * m.diameter_m) {
+        "rim scatter"
+    } else if !(m.rim_height_sd_m <= 0.8 * m.depth_m) {
+        "rim height sd"
+    } else if !(opts.min_crater_score <= 0.0 || crater_score(m) >= opts.min_crater_score) {
+        "score"
+    } else {
+        return None;
+    };
+    Some(failed)
 }
 
 /// How crater-like a measured candidate is, 0..1: a logistic regression (Cox 1958) on six
