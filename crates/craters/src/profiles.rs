@@ -560,8 +560,8 @@ fn bilinear(heights: &[f32], w: usize, h: usize, c: f64, r: f64) -> f64 {
     upper + fr * (lower - upper)
 }
 
-/// Keys (1981, IEEE Trans. ASSP 29:1153) cubic convolution weights, a = -1/2, of the four
-/// posts at offsets -1, 0, 1, 2 from a position a fraction `t` past post 0.
+/// Keys (1981, IEEE Trans. ASSP 29:1153, from memory) cubic convolution weights, a = -1/2,
+/// of the four posts at offsets -1, 0, 1, 2 from a position a fraction `t` past post 0.
 #[inline(always)]
 fn keys_weights(t: f64) -> [f64; 4] {
     // Kernel 1.5|x|^3 - 2.5|x|^2 + 1 within one post, -0.5|x|^3 + 2.5|x|^2 - 4|x| + 2 within
@@ -662,8 +662,9 @@ mod tests {
 
     #[test]
     fn cubic_convolution_reproduces_a_quadratic_and_falls_back_at_edges_and_nodata() {
-        // Keys (1981) a = -1/2 reproduces polynomials up to second degree exactly (his
-        // section III); bilinear interpolation does not (it is off by f''/8 mid-cell).
+        // Keys (1981, from memory) shows the a = -1/2 kernel reproduces polynomials up to
+        // second degree exactly; the weights of `keys_weights` are checked here against that
+        // property. Bilinear interpolation does not (it is off by f''/8 mid-cell).
         let (w, h) = (8usize, 7usize);
         let f = |c: f64, r: f64| 0.3 * c * c - 0.2 * c * r + 0.15 * r * r + 2.0 * c - r + 5.0;
         let mut heights: Vec<f32> = (0..w * h)
