@@ -1,19 +1,92 @@
-//! The named metrics of a candidate: what criteria files, tables and exports refer to.
+//! The named metrics of a candidate: what criteria files, tables and exports refer to, and
+//! what a person reads for each (label, short label, unit, number format, meaning).
+//!
+//! The id (`name`) is for files only: criteria files, survey files and export columns. Every
+//! screen, failure reason and printed table reads `label` or `short` and formats values with
+//! [`MetricInfo::format`].
 
 use crate::model::Candidate;
 
-/// A metric's name (as used in criteria files and exports), unit and one-line meaning.
+/// How a metric's values read: decides the number format and, for yes/no metrics, that a
+/// limit on it is a checkbox rather than a threshold.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum MetricKind {
+    /// A length in metres; shown in km from 10 km up.
+    Length,
+    /// A volume in cubic metres.
+    Volume,
+    /// An angle in degrees.
+    Angle,
+    /// A latitude or longitude in degrees.
+    Coordinate,
+    /// A dimensionless ratio such as d/D.
+    Ratio,
+    /// A share between 0 and 1, shown in percent.
+    Fraction,
+    /// Yes (1) or no (0).
+    Flag,
+}
+
+/// A metric: its id (as used in criteria files and exports), what a person reads for it,
+/// unit, one-sentence meaning and how to get it from a candidate.
 pub struct MetricInfo {
+    /// The id used in files (criteria, survey, export columns); never shown on its own.
     pub name: &'static str,
+    /// What screens and reports call it.
+    pub label: &'static str,
+    /// A short form for table headers.
+    pub short: &'static str,
+    pub kind: MetricKind,
     pub unit: &'static str,
+    /// One sentence of meaning, for tooltips and the export documentation.
     pub description: &'static str,
     pub get: fn(&Candidate) -> Option<f64>,
 }
 
+impl MetricInfo {
+    /// A value as a person reads it, with its unit: "71.3 km", "0.183", "93 %", "yes".
+    pub fn format(&self, v: f64) -> String {
+        if !v.is_finite() {
+            return "no value".to_string();
+        }
+        match self.kind {
+            MetricKind::Length if v.abs() >= 10_000.0 => format!("{:.1} km", v / 1000.0),
+            MetricKind::Length if v.abs() >= 100.0 => format!("{v:.0} m"),
+            MetricKind::Length => format!("{v:.1} m"),
+            MetricKind::Volume if v.abs() >= 1.0e6 => format!("{:.2} million m³", v / 1.0e6),
+            MetricKind::Volume => format!("{v:.0} m³"),
+            MetricKind::Angle => format!("{v:.1}°"),
+            MetricKind::Coordinate => format!("{v:.3}°"),
+            MetricKind::Ratio => format!("{v:.3}"),
+            MetricKind::Fraction => format!("{:.0} %", v * 100.0),
+            MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
+        }
+    }
+
+    /// The unit a person reads in a header, in brackets, or nothing for unitless metrics.
+    pub fn unit_suffix(&self) -> &'static str {
+        match self.kind {
+            MetricKind::Length => " [m]",
+            MetricKind::Volume => " [m³]",
+            MetricKind::Angle | MetricKind::Coordinate => " [°]",
+            MetricKind::Fraction => " [%]",
+            MetricKind::Ratio | MetricKind::Flag => "",
+        }
+    }
+
+    /// True for yes/no metrics (limits on them are checkboxes).
+    pub fn is_flag(&self) -> bool {
+        self.kind == MetricKind::Flag
+    }
+}
+
 macro_rules! crater {
-    ($name:literal, $unit:literal, $desc:literal, $field:ident) => {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $field:ident) => {
         MetricInfo {
             name: $name,
+            label: $label,
+            short: $short,
+            kind: MetricKind::$kind,
             unit: $unit,
             description: $desc,
             get: |c| Some(c.crater.$field as f64),
@@ -21,9 +94,12 @@ macro_rules! crater {
     };
 }
 macro_rules! vis {
-    ($name:literal, $unit:literal, $desc:literal, $e:expr) => {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $e:expr) => {
         MetricInfo {
             name: $name,
+            label: $label,
+            short: $short,
+            kind: MetricKind::$kind,
             unit: $unit,
             description: $desc,
             get: |c| c.visibility.as_ref().map($e),
@@ -32,9 +108,12 @@ macro_rules! vis {
 }
 
 macro_rules! fit {
-    ($name:literal, $unit:literal, $desc:literal) => {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal) => {
         MetricInfo {
             name: $name,
+            label: $label,
+            short: $short,
+            kind: MetricKind::$kind,
             unit: $unit,
             description: $desc,
             get: |c| c.fit.as_ref().and_then(|f| f.metric($name)),
@@ -46,162 +125,246 @@ macro_rules! fit {
 pub static METRICS: &[MetricInfo] = &[
     crater!(
         "diameter_m",
+        "Diameter",
+        "Diam.",
+        Length,
         "m",
         "diameter of the circle fitted to the rim crest",
         diameter_m
     ),
     crater!(
         "depth_m",
+        "Depth",
+        "Depth",
+        Length,
         "m",
         "rim-crest median minus robust floor level",
         depth_m
     ),
     crater!(
         "depth_to_diameter",
+        "Depth/diameter (d/D)",
+        "d/D",
+        Ratio,
         "",
-        "depth_m / diameter_m",
+        "rim depth divided by rim diameter",
         depth_to_diameter
     ),
     crater!(
         "ellipticity",
+        "Ellipticity",
+        "Ellip.",
+        Ratio,
         "",
         "1 - minor/major axis of the fitted rim ellipse",
         ellipticity
     ),
     crater!(
         "rim_relief_m",
+        "Rim height above the plain",
+        "Rim ht",
+        Length,
         "m",
         "rim crest above the surrounding plain",
         rim_relief_m
     ),
     crater!(
         "rim_completeness",
+        "Rim completeness",
+        "Rim compl.",
+        Fraction,
         "",
         "fraction of azimuths with a rim crest near the fitted circle",
         rim_completeness
     ),
     crater!(
         "rim_gap_deg",
+        "Widest rim gap",
+        "Rim gap",
+        Angle,
         "deg",
         "widest contiguous arc without a rim crest",
         rim_gap_deg
     ),
     crater!(
         "rim_height_sd_m",
+        "Rim height scatter",
+        "Rim SD",
+        Length,
         "m",
         "standard deviation of rim-crest heights",
         rim_height_sd_m
     ),
     crater!(
         "floor_tilt_deg",
+        "Floor tilt",
+        "Floor tilt",
+        Angle,
         "deg",
         "tilt of the plane fitted over the central floor",
         floor_tilt_deg
     ),
     crater!(
         "floor_slope_p95_deg",
+        "Floor slope (95th percentile)",
+        "Floor slope",
+        Angle,
         "deg",
         "95th percentile of Horn slope over the floor",
         floor_slope_p95_deg
     ),
     crater!(
         "wall_slope_mean_deg",
+        "Inner wall slope (mean)",
+        "Wall slope",
+        Angle,
         "deg",
         "mean Horn slope of the inner wall",
         wall_slope_mean_deg
     ),
     crater!(
         "roughness_rms_m",
+        "Floor roughness (RMS)",
+        "Rough.",
+        Length,
         "m",
         "RMS floor height after removing a smooth bowl",
         roughness_rms_m
     ),
     crater!(
         "obstacle_fraction",
+        "Obstacle share of the floor",
+        "Obstacles",
+        Fraction,
         "",
         "fraction of floor pixels steeper than the obstacle threshold",
         obstacle_fraction
     ),
     crater!(
         "valid_fraction",
+        "Data coverage",
+        "Coverage",
+        Fraction,
         "",
         "fraction of the measurement disc with data",
         valid_fraction
     ),
     crater!(
         "lat_deg",
+        "Latitude",
+        "Lat",
+        Coordinate,
         "deg",
         "latitude of the crater centre",
         centre_lat_deg
     ),
     crater!(
         "lon_deg",
+        "Longitude",
+        "Lon",
+        Coordinate,
         "deg",
         "longitude of the crater centre",
         centre_lon_deg
     ),
     vis!(
         "earth_clearance_deg",
+        "Earth shielding margin",
+        "Earth margin",
+        Angle,
         "deg",
         "smallest margin of the Earth's upper limb below the local horizon over all librations",
         |v| v.earth_clearance_deg
     ),
     vis!(
         "limb_margin_deg",
+        "Distance behind the limb",
+        "Behind limb",
+        Angle,
         "deg",
         "angular distance behind the libration-extended limb",
         |v| v.limb_margin_deg
     ),
     vis!(
         "far_side_band",
+        "In the far-side band",
+        "Far side",
+        Flag,
         "",
-        "1 if within 45 deg of the 180 meridian, else 0",
+        "whether the centre lies within 45 degrees of the 180 meridian",
         |v| if v.far_side_band { 1.0 } else { 0.0 }
     ),
     vis!(
         "gc_separation_deg",
+        "Beam closest to galactic centre",
+        "GC sep.",
+        Angle,
         "deg",
         "closest approach of a zenith-fixed beam to the galactic centre",
         |v| v.gc_separation_deg
     ),
     vis!(
         "plane_fraction",
+        "Beam time near galactic plane",
+        "Plane frac.",
+        Fraction,
         "",
         "fraction of the beam's sky track near the galactic plane",
         |v| v.plane_fraction
     ),
     fit!(
         "fit_ok",
+        "Structure fits",
+        "Fits",
+        Flag,
         "",
-        "1 if the target structure fits with every requirement met, else 0"
+        "whether the target structure fits the stated envelope on this DEM"
     ),
     fit!(
         "min_clearance_m",
+        "Smallest ground clearance",
+        "Clearance",
+        Length,
         "m",
         "smallest gap between the placed surface and the ground under it"
     ),
     fit!(
         "headroom_m",
+        "Headroom below the anchors",
+        "Headroom",
+        Length,
         "m",
         "how far the surface could rise before its edge reaches the lowest anchor"
     ),
     fit!(
         "anchor_height_spread_m",
+        "Anchor height spread",
+        "Anchor spread",
+        Length,
         "m",
         "highest minus lowest rim anchor"
     ),
     fit!(
         "max_span_m",
+        "Longest anchor span",
+        "Span",
+        Length,
         "m",
         "longest straight span from a rim anchor to the aperture edge"
     ),
     fit!(
         "excavation_m3",
+        "Excavation volume",
+        "Excav.",
+        Volume,
         "m3",
         "ground to remove to reach the clearance"
     ),
     fit!(
         "offset_from_crater_centre_m",
+        "Offset from crater centre",
+        "Offset",
+        Length,
         "m",
         "distance of the structure's axis from the crater centre"
     ),
@@ -210,6 +373,12 @@ pub static METRICS: &[MetricInfo] = &[
 /// Look a metric up by name.
 pub fn metric(name: &str) -> Option<&'static MetricInfo> {
     METRICS.iter().find(|m| m.name == name)
+}
+
+/// What a person reads for a metric id: its label, or the id itself when it is unknown (a
+/// criteria file may name a metric this build does not have; the validator reports that).
+pub fn label_of(name: &str) -> &str {
+    metric(name).map_or(name, |m| m.label)
 }
 
 #[cfg(test)]
@@ -221,5 +390,24 @@ mod tests {
                 super::metric(m.name).unwrap_or_else(|| panic!("{} missing from METRICS", m.name));
             assert_eq!(ours.unit, m.unit);
         }
+    }
+
+    #[test]
+    fn labels_are_prose_not_ids() {
+        for m in super::METRICS {
+            for text in [m.label, m.short, m.description] {
+                assert!(!text.contains('_'), "{}: {text:?} reads like an id", m.name);
+            }
+        }
+    }
+
+    #[test]
+    fn values_format_with_their_units() {
+        let d = super::metric("diameter_m").unwrap();
+        assert_eq!(d.format(71_317.0), "71.3 km");
+        assert_eq!(d.format(800.0), "800 m");
+        assert_eq!(super::metric("fit_ok").unwrap().format(1.0), "yes");
+        assert_eq!(super::metric("valid_fraction").unwrap().format(0.934), "93 %");
+        assert_eq!(super::metric("depth_to_diameter").unwrap().format(0.1834), "0.183");
     }
 }
