@@ -16,8 +16,11 @@ build: setup
 demo: build
 	@scripts/demo.sh
 
+# The whole suite in debug, then the tests that need release speed: the crater-survey targets
+# on the whole demo patch.
 test: setup
 	$(CARGO) test --workspace --no-fail-fast
+	$(CARGO) test --release -p quietbowl-craters --test demo_accuracy
 
 bench: setup
 	$(CARGO) bench --workspace
