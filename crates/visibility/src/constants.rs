@@ -43,6 +43,12 @@ pub const NODAL_PERIOD_DAYS: f64 = 360.0 / 0.052_992_1;
 /// The IAU rotation model of the Moon (Archinal et al. 2011, Celest. Mech. Dyn. Astron.
 /// 109:101, table 2; unchanged in Archinal et al. 2018). d = days from J2000 TDB,
 /// T = Julian centuries. Angles E1..E13 = base + rate * d, degrees.
+///
+/// Every coefficient below (E1..E13, alpha0, delta0, W) was checked term by term against
+/// NAIF's text kernel pck00010.tpc, which transcribes that table (its E rates are per
+/// century: rate * 36525); the printed table itself from memory. Outside check of the whole
+/// model: `tests/fixtures/lunarsky_reference.json` (JPL DE421 MOON_ME frame), which it
+/// matches to 0.004 deg in the galactic centre's lunar declination over a nodal cycle.
 pub const IAU_MOON_E: [(f64, f64); 13] = [
     (125.045, -0.052_992_1),
     (250.089, -0.105_984_2),
@@ -66,7 +72,7 @@ pub const IAU_MOON_RA_SIN: [f64; 13] = [
 /// Pole declination: d0 + d1 T + sum(coef_i * cos E_i), degrees.
 pub const IAU_MOON_DEC0_DEG: [f64; 2] = [66.5392, 0.0130];
 pub const IAU_MOON_DEC_COS: [f64; 13] = [
-    1.5419, -0.0239, -0.0278, 0.0068, 0.0, -0.0029, 0.0009, 0.0, 0.0, 0.0008, 0.0, 0.0, -0.0009,
+    1.5419, 0.0239, -0.0278, 0.0068, 0.0, -0.0029, 0.0009, 0.0, 0.0, 0.0008, 0.0, 0.0, -0.0009,
 ];
 /// Prime meridian: w0 + w1 d + w2 d^2 + sum(coef_i * sin E_i), degrees.
 pub const IAU_MOON_W_DEG: [f64; 3] = [38.3213, 13.176_358_15, -1.4e-12];
@@ -77,12 +83,15 @@ pub const IAU_MOON_W_SIN: [f64; 13] = [
 
 /// Speed of light, m/s (exact, SI).
 pub const SPEED_OF_LIGHT_M_S: f64 = 299_792_458.0;
-/// Half-power beam width of a uniformly illuminated circular aperture, in units of lambda/D
-/// (Kraus, Antennas, 2nd ed. 1988, ch. 12; from memory).
-pub const HPBW_UNIFORM_LAMBDA_OVER_D: f64 = 1.02;
-/// First null of the Airy pattern, in units of lambda/D (Airy 1835; Born & Wolf, Principles of
-/// Optics, sec. 8.5.2).
-pub const AIRY_FIRST_NULL_LAMBDA_OVER_D: f64 = 1.22;
+/// The far-field power pattern of a uniformly illuminated circular aperture is the Airy
+/// pattern [2 J1(u)/u]^2, u = pi D sin(theta) / lambda (Airy 1835; Born & Wolf, Principles of
+/// Optics, sec. 8.5.2). It falls to one half at u = 1.616340 (from memory; reproduced with
+/// scipy 1.17.1, `tests/fixtures/record_beam_fixture.py`), which makes the half-power width
+/// 1.0290 lambda/D: the "1.02 lambda/D" of antenna handbooks is this figure rounded.
+pub const AIRY_HALF_POWER_U: f64 = 1.616_340;
+/// First zero of J1: the Airy pattern's first null, at sin(theta) = 1.21967 lambda/D
+/// (Abramowitz & Stegun 1964, table 9.5, from memory; reproduced with scipy's `jn_zeros`).
+pub const J1_FIRST_ZERO: f64 = 3.831_706;
 
 /// Half-width of the far-side band used for radio quiet: within this of the 180 meridian
 /// (common practice, no source).

@@ -42,7 +42,8 @@ pub struct EarthMargin {
     pub clearance_sphere_deg: f64,
     /// Smallest central angle to a sub-Earth point, minus 90 degrees.
     pub limb_margin_deg: f64,
-    /// Where the worst case happens: azimuth of the Earth, its upper limb and the skyline there.
+    /// Where the worst case happens: azimuth of the Earth's centre, its upper limb, and the
+    /// lowest skyline over the azimuths its disc spans.
     pub worst_azimuth_deg: f64,
     pub worst_limb_elevation_deg: f64,
     pub worst_horizon_deg: f64,
@@ -66,31 +67,83 @@ fn test_points(env: &LibrationEnvelope, lon_deg: f64, lat_deg: f64) -> (Vec<(f64
     (pts, inside)
 }
 
-/// Which of `n_azimuths` evenly spaced rays the Earth margin reads: the two rays either side
-/// of every azimuth the Earth can stand at (the skyline is interpolated between them).
-pub fn rays_needed(
+/// Half-width in azimuth, degrees, of a disc of angular radius `radius_deg` whose centre stands
+/// at elevation `centre_deg`: asin(sin r / cos e) (the tangents from the zenith to a small
+/// circle, spherical trigonometry); 180 when the disc reaches the zenith.
+pub fn disc_azimuth_half_width_deg(centre_deg: f64, radius_deg: f64) -> f64 {
+    if radius_deg >= 90.0 - centre_deg.abs() {
+        return 180.0;
+    }
+    (radius_deg.to_radians().sin() / centre_deg.to_radians().cos())
+        .clamp(-1.0, 1.0)
+        .asin()
+        .to_degrees()
+}
+
+/// The Earth's disc in a site's sky for one sub-Earth point: the azimuths it spans and its
+/// upper limb.
+struct EarthDisc {
+    theta_deg: f64,
+    centre_azimuth_deg: f64,
+    azimuth_from_deg: f64,
+    azimuth_to_deg: f64,
+    limb_deg: f64,
+}
+
+impl EarthDisc {
+    fn new(site: (f64, f64), p: (f64, f64), d_km: f64, site_height_m: f64) -> Self {
+        let theta_deg = central_angle_rad(site, p).to_degrees();
+        // At the site itself the azimuth is undefined; the disc then spans every azimuth.
+        let az = if theta_deg < 1e-9 {
+            0.0
+        } else {
+            azimuth_deg(site, p)
+        };
+        let (centre, limb) = earth_elevation_deg(theta_deg, d_km, site_height_m);
+        let half = disc_azimuth_half_width_deg(centre, limb - centre);
+        EarthDisc {
+            theta_deg,
+            centre_azimuth_deg: az,
+            azimuth_from_deg: az - half,
+            azimuth_to_deg: az + half,
+            limb_deg: limb,
+        }
+    }
+}
+
+/// Which of `n_sectors` azimuth sectors the Earth margin reads: every sector the Earth's disc
+/// can reach from the site. The disc is widened by 0.01 deg for the site's height, unknown
+/// here (a few km change the Earth's apparent radius by under 1e-4 deg).
+pub fn sectors_needed(
     env: &LibrationEnvelope,
     lon_deg: f64,
     lat_deg: f64,
-    n_azimuths: usize,
+    n_sectors: usize,
 ) -> Vec<bool> {
-    let n = n_azimuths.max(4);
+    const HEIGHT_PAD_DEG: f64 = 0.01;
+    let n = n_sectors.max(4);
     let (pts, inside) = test_points(env, lon_deg, lat_deg);
     if inside {
         return vec![true; n];
     }
+    let w = 360.0 / n as f64;
     let mut wanted = vec![false; n];
     for p in pts {
-        let x = azimuth_deg((lon_deg, lat_deg), p) / 360.0 * n as f64;
-        let i = x.floor() as usize;
-        for k in [0, 1] {
-            wanted[(i + k) % n] = true;
+        let disc = EarthDisc::new((lon_deg, lat_deg), p, env.distance_min_km, 0.0);
+        let k0 = ((disc.azimuth_from_deg - HEIGHT_PAD_DEG) / w + 0.5).floor() as i64;
+        let k1 = ((disc.azimuth_to_deg + HEIGHT_PAD_DEG) / w + 0.5).floor() as i64;
+        if k1 - k0 >= n as i64 - 1 {
+            return vec![true; n];
+        }
+        for k in k0..=k1 {
+            wanted[k.rem_euclid(n as i64) as usize] = true;
         }
     }
     wanted
 }
 
-/// Earth margin of a site with its horizon, over the libration envelope.
+/// Earth margin of a site with its horizon, over the libration envelope: for every sub-Earth
+/// point, the lowest skyline over every azimuth the Earth's disc spans against its upper limb.
 pub fn earth_margin(
     env: &LibrationEnvelope,
     lon_deg: f64,
@@ -112,26 +165,19 @@ pub fn earth_margin(
         inside_envelope: inside,
     };
     for &p in &pts {
-        let theta_deg = central_angle_rad(site, p).to_degrees();
-        // At the site itself the azimuth is undefined; any skyline value bounds it the same way.
-        let az = if theta_deg < 1e-9 {
-            0.0
-        } else {
-            azimuth_deg(site, p)
-        };
-        let (_, limb) = earth_elevation_deg(theta_deg, d_km, horizon.site_height_m);
-        let (_, limb_datum) = earth_elevation_deg(theta_deg, d_km, 0.0);
-        let sky = horizon.at(az);
-        let c = sky - limb;
+        let disc = EarthDisc::new(site, p, d_km, horizon.site_height_m);
+        let (_, limb_datum) = earth_elevation_deg(disc.theta_deg, d_km, 0.0);
+        let sky = horizon.lowest_between(disc.azimuth_from_deg, disc.azimuth_to_deg);
+        let c = sky - disc.limb_deg;
         if c < m.clearance_deg {
             m.clearance_deg = c;
-            m.worst_azimuth_deg = az;
-            m.worst_limb_elevation_deg = limb;
+            m.worst_azimuth_deg = disc.centre_azimuth_deg;
+            m.worst_limb_elevation_deg = disc.limb_deg;
             m.worst_horizon_deg = sky;
         }
         m.clearance_sphere_deg = m.clearance_sphere_deg.min(-limb_datum);
         m.highest_limb_elevation_deg = m.highest_limb_elevation_deg.max(limb_datum);
-        m.limb_margin_deg = m.limb_margin_deg.min(theta_deg - 90.0);
+        m.limb_margin_deg = m.limb_margin_deg.min(disc.theta_deg - 90.0);
     }
     m
 }

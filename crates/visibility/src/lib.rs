@@ -21,7 +21,7 @@ mod report;
 pub mod sky;
 
 pub use earth::{earth_margin, earth_zone_from_site, EarthMargin};
-pub use horizon::{horizon_profile, Horizon, HorizonTerrain};
+pub use horizon::{horizon_profile, Horizon, HorizonSpec, HorizonTerrain, NodataRule};
 pub use libration::{LibrationEnvelope, SubEarthPoint};
 pub use options::{validate_site, VisibilityError, VisibilityOptions};
 pub use report::{EnvelopeSummary, HorizonRow, SiteReport, SiteVisibility, SkySummary, CAUTION};
@@ -43,14 +43,13 @@ fn compute(
     opts: &VisibilityOptions,
 ) -> (SiteVisibility, Horizon, EarthMargin) {
     let env = LibrationEnvelope::standard();
-    let wanted = terrain.map(|_| earth::rays_needed(env, lon_deg, lat_deg, opts.horizon_azimuths));
-    let horizon = Horizon::compute_rays(
+    let wanted =
+        terrain.map(|_| earth::sectors_needed(env, lon_deg, lat_deg, opts.horizon_azimuths));
+    let horizon = Horizon::compute_sectors(
         lon_deg,
         lat_deg,
         terrain,
-        opts.observer_height_m,
-        opts.horizon_max_distance_m,
-        opts.horizon_azimuths,
+        &opts.horizon_spec(opts.horizon_azimuths),
         wanted.as_deref(),
     );
     let margin = earth_margin(env, lon_deg, lat_deg, &horizon);
@@ -164,14 +163,13 @@ pub fn site_report(
     let (v, horizon, earth) = compute(lon_deg, lat_deg, terrain.as_ref(), opts);
     let env = LibrationEnvelope::standard();
     let cycle = PoleCycle::standard();
-    // The table: every 10 deg, read from a 360-ray horizon so it needs no interpolation.
-    let fine = Horizon::compute(
+    // The table: every 10 deg, the 1-degree sector centred there.
+    let fine = Horizon::compute_sectors(
         lon_deg,
         lat_deg,
         terrain.as_ref(),
-        opts.observer_height_m,
-        opts.horizon_max_distance_m,
-        360,
+        &opts.horizon_spec(360),
+        None,
     );
     let horizon_table = (0..36)
         .map(|i| HorizonRow {

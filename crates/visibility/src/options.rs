@@ -1,5 +1,6 @@
 //! Parameters of the visibility computation and the errors they can raise.
 
+use crate::horizon::NodataRule;
 use serde::{Deserialize, Serialize};
 use thiserror::Error;
 
@@ -21,8 +22,12 @@ pub enum VisibilityError {
 pub struct VisibilityOptions {
     /// Terrain beyond this ground distance is not examined, m.
     pub horizon_max_distance_m: f64,
-    /// Rays marched around the site (evenly spaced in azimuth).
+    /// Equal azimuth sectors around the site; each holds the lowest skyline anywhere in it
+    /// (`horizon.rs`), so the sector width only adds caution, never hides a notch.
     pub horizon_azimuths: usize,
+    /// What missing heights on the way to the horizon mean (default: they count against the
+    /// site, as if the hole were a notch).
+    pub horizon_nodata: NodataRule,
     /// Height of the instrument above the ground at the site, m.
     pub observer_height_m: f64,
     /// Half-width of the band about the galactic plane counted in `plane_fraction`, degrees.
@@ -36,13 +41,16 @@ impl Default for VisibilityOptions {
     /// - 250 km of terrain: beyond it a point must stand d^2/(2R) = 18 km above the site to
     ///   reach 0 deg of elevation, more than the Moon's total relief (about 20 km from the
     ///   lowest to the highest point, from memory).
-    /// - 180 rays (every 2 deg): the Earth's disc is 1.9 deg across.
+    /// - 720 sectors (0.5 deg each): the Earth's disc, 1.9-2.1 deg across, is tested against the
+    ///   lowest skyline over every sector it touches, at most 0.5 deg wider on each side.
+    /// - Missing heights count against the site.
     /// - Instrument on the ground; galactic band +-10 deg; a 1 km aperture at 10 MHz. The last
     ///   three are illustrative choices of this project, not from a source.
     fn default() -> Self {
         VisibilityOptions {
             horizon_max_distance_m: 250_000.0,
-            horizon_azimuths: 180,
+            horizon_azimuths: 720,
+            horizon_nodata: NodataRule::CountsAgainst,
             observer_height_m: 0.0,
             plane_band_deg: 10.0,
             aperture_m: 1000.0,
@@ -52,6 +60,16 @@ impl Default for VisibilityOptions {
 }
 
 impl VisibilityOptions {
+    /// The horizon march these options ask for, with `sectors` sectors.
+    pub fn horizon_spec(&self, sectors: usize) -> crate::horizon::HorizonSpec {
+        crate::horizon::HorizonSpec {
+            observer_height_m: self.observer_height_m,
+            max_distance_m: self.horizon_max_distance_m,
+            sectors,
+            nodata: self.horizon_nodata,
+        }
+    }
+
     pub fn validate(&self) -> Result<(), VisibilityError> {
         let bad = |name, value: f64, expected| {
             Err(VisibilityError::InvalidOption {

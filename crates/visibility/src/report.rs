@@ -26,7 +26,8 @@ pub struct SiteVisibility {
     /// `gc_separation_deg` in half-power beam widths of the configured aperture and frequency.
     #[serde(default)]
     pub gc_separation_hpbw: f64,
-    /// Half-power beam width (1.02 lambda/D) of the configured aperture and frequency, degrees.
+    /// Half-power beam width (Airy pattern, about 1.029 lambda/D) of the configured aperture and
+    /// frequency, degrees.
     #[serde(default)]
     pub beam_hpbw_deg: f64,
     /// Height of the observer above the reference sphere, m (0 when no terrain was available).

@@ -6,10 +6,7 @@
 //! month; the axis circles the ecliptic pole every 18.6 years. Over a month the closest approach
 //! to a source at lunar declination delta is |phi - delta| (domain notes sec. 6).
 
-use crate::constants::{
-    AIRY_FIRST_NULL_LAMBDA_OVER_D, HPBW_UNIFORM_LAMBDA_OVER_D, SIDEREAL_MONTH_DAYS,
-    SPEED_OF_LIGHT_M_S,
-};
+use crate::constants::{AIRY_HALF_POWER_U, J1_FIRST_ZERO, SIDEREAL_MONTH_DAYS, SPEED_OF_LIGHT_M_S};
 use crate::frames::{
     apply, dot, j2000_to_galactic, lonlat, transpose, unit, MoonOrientation, Vec3,
 };
@@ -160,14 +157,19 @@ pub fn track_gc_separation_deg(track: &[(f64, f64)]) -> f64 {
         .fold(f64::INFINITY, f64::min)
 }
 
-/// Beam widths of a circular aperture, degrees: (half-power width 1.02 lambda/D for uniform
-/// illumination, Airy first-null radius 1.22 lambda/D).
+/// Beam widths of a uniformly illuminated circular aperture, degrees: (full width at half
+/// power, radius of the first null) of the Airy pattern, 2 asin(1.61634 lambda/(pi D)) and
+/// asin(3.831706 lambda/(pi D)), about 1.029 and 1.220 lambda/D. An aperture too small for a
+/// half-power point or a null gets 180 and 90 deg.
 pub fn beam_widths_deg(aperture_m: f64, frequency_hz: f64) -> (f64, f64) {
-    let lambda_over_d = SPEED_OF_LIGHT_M_S / frequency_hz / aperture_m;
-    (
-        (HPBW_UNIFORM_LAMBDA_OVER_D * lambda_over_d).to_degrees(),
-        (AIRY_FIRST_NULL_LAMBDA_OVER_D * lambda_over_d).to_degrees(),
-    )
+    let lambda_m = SPEED_OF_LIGHT_M_S / frequency_hz;
+    let angle = |u: f64| {
+        (u * lambda_m / (std::f64::consts::PI * aperture_m))
+            .clamp(0.0, 1.0)
+            .asin()
+            .to_degrees()
+    };
+    (2.0 * angle(AIRY_HALF_POWER_U), angle(J1_FIRST_ZERO))
 }
 
 /// One sidereal month, days: the period of a zenith beam's sky circle.

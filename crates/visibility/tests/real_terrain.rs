@@ -19,15 +19,16 @@ fn lola_dir() -> Option<PathBuf> {
 #[test]
 fn daedalus_floor_is_walled_in_on_lola_ldem4() {
     let Some(dir) = lola_dir() else {
-        println!("SKIPPED: LOLA LDEM_4 not found (set QUIETBOWL_LOLA_DIR)");
+        println!("SKIPPED: LOLA LDEM_4.LBL not found (set QUIETBOWL_LOLA_DIR)");
         return;
     };
+    // The product is there: a failure to open it is a failure, not a skip.
     let dem = match Dem::open(dir.join("LDEM_4.LBL"), &OpenOptions::default()) {
         Ok(d) => d,
-        Err(e) => {
-            println!("SKIPPED: LDEM_4 did not open: {e}");
-            return;
-        }
+        Err(e) => panic!(
+            "LDEM_4 is present in {} but did not open: {e}",
+            dir.display()
+        ),
     };
     // Daedalus: 5.9 S, 179.4 E, about 93 km across and about 3 km deep (IAU Gazetteer of
     // Planetary Nomenclature for position and size; depth from memory).

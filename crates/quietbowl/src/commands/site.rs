@@ -3,7 +3,7 @@
 use anyhow::{bail, Context};
 use std::path::PathBuf;
 use terrain::{Dem, OpenOptions};
-use visibility::VisibilityOptions;
+use visibility::{NodataRule, VisibilityOptions};
 
 #[derive(clap::Args)]
 pub struct Args {
@@ -15,6 +15,10 @@ pub struct Args {
     /// Print JSON instead of text.
     #[arg(long)]
     json: bool,
+    /// Read a hole in the DEM on the way to the horizon as no lower than the ground around it
+    /// (by default a hole shields nothing, as if it were a notch).
+    #[arg(long)]
+    horizon_nodata_skip: bool,
 }
 
 fn parse_at(s: &str) -> anyhow::Result<(f64, f64)> {
@@ -39,7 +43,14 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     let (lon, lat) = parse_at(&a.at)?;
     let dem = Dem::open(&a.dem, &OpenOptions::default())
         .with_context(|| format!("reading {}", a.dem.display()))?;
-    let opts = VisibilityOptions::default();
+    let opts = VisibilityOptions {
+        horizon_nodata: if a.horizon_nodata_skip {
+            NodataRule::Skip
+        } else {
+            NodataRule::CountsAgainst
+        },
+        ..VisibilityOptions::default()
+    };
     // Read the terrain around the site out to the horizon distance (or the whole DEM if smaller).
     let g = dem.geometry();
     let (col, row) = g

@@ -32,6 +32,10 @@ pub struct Args {
     /// Leave out the Earth and sky visibility columns.
     #[arg(long)]
     no_visibility: bool,
+    /// Read a hole in the DEM on the way to the horizon as no lower than the ground around it
+    /// (by default a hole shields nothing, as if it were a notch).
+    #[arg(long)]
+    horizon_nodata_skip: bool,
     /// Tile core size in pixels.
     #[arg(long, default_value_t = 2048, value_name = "PX")]
     tile: usize,
@@ -103,6 +107,14 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         },
         detect: !a.catalogue_only,
         visibility: !a.no_visibility,
+        visibility_options: visibility::VisibilityOptions {
+            horizon_nodata: if a.horizon_nodata_skip {
+                visibility::NodataRule::Skip
+            } else {
+                visibility::NodataRule::CountsAgainst
+            },
+            ..visibility::VisibilityOptions::default()
+        },
         open: OpenOptions {
             assume_body_radius_m: a.assume_body_radius,
         },
@@ -110,7 +122,6 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         shard: a.shard,
         checkpoint: (!a.no_checkpoint).then(|| survey::checkpoint::path_beside(&a.out)),
         structure,
-        ..RunOptions::default()
     };
     let cancel = Arc::new(AtomicBool::new(false));
     {
