@@ -44,18 +44,18 @@ pub const DEFAULT_ANCHORS: u32 = 6;
 pub const DEFAULT_MIN_CLEARANCE_M: f64 = 10.0;
 /// 100 m between the highest and lowest anchor (illustrative): about what masts on the low
 /// side of the rim might make up. Crests of kilometre craters on rough highland ground vary by
-/// tens of metres around the rim (the demo's hosts by 13-74 m over six anchors), so a tighter
+/// tens of metres around the rim (the demo's hosts by 17-86 m over six anchors), so a tighter
 /// limit rejects craters for unevenness that masts would absorb.
 pub const DEFAULT_MAX_ANCHOR_HEIGHT_DIFFERENCE_M: f64 = 100.0;
 
 /// Fewest anchors that hold a surface in place.
 pub const MIN_ANCHORS: u32 = 3;
-/// Most anchors the fit lays out. The crater measurement traces the crest at 64 azimuths
-/// (`craters::MeasureOptions::default`), and the crest between them is a straight chord: at 12
-/// anchors each still has five traced azimuths of its own (64 / 12), so its height is read
-/// from the crest as measured. Beyond about 16, neighbouring anchors share chords and their
-/// heights and the rotation search reflect the interpolation more than the rim (common
-/// practice, no source).
+/// Most anchors the fit lays out. The crater measurement traces the crest at 64 azimuths, 5.6
+/// degrees apart (`craters::MeasureOptions::default`), and the crest between them is a straight
+/// chord. At 12 anchors, 30 degrees apart, each spans five traced azimuths; much denser rings
+/// put neighbouring anchors on neighbouring chords, where their heights and the rotation search
+/// read the interpolation between traced azimuths more than the rim (common practice, no
+/// source). The criteria file allows the same range.
 pub const MAX_ANCHORS: u32 = 12;
 
 impl Default for StructureSpec {
