@@ -93,29 +93,17 @@ fn crater_strategy(aperture_m: f64) -> impl Strategy<Value = Crater> {
         prop_oneof![Just(10.0), Just(15.0), Just(20.0)],
         prop::option::of(-0.3..0.1f64),
     )
-        .prop_map(
-            |(
-                radius_m,
-                wall_start_frac,
-                rim_margin_m,
-                tilt,
-                waves,
-                jitter_m,
-                seed,
-                pixel_m,
-                retune_headroom_m,
-            )| Crater {
-                radius_m,
-                wall_start_frac,
-                rim_margin_m,
-                tilt,
-                waves,
-                jitter_m,
-                seed,
-                pixel_m,
-                retune_headroom_m,
-            },
-        )
+        .prop_map(|t| Crater {
+            radius_m: t.0,
+            wall_start_frac: t.1,
+            rim_margin_m: t.2,
+            tilt: t.3,
+            waves: t.4,
+            jitter_m: t.5,
+            seed: t.6,
+            pixel_m: t.7,
+            retune_headroom_m: t.8,
+        })
 }
 
 /// Jitter in [-1, 1] fixed by a position (rounded to 1 cm) and a seed: a hash, not a
