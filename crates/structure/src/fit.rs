@@ -2,7 +2,7 @@
 
 use crate::error::StructureError;
 use crate::patch::Patch;
-use crate::placement::{Ctx, Placement};
+use crate::placement::{Ctx, Placement, SampleKind, CLEARANCE_TOLERANCE_M};
 use crate::result::{Anchor, ClearanceMap, StructureFit};
 use crate::rim::Crest;
 use crate::spec::StructureSpec;
@@ -12,7 +12,7 @@ use terrain::ElevationGrid;
 /// Cells per side of the clearance map kept in the survey file (24 x 24 f32 values, about 3 kB
 /// of JSON a candidate); [`clearance_map`] redraws it finer for a close look.
 pub const CLEARANCE_MAP_CELLS: usize = 24;
-/// The aperture is resolved by at least this many lattice cells across its radius, and the
+/// The aperture radius spans at most this many lattice cells (coarser posts give fewer), and the
 /// lattice never exceeds `MAX_PATCH_NODES` per side, whatever the DEM's posts.
 const MIN_CELLS_PER_RADIUS: f64 = 40.0;
 const MAX_PATCH_NODES: f64 = 401.0;
@@ -32,6 +32,52 @@ pub fn fit(
     crater: &CraterMeasurement,
     spec: &StructureSpec,
 ) -> Result<StructureFit, StructureError> {
+    run(grid, crater, spec, false).map(|d| d.fit)
+}
+
+/// One point where the fit checked the clearance, in the crater's local azimuthal equidistant
+/// frame (x east, y north, metres from the crater centre).
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct ClearanceSample {
+    pub kind: SampleKind,
+    pub x_m: f64,
+    pub y_m: f64,
+    /// Ground height the fit read there (bilinear on the terrain lattice), NaN without data.
+    pub ground_m: f64,
+}
+
+/// A fit with the unrounded numbers its verdict was made on, for checking the verdict.
+#[derive(Clone, Debug)]
+pub struct FitDetail {
+    /// The fit as [`fit`] returns it.
+    pub fit: StructureFit,
+    /// The structure's axis in the crater's local frame, metres.
+    pub axis_xy_m: (f64, f64),
+    pub vertex_height_m: f64,
+    /// Ground height under each anchor, in the order of `fit.anchors` (NaN without data).
+    pub anchor_heights_m: Vec<f64>,
+    /// Every clearance sample of the placement: lattice nodes inside the aperture, the vertex,
+    /// the edge points. The clearance at one is `vertex_height_m + spec.sag_m(r^2) - ground_m`,
+    /// r its distance from the axis.
+    pub samples: Vec<ClearanceSample>,
+}
+
+/// As [`fit`], also returning the clearance samples and the unrounded heights behind the
+/// verdict.
+pub fn fit_with_samples(
+    grid: &ElevationGrid,
+    crater: &CraterMeasurement,
+    spec: &StructureSpec,
+) -> Result<FitDetail, StructureError> {
+    run(grid, crater, spec, true)
+}
+
+fn run(
+    grid: &ElevationGrid,
+    crater: &CraterMeasurement,
+    spec: &StructureSpec,
+    keep_samples: bool,
+) -> Result<FitDetail, StructureError> {
     spec.validate()?;
     let (lon, lat) = (crater.centre_lon_deg, crater.centre_lat_deg);
     if !(lon.is_finite()
@@ -45,6 +91,49 @@ pub fn fit(
         )));
     }
     let crest = Crest::from_measurement(crater)?;
+    let patch = terrain_patch(grid, crater, &crest, spec)?;
+    let mut ctx = Ctx::new(&patch, &crest, spec, crater.diameter_m);
+    let best = ctx.search();
+    if best.vertical.valid == 0 {
+        return Err(StructureError::NoData {
+            lon_deg: lon,
+            lat_deg: lat,
+        });
+    }
+    let samples = if keep_samples {
+        let mut v = Vec::new();
+        ctx.for_samples(best.offset, |kind, x_m, y_m, ground_m, _| {
+            v.push(ClearanceSample {
+                kind,
+                x_m,
+                y_m,
+                ground_m,
+            })
+        });
+        v
+    } else {
+        Vec::new()
+    };
+    let mut out = assemble(&ctx, &best);
+    out.clearance_map = clearance_map(grid, &out, spec, CLEARANCE_MAP_CELLS)?;
+    Ok(FitDetail {
+        axis_xy_m: best.offset,
+        vertex_height_m: best.vertex_m,
+        anchor_heights_m: best.anchors.iter().map(|a| a.height_m).collect(),
+        samples,
+        fit: tidy(out, spec),
+    })
+}
+
+/// The terrain lattice round the crater: at the DEM's posts, coarsened so the aperture radius
+/// spans at most `MIN_CELLS_PER_RADIUS` cells and the lattice at most `MAX_PATCH_NODES` a side.
+fn terrain_patch(
+    grid: &ElevationGrid,
+    crater: &CraterMeasurement,
+    crest: &Crest,
+    spec: &StructureSpec,
+) -> Result<Patch, StructureError> {
+    let (lon, lat) = (crater.centre_lon_deg, crater.centre_lat_deg);
     let a = spec.aperture_radius_m();
     let pixel_m = pixel_size_m(grid, lon, lat)?;
     let half = (1.05 * crest.max_radius_m())
@@ -63,17 +152,7 @@ pub fn fit(
             lat_deg: lat,
         });
     }
-    let mut ctx = Ctx::new(&patch, &crest, spec, crater.diameter_m);
-    let best = ctx.search();
-    if best.vertical.valid == 0 {
-        return Err(StructureError::NoData {
-            lon_deg: lon,
-            lat_deg: lat,
-        });
-    }
-    let mut out = assemble(&ctx, &best);
-    out.clearance_map = clearance_map(grid, &out, spec, CLEARANCE_MAP_CELLS)?;
-    Ok(tidy(out))
+    Ok(patch)
 }
 
 fn pixel_size_m(grid: &ElevationGrid, lon: f64, lat: f64) -> Result<f64, StructureError> {
@@ -99,19 +178,76 @@ fn pixel_size_m(grid: &ElevationGrid, lon: f64, lat: f64) -> Result<f64, Structu
     }
 }
 
+/// Smallest clearance over every sample of the placement, and where it is (local frame);
+/// (NaN, axis) when no sample has data.
+fn lowest_clearance(ctx: &Ctx, p: &Placement) -> (f64, (f64, f64)) {
+    let (mut low, mut at) = (f64::INFINITY, p.offset);
+    ctx.for_samples(p.offset, |_, x, y, g, sag| {
+        let clearance = p.vertex_m + sag - g;
+        if clearance < low {
+            low = clearance;
+            at = (x, y);
+        }
+    });
+    (if low.is_finite() { low } else { f64::NAN }, at)
+}
+
 fn assemble(ctx: &Ctx, p: &Placement) -> StructureFit {
     let frame = &ctx.patch.frame;
     let spec = ctx.spec;
-    let c = spec.min_clearance_m;
     let (clon, clat) = frame.to_lonlat(p.offset.0, p.offset.1);
-    let (mlon, mlat) = frame.to_lonlat(p.vertical.binding_xy.0, p.vertical.binding_xy.1);
-    let min_clearance_m = c - (p.vertical.vertex_lo_m - p.vertex_m).max(0.0);
+    let (min_clearance_m, low_at) = lowest_clearance(ctx, p);
+    let (mlon, mlat) = frame.to_lonlat(low_at.0, low_at.1);
+    let short = min_clearance_m < spec.min_clearance_m - CLEARANCE_TOLERANCE_M;
+    // Digging is reported exactly when the clearance falls short, and never as less than the
+    // file's 1 m3 unit then, so a shortfall never reads as no digging.
+    let excavation_m3 = if short {
+        ctx.excavation_fine_m3(p.offset, p.vertex_m).ceil().max(1.0)
+    } else if p.excavation_m3.is_finite() {
+        0.0
+    } else {
+        f64::NAN
+    };
     let edge_z = p.vertex_m + ctx.edge_sag_m;
-    let anchors: Vec<Anchor> = p
-        .anchors
+    let anchors = placed_anchors(ctx, p, edge_z);
+    let valid_fraction = p.vertical.valid as f64 / p.vertical.total.max(1) as f64;
+    let reasons = verdict(
+        ctx,
+        p,
+        &anchors,
+        valid_fraction,
+        min_clearance_m,
+        excavation_m3,
+    );
+    StructureFit {
+        fit_ok: reasons.is_empty(),
+        reasons,
+        centre_lon_deg: clon,
+        centre_lat_deg: clat,
+        offset_from_crater_centre_m: p.offset.0.hypot(p.offset.1),
+        offset_azimuth_deg: p.offset.0.atan2(p.offset.1).to_degrees().rem_euclid(360.0),
+        rotation_deg: p.rotation_deg,
+        vertex_height_m: p.vertex_m,
+        aperture_edge_height_m: edge_z,
+        min_clearance_m,
+        min_clearance_lon_deg: mlon,
+        min_clearance_lat_deg: mlat,
+        headroom_m: p.headroom_m,
+        anchor_height_spread_m: p.spread_m,
+        max_span_m: p.max_span_m,
+        excavation_m3,
+        aperture_valid_fraction: valid_fraction,
+        anchors,
+        aperture_outline_lonlat: outline(frame, p.offset, ctx.a_m),
+        clearance_map: ClearanceMap::default(),
+    }
+}
+
+fn placed_anchors(ctx: &Ctx, p: &Placement, edge_z: f64) -> Vec<Anchor> {
+    p.anchors
         .iter()
         .map(|a| {
-            let (lon, lat) = frame.to_lonlat(a.x_m, a.y_m);
+            let (lon, lat) = ctx.patch.frame.to_lonlat(a.x_m, a.y_m);
             let span_m = if a.height_m.is_finite() {
                 (a.reach_m - ctx.a_m).hypot(a.height_m - edge_z)
             } else {
@@ -126,9 +262,20 @@ fn assemble(ctx: &Ctx, p: &Placement) -> StructureFit {
                 on_crest: a.on_crest,
             }
         })
-        .collect();
-    let valid_fraction = p.vertical.valid as f64 / p.vertical.total.max(1) as f64;
+        .collect()
+}
 
+/// One sentence per requirement the placement fails; `fit_ok` is their absence.
+fn verdict(
+    ctx: &Ctx,
+    p: &Placement,
+    anchors: &[Anchor],
+    valid_fraction: f64,
+    min_clearance_m: f64,
+    excavation_m3: f64,
+) -> Vec<String> {
+    let spec = ctx.spec;
+    let c = spec.min_clearance_m;
     let mut reasons = Vec::new();
     if p.vertical.intrusion_m > 0.0 {
         reasons.push(format!(
@@ -151,40 +298,28 @@ fn assemble(ctx: &Ctx, p: &Placement) -> StructureFit {
     if valid_fraction < MIN_APERTURE_VALID_FRACTION {
         reasons.push(format!("only {:.0}% of the aperture has elevation data: the clearance over the rest is unknown", 100.0 * valid_fraction));
     }
-    if p.excavation_m3 > 0.0 {
+    if min_clearance_m.is_nan() || min_clearance_m < c - CLEARANCE_TOLERANCE_M {
         reasons.push(format!(
-            "the crater is too shallow: with its edge level with the lowest anchor the surface clears the ground by {min_clearance_m:.1} m, and about {:.0} m3 of ground must be removed to reach {c} m",
-            p.excavation_m3
+            "the crater is too shallow: with its edge level with the lowest anchor the surface clears the ground by {:.2} m, less than the {c} m wanted; about {excavation_m3:.0} m3 of ground would have to be removed",
+            floor_cm(min_clearance_m)
         ));
     }
-    if p.spread_m > spec.max_anchor_height_difference_m {
+    if p.spread_m.is_nan() || p.spread_m > spec.max_anchor_height_difference_m {
         reasons.push(format!(
-            "the anchors' heights differ by {:.1} m, more than the {} m allowed",
-            p.spread_m, spec.max_anchor_height_difference_m
+            "the anchors' heights differ by {:.2} m, more than the {} m allowed",
+            ceil_cm(p.spread_m),
+            spec.max_anchor_height_difference_m
         ));
     }
-    StructureFit {
-        fit_ok: reasons.is_empty(),
-        reasons,
-        centre_lon_deg: clon,
-        centre_lat_deg: clat,
-        offset_from_crater_centre_m: p.offset.0.hypot(p.offset.1),
-        offset_azimuth_deg: p.offset.0.atan2(p.offset.1).to_degrees().rem_euclid(360.0),
-        rotation_deg: p.rotation_deg,
-        vertex_height_m: p.vertex_m,
-        aperture_edge_height_m: edge_z,
-        min_clearance_m,
-        min_clearance_lon_deg: mlon,
-        min_clearance_lat_deg: mlat,
-        headroom_m: p.headroom_m,
-        anchor_height_spread_m: p.spread_m,
-        max_span_m: p.max_span_m,
-        excavation_m3: p.excavation_m3,
-        aperture_valid_fraction: valid_fraction,
-        anchors,
-        aperture_outline_lonlat: outline(frame, p.offset, ctx.a_m),
-        clearance_map: ClearanceMap::default(),
-    }
+    reasons
+}
+
+fn floor_cm(v: f64) -> f64 {
+    (v * 100.0).floor() / 100.0
+}
+
+fn ceil_cm(v: f64) -> f64 {
+    (v * 100.0).ceil() / 100.0
 }
 
 /// Closed ring, counter-clockwise on a north-up map (azimuth decreasing), continuous in longitude.
@@ -250,8 +385,12 @@ pub fn clearance_map(
 }
 
 /// Round for a compact, stable file: degrees to 1e-7 (3 mm on the Moon), metres to 1 cm,
-/// volumes to 1 m3, the clearance map to 1 cm.
-fn tidy(mut f: StructureFit) -> StructureFit {
+/// volumes to 1 m3, the clearance map to 1 cm. The two figures the verdict compares with the
+/// spec are rounded towards the verdict, so the file never shows a failing clearance or spread
+/// as meeting the spec, nor a passing one as missing it: a clearance short of the spec is
+/// rounded down and one meeting it never below the spec's value; an anchor spread over the
+/// limit is rounded up and one within it never above the limit.
+fn tidy(mut f: StructureFit, spec: &StructureSpec) -> StructureFit {
     let deg = |v: f64| (v * 1e7).round() / 1e7;
     let m = |v: f64| (v * 100.0).round() / 100.0;
     f.centre_lon_deg = deg(f.centre_lon_deg);
@@ -263,9 +402,19 @@ fn tidy(mut f: StructureFit) -> StructureFit {
     f.rotation_deg = m(f.rotation_deg);
     f.vertex_height_m = m(f.vertex_height_m);
     f.aperture_edge_height_m = m(f.aperture_edge_height_m);
-    f.min_clearance_m = m(f.min_clearance_m);
+    let c = spec.min_clearance_m;
+    f.min_clearance_m = if f.min_clearance_m >= c - CLEARANCE_TOLERANCE_M {
+        m(f.min_clearance_m).max(c)
+    } else {
+        floor_cm(f.min_clearance_m)
+    };
     f.headroom_m = m(f.headroom_m);
-    f.anchor_height_spread_m = m(f.anchor_height_spread_m);
+    let limit = spec.max_anchor_height_difference_m;
+    f.anchor_height_spread_m = if f.anchor_height_spread_m <= limit {
+        m(f.anchor_height_spread_m).min(limit)
+    } else {
+        ceil_cm(f.anchor_height_spread_m)
+    };
     f.max_span_m = m(f.max_span_m);
     f.excavation_m3 = f.excavation_m3.round();
     f.aperture_valid_fraction = (f.aperture_valid_fraction * 1e4).round() / 1e4;

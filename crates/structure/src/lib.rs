@@ -18,12 +18,16 @@
 //!    lowest anchor: then it hangs with its edge level with that anchor and the ground still
 //!    within the clearance is reported as excavation.
 //! 3. Placements are ranked in order: aperture inside the crest; anchors on traced crest;
-//!    least excavation; anchor height spread within the limit; most headroom (how far the
-//!    surface could rise before its edge reaches the lowest anchor); shortest longest span;
-//!    smallest offset. A coarse grid over offsets within a quarter diameter and eight rotations
-//!    per anchor period seeds a compass search ([`placement`]).
-//! 4. `fit_ok` requires the first four to hold and 95% of the aperture to have data; each
-//!    failure adds a reason.
+//!    clearance met at every sample; least excavation; anchor height spread within the limit;
+//!    most headroom (how far the surface could rise before its edge reaches the lowest
+//!    anchor); shortest longest span; smallest offset. A coarse grid over offsets within a
+//!    quarter diameter and eight rotations per anchor period seeds a compass search
+//!    ([`placement`]).
+//! 4. `fit_ok` requires the first five to hold and 95% of the aperture to have data; each
+//!    failure adds a reason. The clearance requirement reads every sample (lattice nodes,
+//!    vertex, edge points) of the surface as hung over the ground as it is, within
+//!    [`CLEARANCE_TOLERANCE_M`] of round-off: excavation is the remedy the fit prices, not a
+//!    repair it assumes, so a fit that needs any digging is not `fit_ok`.
 //!
 //! Limits: a rigid, axis-vertical surface; ground known only at the DEM's posts (features
 //! smaller than a post are invisible, so the clearance should cover the DEM's vertical and
@@ -39,7 +43,10 @@ pub mod rim;
 mod spec;
 
 pub use error::StructureError;
-pub use fit::{clearance_map, fit, CLEARANCE_MAP_CELLS};
+pub use fit::{
+    clearance_map, fit, fit_with_samples, ClearanceSample, FitDetail, CLEARANCE_MAP_CELLS,
+};
+pub use placement::{SampleKind, CLEARANCE_TOLERANCE_M};
 pub use result::{Anchor, ClearanceMap, FitMetric, StructureFit, FIT_METRICS};
 pub use spec::{
     Shape, StructureSpec, DEFAULT_ANCHORS, DEFAULT_APERTURE_M, DEFAULT_F_OVER_D,

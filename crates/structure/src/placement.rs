@@ -10,9 +10,9 @@
 //! hangs at vertex_hi and the ground that still stands within c of it must be dug away.
 //!
 //! Placements are compared in order (the first that differs decides): the aperture inside the
-//! crest, every anchor on a traced crest, least excavation, anchor height spread within the
-//! limit (left out when no placement meets it), largest headroom, shortest longest span,
-//! smallest offset. A grid over offsets within
+//! crest, every anchor on a traced crest, the clearance met at every sample, least excavation,
+//! anchor height spread within the limit (left out when no placement meets it), largest
+//! headroom, shortest longest span, smallest offset. A grid over offsets within
 //! a quarter diameter of the crater centre and eight rotations per anchor period seeds a
 //! compass search (Torczon 1997, SIAM J. Optim. 7:1, pattern search) on offset and rotation.
 
@@ -27,6 +27,25 @@ pub const MAX_OFFSET_FRAC: f64 = 0.25;
 const COARSE_OFFSET_STEPS: i32 = 4;
 const COARSE_ROTATIONS: usize = 8;
 const MAX_ITERATIONS: usize = 200;
+/// Round-off allowed when comparing a clearance with the spec's: heights are f64 metres of a
+/// few thousand, whose last bit is about 1e-12 m, so 1e-6 m is pure arithmetic slack and far
+/// below anything a DEM resolves.
+pub const CLEARANCE_TOLERANCE_M: f64 = 1e-6;
+/// The reported excavation samples each lattice cell on sub-cells no wider than this (up to
+/// `MAX_SUBCELLS` a side), so that a shortfall narrower than a DEM post still shows a volume.
+const EXCAVATION_SUBCELL_M: f64 = 1.0;
+const MAX_SUBCELLS: f64 = 16.0;
+
+/// Which kind of point a clearance sample is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum SampleKind {
+    /// A node of the terrain lattice inside the aperture.
+    Lattice,
+    /// The point under the vertex (the axis).
+    Vertex,
+    /// One of the `EDGE_POINTS` points on the aperture edge.
+    Edge,
+}
 
 /// The offset (east, north) of the last excavation asked for, and its nodes' (ground +
 /// clearance, sag) pairs.
@@ -146,10 +165,36 @@ impl<'a> Ctx<'a> {
         }
     }
 
+    /// Calls `f(kind, x, y, ground, sag)` for every point where the clearance is checked at
+    /// offset `d`: the lattice nodes inside the aperture (in lattice order), the vertex, then the
+    /// edge points. Ground is NaN where there is no data. The vertex and the edge rarely fall on
+    /// lattice nodes, and either may be where the clearance binds (a level floor, a bowl more
+    /// curved than the dish).
+    pub fn for_samples(&self, d: (f64, f64), mut f: impl FnMut(SampleKind, f64, f64, f64, f64)) {
+        self.for_nodes(d, |x, y, g, sag| f(SampleKind::Lattice, x, y, g, sag));
+        f(
+            SampleKind::Vertex,
+            d.0,
+            d.1,
+            self.patch.sample(d.0, d.1),
+            0.0,
+        );
+        for u in &self.edge_dirs {
+            let (x, y) = (d.0 + self.a_m * u.0, d.1 + self.a_m * u.1);
+            f(
+                SampleKind::Edge,
+                x,
+                y,
+                self.patch.sample(x, y),
+                self.edge_sag_m,
+            );
+        }
+    }
+
     pub fn vertical(&self, d: (f64, f64)) -> Vertical {
         let c = self.spec.min_clearance_m;
         let (mut lo, mut at, mut valid, mut total) = (f64::NEG_INFINITY, d, 0, 0);
-        self.for_nodes(d, |x, y, g, sag| {
+        self.for_samples(d, |_, x, y, g, sag| {
             total += 1;
             if g.is_finite() {
                 valid += 1;
@@ -159,25 +204,6 @@ impl<'a> Ctx<'a> {
                 }
             }
         });
-        // The vertex and the edge rarely fall on lattice nodes, and either may be where the
-        // clearance binds (a level floor, a bowl more curved than the dish).
-        let extra = std::iter::once((d, 0.0)).chain(self.edge_dirs.iter().map(|u| {
-            (
-                (d.0 + self.a_m * u.0, d.1 + self.a_m * u.1),
-                self.edge_sag_m,
-            )
-        }));
-        for ((x, y), sag) in extra {
-            let g = self.patch.sample(x, y);
-            total += 1;
-            if g.is_finite() {
-                valid += 1;
-                if g + c - sag > lo {
-                    lo = g + c - sag;
-                    at = (x, y);
-                }
-            }
-        }
         let intrusion_m = (self.a_m - self.crest.signed_distance_m(d)).max(0.0);
         Vertical {
             vertex_lo_m: if valid > 0 { lo } else { f64::NAN },
@@ -219,7 +245,10 @@ impl<'a> Ctx<'a> {
             .collect()
     }
 
-    /// Ground to remove so the surface with its vertex at `vertex_m` clears it by c, m^3.
+    /// Ground to remove so the surface with its vertex at `vertex_m` clears it by c, m^3, as the
+    /// search ranks it: one sample per lattice node (midpoint rule on the lattice cells). It
+    /// misses a shortfall narrower than a cell; [`Ctx::excavation_fine_m3`] gives the reported
+    /// figure.
     pub fn excavation_m3(&self, d: (f64, f64), vertex_m: f64) -> f64 {
         let c = self.spec.min_clearance_m;
         let mut cache = self.excavation_nodes.borrow_mut();
@@ -242,6 +271,63 @@ impl<'a> Ctx<'a> {
         v * self.patch.cell_m * self.patch.cell_m
     }
 
+    /// The excavation reported for the chosen placement: the midpoint rule over the aperture
+    /// on sub-cells of at most `EXCAVATION_SUBCELL_M`, on the bilinear ground between lattice
+    /// nodes (the ground every clearance sample reads), so a shortfall at the vertex or the edge
+    /// between two nodes is counted. Cells where no point can fall short are skipped whole: the
+    /// ground in a cell is at most its highest corner and the sag at least its value at the
+    /// cell's point nearest the axis (sag grows with the distance from the axis).
+    pub fn excavation_fine_m3(&self, d: (f64, f64), vertex_m: f64) -> f64 {
+        let (c, a2) = (self.spec.min_clearance_m, self.a_m * self.a_m);
+        let p = self.patch;
+        let h = p.cell_m;
+        let k = (h / EXCAVATION_SUBCELL_M).ceil().clamp(1.0, MAX_SUBCELLS) as usize;
+        let sub = h / k as f64;
+        let (i0, i1) = self.span(d.0, self.a_m);
+        let (j0, j1) = self.span(d.1, self.a_m);
+        // Cells are named by their south-west node; those holding any of the aperture.
+        let cells = |lo: usize, hi: usize| lo.saturating_sub(1)..hi.min(p.n - 1);
+        let mut v = 0.0;
+        for j in cells(j0, j1) {
+            for i in cells(i0, i1) {
+                let n0 = j * p.n + i;
+                let z = [
+                    p.heights_m[n0],
+                    p.heights_m[n0 + 1],
+                    p.heights_m[n0 + p.n],
+                    p.heights_m[n0 + p.n + 1],
+                ];
+                if z.iter().any(|g| !g.is_finite()) {
+                    continue;
+                }
+                let (x0, y0) = p.node_xy(i, j);
+                let near = (d.0.clamp(x0, x0 + h) - d.0, d.1.clamp(y0, y0 + h) - d.1);
+                let near2 = near.0 * near.0 + near.1 * near.1;
+                let top = z.iter().fold(f64::NEG_INFINITY, |m, &g| m.max(g));
+                if near2 > a2 || top + c - vertex_m - self.spec.sag_m(near2) <= 0.0 {
+                    continue;
+                }
+                for sj in 0..k {
+                    let t = (sj as f64 + 0.5) / k as f64;
+                    for si in 0..k {
+                        let s = (si as f64 + 0.5) / k as f64;
+                        let (x, y) = (x0 + s * h, y0 + t * h);
+                        let r2 = (x - d.0).powi(2) + (y - d.1).powi(2);
+                        if r2 > a2 {
+                            continue;
+                        }
+                        let g = z[0] * (1.0 - s) * (1.0 - t)
+                            + z[1] * s * (1.0 - t)
+                            + z[2] * (1.0 - s) * t
+                            + z[3] * s * t;
+                        v += (g + c - vertex_m - self.spec.sag_m(r2)).max(0.0);
+                    }
+                }
+            }
+        }
+        v * sub * sub
+    }
+
     pub fn score(&self, d: (f64, f64), rotation_deg: f64, vertical: Vertical) -> Placement {
         let anchors = self.anchors(d, rotation_deg);
         let heights: Vec<f64> = anchors
@@ -260,6 +346,9 @@ impl<'a> Ctx<'a> {
             (vertical.vertex_lo_m, f64::INFINITY)
         } else if headroom_m >= 0.0 {
             (vertical.vertex_lo_m, 0.0)
+        } else if headroom_m >= -CLEARANCE_TOLERANCE_M {
+            // Short by round-off only: nothing to dig.
+            (vertex_hi, 0.0)
         } else {
             (vertex_hi, self.excavation_m3(d, vertex_hi))
         };
@@ -288,7 +377,7 @@ impl<'a> Ctx<'a> {
     }
 
     /// Keys in order of importance, smaller is better; NaN counts as worst.
-    fn keys(&self, p: &Placement) -> [f64; 7] {
+    fn keys(&self, p: &Placement) -> [f64; 8] {
         let w = |v: f64| if v.is_nan() { f64::INFINITY } else { v };
         let spread_excess = if self.rank_spread {
             w((p.spread_m - self.spec.max_anchor_height_difference_m).max(0.0))
@@ -298,6 +387,12 @@ impl<'a> Ctx<'a> {
         [
             w(p.vertical.intrusion_m),
             p.bad_anchors as f64,
+            // A shortfall at a vertex or edge sample may leave no lattice node to dig under.
+            if p.headroom_m < -CLEARANCE_TOLERANCE_M {
+                1.0
+            } else {
+                0.0
+            },
             w(p.excavation_m3),
             spread_excess,
             w(-p.headroom_m),
@@ -309,9 +404,9 @@ impl<'a> Ctx<'a> {
     /// Lexicographic comparison with a small tolerance on each key, so that round-off in one
     /// key does not hide a real difference in the next.
     pub fn better(&self, a: &Placement, b: &Placement) -> bool {
-        const TOL: [f64; 7] = [1e-6, 0.5, 1e-3, 1e-6, 1e-6, 1e-6, 1e-9];
+        const TOL: [f64; 8] = [1e-6, 0.5, 0.5, 1e-3, 1e-6, 1e-6, 1e-6, 1e-9];
         let (ka, kb) = (self.keys(a), self.keys(b));
-        for i in 0..7 {
+        for i in 0..TOL.len() {
             if ka[i] == kb[i] || (ka[i] - kb[i]).abs() <= TOL[i] {
                 continue;
             }

@@ -44,13 +44,19 @@ pub const DEFAULT_ANCHORS: u32 = 6;
 pub const DEFAULT_MIN_CLEARANCE_M: f64 = 10.0;
 /// 100 m between the highest and lowest anchor (illustrative): about what masts on the low
 /// side of the rim might make up. Crests of kilometre craters on rough highland ground vary by
-/// tens of metres around the rim (the demo's hosts by 13-74 m over six anchors), so a tighter
+/// tens of metres around the rim (the demo's hosts by 17-86 m over six anchors), so a tighter
 /// limit rejects craters for unevenness that masts would absorb.
 pub const DEFAULT_MAX_ANCHOR_HEIGHT_DIFFERENCE_M: f64 = 100.0;
 
-/// Fewest anchors that hold a surface in place; the most this crate lays out.
+/// Fewest anchors that hold a surface in place.
 pub const MIN_ANCHORS: u32 = 3;
-pub const MAX_ANCHORS: u32 = 64;
+/// Most anchors the fit lays out. The crater measurement traces the crest at 64 azimuths, 5.6
+/// degrees apart (`craters::MeasureOptions::default`), and the crest between them is a straight
+/// chord. At 12 anchors, 30 degrees apart, each spans five traced azimuths; much denser rings
+/// put neighbouring anchors on neighbouring chords, where their heights and the rotation search
+/// read the interpolation between traced azimuths more than the rim (common practice, no
+/// source). The criteria file allows the same range.
+pub const MAX_ANCHORS: u32 = 12;
 
 impl Default for StructureSpec {
     fn default() -> Self {
@@ -68,7 +74,8 @@ impl Default for StructureSpec {
 
 impl StructureSpec {
     /// Check every number before a fit: positive sizes, a cap at least as wide as the aperture,
-    /// 3 to 64 anchors, non-negative clearance and anchor height difference.
+    /// [`MIN_ANCHORS`] to [`MAX_ANCHORS`] anchors, non-negative clearance and anchor height
+    /// difference.
     pub fn validate(&self) -> Result<(), StructureError> {
         let bad = |m: String| Err(StructureError::Spec(m));
         let pos = |v: f64| v.is_finite() && v > 0.0;
@@ -173,5 +180,23 @@ mod tests {
             ..Default::default()
         };
         assert!(nan.validate().is_err());
+    }
+
+    #[test]
+    fn anchor_count_is_accepted_from_3_to_12_and_refused_just_outside() {
+        // The documented range (docs/structure-fit.md, docs/siting.md): 3 to 12.
+        let with = |anchors| StructureSpec {
+            anchors,
+            ..Default::default()
+        };
+        for ok in [3, 12] {
+            with(ok).validate().expect("inside the range");
+        }
+        for bad in [2, 13] {
+            assert!(
+                matches!(with(bad).validate(), Err(StructureError::Spec(m)) if m.contains("between 3 and 12")),
+                "{bad} anchors accepted"
+            );
+        }
     }
 }
