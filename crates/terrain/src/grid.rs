@@ -6,6 +6,10 @@ use crate::projection::MapProjection;
 use serde::{Deserialize, Serialize};
 use std::sync::Arc;
 
+/// How far (in pixels) the columns of a grid may miss spanning exactly 360 deg and still count
+/// as global: see [`GridGeometry::wrap_width_px`].
+const WRAP_TOLERANCE_PX: f64 = 0.01;
+
 /// The georeferencing of a whole raster: size, affine geotransform (GDAL order), projection and
 /// the radius of the reference sphere heights are measured from.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -78,21 +82,58 @@ impl GridGeometry {
 
     /// Fractional pixel position (pixel-corner convention) of a lon/lat. For grids that wrap in
     /// longitude (geographic, equirectangular) the longitude is shifted by whole turns so that a
-    /// 0..360 grid finds -170 at 190 and a -180..180 grid finds 190 at -170.
+    /// 0..360 grid finds -170 at 190 and a -180..180 grid finds 190 at -170. The turn chosen puts
+    /// the column in the half-open span of one turn centred on the grid, so on a global grid
+    /// every longitude lands on a pixel: the seam belongs to the first column, not past the last.
     pub fn lonlat_to_pixel(&self, lon_deg: f64, lat_deg: f64) -> Option<(f64, f64)> {
         let (x, y) = self
             .projection
             .forward(self.body_radius_m, lon_deg, lat_deg)?;
         let (mut col, row) = self.map_to_pixel(x, y)?;
-        if let Some(period) = self.projection.x_period(self.body_radius_m) {
-            let period_px = period / self.geotransform[1].abs();
-            if period_px.is_finite() && period_px > 0.0 {
-                // Bring col into [-(period - width)/2, width + ...): choose the shift nearest the grid.
-                let centre = self.width as f64 / 2.0;
-                col -= ((col - centre) / period_px).round() * period_px;
-            }
+        if let Some(period_px) = self.turn_px() {
+            let centre = self.width as f64 / 2.0;
+            col -= ((col - centre) / period_px + 0.5).floor() * period_px;
         }
         Some((col, row))
+    }
+
+    /// Columns per turn of longitude on grids whose map x wraps around the body: exactly the
+    /// raster width on a global grid ([`GridGeometry::wrap_width_px`]), so lookups and wrapped
+    /// reads agree to the column; otherwise the projection's period over the pixel size.
+    fn turn_px(&self) -> Option<f64> {
+        if let Some(w) = self.wrap_width_px() {
+            return Some(w as f64);
+        }
+        let period = self.projection.x_period(self.body_radius_m)?;
+        let period_px = period / self.geotransform[1].abs();
+        (period_px.is_finite() && period_px > 0.0).then_some(period_px)
+    }
+
+    /// The raster width when its columns span one whole turn of longitude (a global grid,
+    /// whether it counts 0..360 or -180..180), so that column `width` is column 0 again and a
+    /// window may be read across the seam; `None` for any other grid.
+    ///
+    /// "Whole turn" allows a hundredth of a pixel: products derive the geotransform from a
+    /// rounded map scale (LDEM_4's label gives 7580.84 m, which spans 360 deg to 5e-4 px).
+    pub fn wrap_width_px(&self) -> Option<usize> {
+        let g = &self.geotransform;
+        if g[2] != 0.0 || g[4] != 0.0 || self.width == 0 {
+            return None;
+        }
+        let period = self.projection.x_period(self.body_radius_m)?;
+        let span_px = period / g[1].abs();
+        ((span_px - self.width as f64).abs() <= WRAP_TOLERANCE_PX).then_some(self.width)
+    }
+
+    /// The same raster with its column origin moved `shift_cols` columns east: column c of the
+    /// result is column c + `shift_cols` of this one (taken modulo the width on a global grid).
+    /// Used to give a window read across a global grid's seam a geometry in which the whole
+    /// window lies within one turn.
+    pub fn shifted_by_columns(&self, shift_cols: isize) -> GridGeometry {
+        let mut g = self.clone();
+        g.geotransform[0] += shift_cols as f64 * g.geotransform[1];
+        g.geotransform[3] += shift_cols as f64 * g.geotransform[4];
+        g
     }
 
     /// Ground size of one pixel in metres (east-west, north-south) at the given pixel, measured
@@ -118,8 +159,11 @@ impl GridGeometry {
 #[derive(Clone, Debug)]
 pub struct ElevationGrid {
     pub geometry: Arc<GridGeometry>,
-    /// Position of this window's first column and row in the whole raster; negative when the
-    /// window (with its halo) starts before the raster edge, the missing part being NaN.
+    /// Position of this window's first column and row in `geometry`; negative when the window
+    /// (with its halo) starts before the raster edge. Beyond the edge the heights are NaN,
+    /// except across the seam of a global grid, where the columns wrap and `geometry` is the
+    /// raster's with its column origin moved ([`GridGeometry::shifted_by_columns`]) so that
+    /// the whole window lies within one turn and lon/lat lookups land inside it.
     pub col0: isize,
     pub row0: isize,
     pub width: usize,

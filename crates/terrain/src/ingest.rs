@@ -302,7 +302,11 @@ impl Dem {
 
     /// Read a window of heights. Parts of the window outside the raster come back as NaN, so a
     /// window with a halo can be asked for at any position (for neighbourhood operations at the
-    /// edges). Fails only if the window misses the raster entirely or GDAL cannot read it.
+    /// edges); on a global grid ([`GridGeometry::wrap_width_px`]) the columns instead wrap
+    /// across the seam: the pieces on either side are read through GDAL and joined, and the
+    /// window's geometry is moved to keep it within one turn (see [`ElevationGrid::col0`]).
+    /// Rows beyond the poles stay NaN. Fails only if the window misses the raster entirely or
+    /// GDAL cannot read it.
     pub fn read_window(
         &self,
         col: isize,
@@ -310,69 +314,98 @@ impl Dem {
         width: usize,
         height: usize,
     ) -> Result<ElevationGrid, TerrainError> {
-        let (rw, rh) = (self.info.width as isize, self.info.height as isize);
-        let outside = || TerrainError::WindowOutside {
-            col,
-            row,
-            width,
-            height,
-            raster_width: self.info.width,
-            raster_height: self.info.height,
-        };
-        if width == 0 || height == 0 {
-            return Err(outside());
+        let rh = self.info.height as isize;
+        let wrap_px = self.geometry.wrap_width_px();
+        let pieces = column_pieces(col, width, self.info.width, wrap_px);
+        let (r0, r1) = (row.max(0), (row + height as isize).min(rh));
+        if height == 0 || pieces.is_empty() || r0 >= r1 {
+            return Err(TerrainError::WindowOutside {
+                col,
+                row,
+                width,
+                height,
+                raster_width: self.info.width,
+                raster_height: self.info.height,
+            });
         }
-        let (c0, r0) = (col.max(0), row.max(0));
-        let (c1, r1) = (
-            (col + width as isize).min(rw),
-            (row + height as isize).min(rh),
-        );
-        if c0 >= c1 || r0 >= r1 {
-            return Err(outside());
-        }
-        let (iw, ih) = ((c1 - c0) as usize, (r1 - r0) as usize);
+        let ih = (r1 - r0) as usize;
         let mut heights_m = vec![f32::NAN; width * height];
-        let (dst_r0, dst_c0) = ((r0 - row) as usize, (c0 - col) as usize);
-        // A large window is read as bands of rows, each through its own handle and converted on
-        // its own thread; a small one in one go.
-        let bands = if iw * ih >= PARALLEL_READ_MIN_PX {
-            rayon::current_num_threads().clamp(1, 8)
-        } else {
-            1
-        };
-        let band_rows = ih.div_ceil(bands);
-        let dst = &mut heights_m[dst_r0 * width..(dst_r0 + ih) * width];
-        let read_band = |k: usize, dst: &mut [f32]| -> Result<(), TerrainError> {
-            let (band_r0, band_h) = (r0 + (k * band_rows) as isize, dst.len() / width);
-            if self.f32_exact {
-                // Every value of the band's type is an f32: GDAL hands over half the bytes and
-                // the heights come out bit-identical to the f64 path.
-                let mut raw = vec![0f32; iw * band_h];
-                self.read_raw(c0, band_r0, iw, band_h, &mut raw)?;
-                self.convert_rows(&raw, iw, band_h, dst, width, 0, dst_c0);
-            } else {
-                let mut raw = vec![0f64; iw * band_h];
-                self.read_raw(c0, band_r0, iw, band_h, &mut raw)?;
-                self.convert_rows(&raw, iw, band_h, dst, width, 0, dst_c0);
+        let dst_r0 = (r0 - row) as usize;
+        let read_px: usize = pieces.iter().map(|p| p.width * ih).sum();
+        self.read_rows_into(
+            &pieces,
+            r0,
+            &mut heights_m[dst_r0 * width..(dst_r0 + ih) * width],
+            width,
+            read_px >= PARALLEL_READ_MIN_PX,
+        )?;
+        // A window reaching across the seam gets the raster's geometry turned so that the
+        // window's middle column is the middle of the turn: every lon/lat in it then maps to
+        // one column inside it (the raster's own geometry would send half of it a turn away).
+        let seam_shift = match wrap_px {
+            Some(w) if col < 0 || col + width as isize > w as isize => {
+                Some(col + (width / 2) as isize - (w / 2) as isize)
             }
-            Ok(())
+            _ => None,
         };
-        if bands == 1 {
-            read_band(0, dst)?;
-        } else {
-            use rayon::prelude::*;
-            dst.par_chunks_mut(band_rows * width)
-                .enumerate()
-                .try_for_each(|(k, d)| read_band(k, d))?;
-        }
+        let (geometry, col0) = match seam_shift {
+            Some(s) => (Arc::new(self.geometry.shifted_by_columns(s)), col - s),
+            None => (self.geometry.clone(), col),
+        };
         Ok(ElevationGrid {
-            geometry: self.geometry.clone(),
-            col0: col,
+            geometry,
+            col0,
             row0: row,
             width,
             height,
             heights_m,
         })
+    }
+
+    /// Read raster rows `r0..` (as many as `dst` holds rows of `width`) of each column piece
+    /// into `dst`. With `parallel`, as bands of rows, each through its own handle and
+    /// converted on its own thread.
+    fn read_rows_into(
+        &self,
+        pieces: &[ColumnPiece],
+        r0: isize,
+        dst: &mut [f32],
+        width: usize,
+        parallel: bool,
+    ) -> Result<(), TerrainError> {
+        let ih = dst.len() / width;
+        let bands = if parallel {
+            rayon::current_num_threads().clamp(1, 8)
+        } else {
+            1
+        };
+        let band_rows = ih.div_ceil(bands);
+        let read_band = |k: usize, dst: &mut [f32]| -> Result<(), TerrainError> {
+            let (band_r0, band_h) = (r0 + (k * band_rows) as isize, dst.len() / width);
+            for p in pieces {
+                let (c0, iw) = (p.src_col as isize, p.width);
+                if self.f32_exact {
+                    // Every value of the band's type is an f32: GDAL hands over half the bytes
+                    // and the heights come out bit-identical to the f64 path.
+                    let mut raw = vec![0f32; iw * band_h];
+                    self.read_raw(c0, band_r0, iw, band_h, &mut raw)?;
+                    self.convert_rows(&raw, iw, band_h, dst, width, 0, p.dst_col);
+                } else {
+                    let mut raw = vec![0f64; iw * band_h];
+                    self.read_raw(c0, band_r0, iw, band_h, &mut raw)?;
+                    self.convert_rows(&raw, iw, band_h, dst, width, 0, p.dst_col);
+                }
+            }
+            Ok(())
+        };
+        if bands == 1 {
+            read_band(0, dst)
+        } else {
+            use rayon::prelude::*;
+            dst.par_chunks_mut(band_rows * width)
+                .enumerate()
+                .try_for_each(|(k, d)| read_band(k, d))
+        }
     }
 
     fn read_raw<T: gdal::raster::GdalType + Copy>(
@@ -569,6 +602,56 @@ impl Dem {
             max_m: (valid > 0).then_some(hi),
             valid_fraction: valid as f64 / total.max(1) as f64,
         })
+    }
+}
+
+/// A run of raster columns `src_col..src_col + width` that lands at window column `dst_col`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+struct ColumnPiece {
+    src_col: usize,
+    width: usize,
+    dst_col: usize,
+}
+
+/// The raster columns that fill window columns `col..col + width`: the part inside the raster
+/// (one piece, or none), or on a global grid of `wrap_px` columns every window column, taken
+/// modulo the width (a piece per stretch between seams).
+fn column_pieces(
+    col: isize,
+    width: usize,
+    raster_width: usize,
+    wrap_px: Option<usize>,
+) -> Vec<ColumnPiece> {
+    match wrap_px {
+        Some(w) if w > 0 => {
+            let mut pieces = Vec::new();
+            let mut dst_col = 0;
+            while dst_col < width {
+                let src_col = (col + dst_col as isize).rem_euclid(w as isize) as usize;
+                let n = (w - src_col).min(width - dst_col);
+                pieces.push(ColumnPiece {
+                    src_col,
+                    width: n,
+                    dst_col,
+                });
+                dst_col += n;
+            }
+            pieces
+        }
+        _ => {
+            let (c0, c1) = (
+                col.max(0),
+                (col + width as isize).min(raster_width as isize),
+            );
+            if c0 >= c1 {
+                return Vec::new();
+            }
+            vec![ColumnPiece {
+                src_col: c0 as usize,
+                width: (c1 - c0) as usize,
+                dst_col: (c0 - col) as usize,
+            }]
+        }
     }
 }
 

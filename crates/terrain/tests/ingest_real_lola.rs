@@ -79,14 +79,22 @@ fn lola_grid_counts_longitude_0_to_360_and_wraps_negative_longitudes() {
 }
 
 #[test]
-fn lola_window_with_halo_pads_outside_with_nodata() {
+fn lola_window_with_halo_wraps_columns_and_pads_beyond_the_pole_with_nodata() {
     let Some(lbl) = common::lola_label() else {
         return;
     };
     let dem = Dem::open(&lbl, &Default::default()).unwrap();
+    // Two columns west of the seam and two rows north of the pole: the columns come from the
+    // grid's eastern edge (a global grid wraps), the rows are nodata.
     let w = dem.read_window(-2, -2, 6, 6).unwrap();
-    assert_eq!((w.col0, w.row0), (-2, -2));
-    assert!(w.get(0, 0).is_none() && w.get(1, 5).is_none());
-    assert!(w.get(2, 2).is_some());
-    assert!((w.valid_fraction() - 16.0 / 36.0).abs() < 1e-12);
+    assert_eq!((w.width, w.height, w.row0), (6, 6, -2));
+    assert!(w.get(0, 0).is_none() && w.get(5, 1).is_none());
+    assert!(w.get(0, 2).is_some() && w.get(1, 5).is_some() && w.get(2, 2).is_some());
+    assert!((w.valid_fraction() - 24.0 / 36.0).abs() < 1e-12);
+    // Window column 0 is LDEM_4's column 1438, centred on 359.625 E = -0.375.
+    let (lon, lat) = w.lonlat(0, 2).unwrap();
+    assert!(
+        (lon + 0.375).abs() < 1e-3 && (lat - 89.875).abs() < 1e-3,
+        "{lon} {lat}"
+    );
 }
