@@ -4,8 +4,12 @@
 //! Accepted inputs:
 //! - CSV (`.csv`, `.txt`): a header row naming the columns, case-insensitive, any order:
 //!   `lon_deg`, `lat_deg` and one of `diameter_m` or `diameter_km`; optionally `name`.
-//!   Comma separated; double quotes around a field are allowed; blank lines and lines
-//!   starting with `#` are ignored. Longitudes may run 0..360 or -180..180.
+//!   Separated by commas, semicolons or tabs: the first of these that makes the header row
+//!   name those columns separates the whole file. Fields follow RFC 4180: a field in double
+//!   quotes may hold the separator, a doubled quote (`""`) and line breaks, and a row is
+//!   numbered by the line it starts on. A leading UTF-8 byte-order mark is ignored; blank
+//!   lines and lines starting with `#` are ignored. Numbers take a decimal point.
+//!   Longitudes may run 0..360 or -180..180.
 //! - Any vector file GDAL/OGR reads (GeoJSON, GeoPackage, shapefile, ...), first layer, in
 //!   lon/lat: points carry a `diameter_m` or `diameter_km` attribute; polygons (rim outlines)
 //!   give the circle of equal area, centred on the polygon's area centroid.
