@@ -3,6 +3,7 @@
 //! scoring variant and the robustness-analysis settings. Plain data so a GUI can edit it; read
 //! from and written to our own versioned TOML layout (see docs/siting.md).
 
+mod edit;
 mod parse;
 mod validate;
 mod write;
@@ -10,6 +11,7 @@ mod write;
 use serde::{Deserialize, Serialize};
 pub use structure::{Shape, StructureSpec};
 
+pub use edit::{CurveEnd, PointRole};
 pub use validate::{CriteriaError, CriteriaProblem};
 
 /// The value of the `format` key every criteria file starts with.
