@@ -8,6 +8,10 @@
 //! just above that, and well below the 0.048 deg that flipping the sign of the E2 declination
 //! term (0.0239 deg) produces; the bound is 0.01 deg.
 
+mod common;
+
+use common::num;
+
 use visibility::frames::{apply, dot, lonlat, unit, MoonOrientation};
 use visibility::sky::{beam_track_galactic, galactic_centre_and_pole_j2000, gc_lunar_dec_deg};
 use visibility::{libration, LibrationEnvelope, PoleCycle};
@@ -17,10 +21,6 @@ const TOL_DEG: f64 = 0.006;
 fn fixture() -> serde_json::Value {
     serde_json::from_str(include_str!("fixtures/lunarsky_reference.json"))
         .expect("fixture is valid JSON")
-}
-
-fn num(v: &serde_json::Value) -> f64 {
-    v.as_f64().expect("fixture number")
 }
 
 fn wrap180(x: f64) -> f64 {

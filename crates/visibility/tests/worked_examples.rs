@@ -1,6 +1,10 @@
 //! The lunar ephemeris, libration and celestial frames against published worked examples and
 //! a general-purpose reference library (pyerfa, recorded in tests/fixtures).
 
+mod common;
+
+use common::num;
+
 use visibility::frames::{apply, j2000_to_ecliptic_j2000, j2000_to_galactic, lonlat, transpose};
 use visibility::{ephemeris, libration};
 
@@ -76,10 +80,6 @@ fn galactic_centre_ecliptic_position_matches_astropy() {
 fn fixture() -> serde_json::Value {
     let text = include_str!("fixtures/erfa_reference.json");
     serde_json::from_str(text).expect("fixture is valid JSON")
-}
-
-fn num(v: &serde_json::Value) -> f64 {
-    v.as_f64().expect("fixture number")
 }
 
 #[test]

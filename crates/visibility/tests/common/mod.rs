@@ -53,3 +53,8 @@ pub fn bowl(depth_m: f64, radius_m: f64, rim_m: f64) -> impl Fn(f64, f64) -> f64
         }
     }
 }
+
+/// A number from a recorded fixture (tests/fixtures/*.json).
+pub fn num(v: &serde_json::Value) -> f64 {
+    v.as_f64().expect("fixture number")
+}
