@@ -52,7 +52,8 @@ fn fails_cleanly(args: &[&str], expect: &str, out: Option<&Path>) {
         if let Ok(entries) = std::fs::read_dir(dir) {
             for e in entries.flatten() {
                 assert!(
-                    !e.file_name().to_string_lossy().ends_with(".tmp"),
+                    // Temporary files are hidden (a leading dot; terrain::atomic).
+                    !e.file_name().to_string_lossy().starts_with('.'),
                     "{args:?} left a temporary file {:?}",
                     e.path()
                 );

@@ -109,7 +109,7 @@ impl Checkpoint {
                 .map_err(|e| io_err(&path, e))?
                     + "\n");
             }
-            crate::io::write_atomic(&path, text.as_bytes()).map_err(|e| io_err(&path, e))?;
+            terrain::atomic::write_bytes(&path, text.as_bytes()).map_err(|e| io_err(&path, e))?;
             self.file = Some(
                 std::fs::OpenOptions::new()
                     .append(true)

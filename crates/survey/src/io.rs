@@ -1,50 +1,9 @@
-//! Reading and writing survey files: versioned JSON, written atomically.
+//! Reading and writing survey files: versioned JSON, written atomically (`terrain::atomic`).
 
 use crate::model::{SurveyFile, SCHEMA_VERSION};
 use crate::SurveyError;
 use std::io::Write;
 use std::path::Path;
-
-/// Write `bytes` to `path` so that readers see either the old file or the whole new one: write a
-/// temporary file in the same directory, flush it to disk, then rename it over the target. On
-/// any failure the temporary file is removed and the target is untouched.
-pub fn write_atomic(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
-    write_atomic_with(path, |w| w.write_all(bytes))
-}
-
-/// [`write_atomic`] with the content written by `fill` through a buffered writer, so a large
-/// file need not be held in memory whole.
-pub fn write_atomic_with(
-    path: &Path,
-    fill: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
-) -> std::io::Result<()> {
-    let dir = match path.parent() {
-        Some(d) if !d.as_os_str().is_empty() => d.to_path_buf(),
-        _ => std::path::PathBuf::from("."),
-    };
-    let name = path.file_name().ok_or_else(|| {
-        std::io::Error::new(
-            std::io::ErrorKind::InvalidInput,
-            "the output path names no file",
-        )
-    })?;
-    let tmp = dir.join(format!(
-        ".{}.{}.tmp",
-        name.to_string_lossy(),
-        std::process::id()
-    ));
-    let result = (|| {
-        let mut w = std::io::BufWriter::with_capacity(1 << 20, std::fs::File::create(&tmp)?);
-        fill(&mut w)?;
-        let f = w.into_inner().map_err(|e| e.into_error())?;
-        f.sync_all()?;
-        std::fs::rename(&tmp, path)
-    })();
-    if result.is_err() {
-        let _ = std::fs::remove_file(&tmp);
-    }
-    result
-}
 
 /// Candidates printed at once, in parallel, before they are written out in order.
 const PRINT_CHUNK: usize = 1024;
@@ -154,7 +113,7 @@ impl SurveyFile {
     }
 
     pub fn write(&self, path: &Path) -> Result<(), SurveyError> {
-        write_atomic_with(path, |w| self.write_json(w)).map_err(|e| SurveyError::Io {
+        terrain::atomic::write_with(path, |w| self.write_json(w)).map_err(|e| SurveyError::Io {
             path: path.display().to_string(),
             reason: e.to_string(),
         })

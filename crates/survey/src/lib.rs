@@ -13,7 +13,6 @@ pub mod refit;
 pub mod run;
 
 pub use error::SurveyError;
-pub use io::write_atomic;
 pub use merge::merge;
 pub use metrics::{label_of, metric, MetricInfo, MetricKind, METRICS};
 pub use model::{

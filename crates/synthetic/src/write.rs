@@ -1,6 +1,7 @@
 //! Writing a generated patch: a compressed, tiled float32 GeoTIFF in IAU_2015:30115, a PAM
-//! side file that keeps the IAU identifier, and `truth.json`; each written to a temporary name
-//! in the target folder and then renamed, so a reader never sees a half-written file.
+//! side file that keeps the IAU identifier, and `truth.json`; all three written in full beside
+//! their targets before any is renamed into place (`terrain::atomic`), so a reader never sees
+//! a half-written file and a failure leaves the old patch whole.
 //!
 //! Why the side file: GeoTIFF keys can name a CRS only by an EPSG code (OGC 19-008r4), so the
 //! keys carry the projection's parameters and GDAL would read back an equivalent CRS without
@@ -14,6 +15,7 @@ use gdal::raster::{Buffer, RasterCreationOptions};
 use gdal::spatial_ref::SpatialRef;
 use gdal::{DriverManager, Metadata};
 use std::path::{Path, PathBuf};
+use terrain::atomic;
 
 pub const RASTER_FILE: &str = "farside-patch.tif";
 pub const TRUTH_FILE: &str = "truth.json";
@@ -48,15 +50,20 @@ pub fn write(terrain: &DemoTerrain, out_dir: &Path) -> Result<DemoFiles, SynthEr
     let raster = out_dir.join(RASTER_FILE);
     let side = out_dir.join(format!("{RASTER_FILE}.aux.xml"));
     let truth = out_dir.join(TRUTH_FILE);
-    let tmp = |name: &str| out_dir.join(format!(".{name}.partial-{}", std::process::id()));
-
     let srs = SpatialRef::from_definition(CRS_AUTHORITY).map_err(|e| gdal_err(&raster, e))?;
-    let tmp_raster = tmp(RASTER_FILE);
-    let written = write_geotiff(terrain, &srs, &tmp_raster);
-    if let Err(e) = written {
-        let _ = std::fs::remove_file(&tmp_raster);
-        return Err(e);
-    }
+    // GDAL's failure is kept whole; the staging helper only needs to know that it failed.
+    let mut gdal_failure = None;
+    let staged_raster = atomic::stage_by_path(&raster, |tmp| {
+        write_geotiff(terrain, &srs, tmp).map_err(|e| {
+            let text = e.to_string();
+            gdal_failure = Some(e);
+            std::io::Error::other(text)
+        })
+    });
+    let staged_raster = match staged_raster {
+        Ok(s) => s,
+        Err(e) => return Err(gdal_failure.unwrap_or_else(|| io(&raster)(e))),
+    };
     let side_text = pam_side_file(&srs).map_err(|e| gdal_err(&side, e))?;
     let heights_sha256 = terrain.heights_sha256();
     let doc = TruthDocument::new(
@@ -68,14 +75,12 @@ pub fn write(terrain: &DemoTerrain, out_dir: &Path) -> Result<DemoFiles, SynthEr
     );
     let truth_text = doc.to_json()?;
 
-    let tmp_side = tmp(&format!("{RASTER_FILE}.aux.xml"));
-    std::fs::write(&tmp_side, side_text).map_err(io(&tmp_side))?;
-    let tmp_truth = tmp(TRUTH_FILE);
-    std::fs::write(&tmp_truth, truth_text).map_err(io(&tmp_truth))?;
+    let staged_side = atomic::stage_bytes(&side, side_text.as_bytes()).map_err(io(&side))?;
+    let staged_truth = atomic::stage_bytes(&truth, truth_text.as_bytes()).map_err(io(&truth))?;
     // Raster first, then its side file, then the truth that names the raster's checksum.
-    std::fs::rename(&tmp_raster, &raster).map_err(io(&raster))?;
-    std::fs::rename(&tmp_side, &side).map_err(io(&side))?;
-    std::fs::rename(&tmp_truth, &truth).map_err(io(&truth))?;
+    staged_raster.commit().map_err(io(&raster))?;
+    staged_side.commit().map_err(io(&side))?;
+    staged_truth.commit().map_err(io(&truth))?;
     let raster_bytes = std::fs::metadata(&raster).map_err(io(&raster))?.len();
     Ok(DemoFiles {
         raster,

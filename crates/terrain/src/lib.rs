@@ -4,6 +4,7 @@
 //!
 //! Terrain knows nothing of craters, visibility or ranking.
 
+pub mod atomic;
 pub mod body;
 pub mod derivatives;
 pub mod error;

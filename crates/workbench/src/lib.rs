@@ -156,21 +156,10 @@ impl eframe::App for Launcher {
     }
 }
 
-/// Write bytes to `path` through a temporary file in the same folder, then rename.
+/// Write bytes to `path` atomically (`terrain::atomic`), the error as a message for the window.
 pub fn write_atomically(path: &Path, bytes: &[u8]) -> Result<(), String> {
-    let dir = path
-        .parent()
-        .filter(|d| !d.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let tmp = dir.join(format!(
-        ".{}.part",
-        path.file_name()
-            .map(|n| n.to_string_lossy())
-            .unwrap_or_default()
-    ));
-    std::fs::write(&tmp, bytes).map_err(|e| format!("cannot write {}: {e}", tmp.display()))?;
-    std::fs::rename(&tmp, path)
-        .map_err(|e| format!("cannot move {} to {}: {e}", tmp.display(), path.display()))
+    terrain::atomic::write_bytes(path, bytes)
+        .map_err(|e| format!("cannot write {}: {e}", path.display()))
 }
 
 /// Save a picture as PNG (atomically).

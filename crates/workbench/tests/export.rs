@@ -6,26 +6,42 @@ use quietbowl_workbench::engine;
 use quietbowl_workbench::export_dialog::{ExportFormat, ExportRequest};
 use quietbowl_workbench::Session;
 
+/// The ids in a CSV export's rows (second column; the columns before it hold no commas).
+fn exported_ids(path: &std::path::Path) -> Vec<u32> {
+    let text = std::fs::read_to_string(path).unwrap();
+    let mut ids: Vec<u32> = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+        .map(|l| l.split(',').nth(1).and_then(|s| s.parse().ok()).unwrap())
+        .collect();
+    ids.sort();
+    ids
+}
+
 #[test]
 fn export_request_writes_the_passing_shortlist_as_csv() {
     let session =
         Session::with_survey_and_criteria(common::small_survey(), common::test_criteria());
     let dir = tempfile::tempdir().unwrap();
     let path = dir.path().join("shortlist.csv");
-    let req = ExportRequest {
+    let mut req = ExportRequest {
         format: ExportFormat::Csv,
         path: path.clone(),
         passing_only: true,
     };
     engine::export(&session, &req).expect("export succeeds");
+    // By hand from common::ROWS and test_criteria's requirements (diameter >= 1000 m, rim
+    // completeness >= 0.5): candidate 3 (500 m) and candidate 4 (rim 0.30) fail.
+    assert_eq!(exported_ids(&path), vec![1, 2, 5, 6]);
     let text = std::fs::read_to_string(&path).unwrap();
-    let passing = session.ranking.passing_count();
-    // Header and provenance lines aside, one line per passing candidate: at least that many lines.
-    assert!(text.lines().count() > passing, "{text}");
     assert!(
         text.contains("Screening estimates from orbital data"),
         "the export carries the caution"
     );
+    req.passing_only = false;
+    engine::export(&session, &req).expect("export succeeds");
+    assert_eq!(exported_ids(&path), vec![1, 2, 3, 4, 5, 6]);
 }
 
 #[test]

@@ -19,8 +19,8 @@ pub struct Args {
     /// 3 pixels up to a third of a tile.
     #[arg(long, value_name = "MIN..MAX", value_parser = diameter_range::parse)]
     diameter: Option<(Option<f64>, Option<f64>)>,
-    /// Crater list to measure: CSV (lon_deg, lat_deg, diameter_m or diameter_km), GeoJSON points
-    /// or polygons, or any vector file OGR reads.
+    /// Crater list to measure: CSV (lon_deg, lat_deg, diameter_m or diameter_km; separated by
+    /// commas, semicolons or tabs), GeoJSON points or polygons, or any vector file OGR reads.
     #[arg(long, value_name = "FILE")]
     catalogue: Option<PathBuf>,
     /// Skip catalogue rows that cannot be read (each is reported with its line) instead of stopping.

@@ -1,44 +1,38 @@
 //! The date recorded in export provenance.
 
-/// Civil date (UTC, `YYYY-MM-DD`) of a Unix time, proleptic Gregorian, by the inverse of
-/// H. Hinnant's days-from-civil ("chrono-Compatible Low-Level Date Algorithms", 2013).
-pub fn civil_date(unix_s: i64) -> String {
-    let z = unix_s.div_euclid(86_400) + 719_468;
-    let era = z.div_euclid(146_097);
-    let doe = z - era * 146_097;
-    let yoe = (doe - doe / 1460 + doe / 36_524 - doe / 146_096) / 365;
-    let doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
-    let mp = (5 * doy + 2) / 153;
-    let d = doy - (153 * mp + 2) / 5 + 1;
-    let m = if mp < 10 { mp + 3 } else { mp - 9 };
-    let y = yoe + era * 400 + i64::from(m <= 2);
-    format!("{y:04}-{m:02}-{d:02}")
+use jiff::tz::Offset;
+use jiff::Timestamp;
+
+/// Civil date (UTC, `YYYY-MM-DD`, proleptic Gregorian) of a Unix time; `None` outside the
+/// years -9999..=9999 that `jiff` represents.
+pub fn civil_date(unix_s: i64) -> Option<String> {
+    let t = Timestamp::from_second(unix_s).ok()?;
+    Some(Offset::UTC.to_datetime(t).date().to_string())
 }
 
-/// Today's date for provenance: `$SOURCE_DATE_EPOCH` when set (reproducible builds
-/// convention, reproducible-builds.org), else the system clock, in UTC.
+/// Today's date for provenance: `$SOURCE_DATE_EPOCH` when set to a usable number
+/// (reproducible builds convention, reproducible-builds.org), else the system clock, in UTC.
 pub fn today() -> String {
-    let now = std::env::var("SOURCE_DATE_EPOCH")
+    std::env::var("SOURCE_DATE_EPOCH")
         .ok()
         .and_then(|s| s.trim().parse::<i64>().ok())
-        .unwrap_or_else(|| {
-            std::time::SystemTime::now()
-                .duration_since(std::time::UNIX_EPOCH)
-                .map(|d| d.as_secs() as i64)
-                .unwrap_or(0)
-        });
-    civil_date(now)
+        .and_then(civil_date)
+        .unwrap_or_else(|| Offset::UTC.to_datetime(Timestamp::now()).date().to_string())
 }
 
 #[cfg(test)]
 mod tests {
+    use super::civil_date;
+
     #[test]
     fn civil_date_matches_known_days() {
-        // 1970-01-01 is Unix day 0; 951,782,400 s is 2000-02-29 00:00 UTC and 951,868,800 s
-        // is 2000-03-01 (leap day of a year divisible by 400).
-        assert_eq!(super::civil_date(0), "1970-01-01");
-        assert_eq!(super::civil_date(951_782_400), "2000-02-29");
-        assert_eq!(super::civil_date(951_868_800), "2000-03-01");
-        assert_eq!(super::civil_date(-86_400), "1969-12-31");
+        // 1970-01-01 is Unix day 0 (POSIX.1-2017, "Seconds Since the Epoch"); 951,782,400 s
+        // = 11,016 days is 2000-02-29 00:00 UTC and 951,868,800 s is 2000-03-01 (2000 is a
+        // leap year, being divisible by 400).
+        assert_eq!(civil_date(0).as_deref(), Some("1970-01-01"));
+        assert_eq!(civil_date(951_782_400).as_deref(), Some("2000-02-29"));
+        assert_eq!(civil_date(951_868_800).as_deref(), Some("2000-03-01"));
+        assert_eq!(civil_date(-86_400).as_deref(), Some("1969-12-31"));
+        assert_eq!(civil_date(i64::MAX), None);
     }
 }

@@ -23,7 +23,7 @@ fn gdal_err(path: &Path) -> impl Fn(gdal::errors::GdalError) -> std::io::Error +
 /// Write the GeoPackage atomically (GDAL writes a temporary file that is then renamed).
 pub fn write_gpkg(set: &ExportSet<'_>, path: &Path) -> Result<(), SitingError> {
     set.check()?;
-    crate::atomic::write_with(path, |tmp| fill(set, tmp).map_err(gdal_err(path)))
+    crate::atomic::write_by_path(path, |tmp| fill(set, tmp).map_err(gdal_err(path)))
 }
 
 fn fill(set: &ExportSet<'_>, tmp: &Path) -> gdal::errors::Result<()> {
