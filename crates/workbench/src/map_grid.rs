@@ -311,7 +311,7 @@ fn crossing(a: Pos2, b: Pos2, rect: Rect, edge: Edge) -> Option<Pos2> {
 }
 
 /// Colour of the lon/lat lines: light and thin, under the rims.
-const LINE_COLOUR: Color32 = Color32::from_rgba_premultiplied(200, 210, 225, 110);
+const LINE_COLOUR: Color32 = Color32::from_rgba_premultiplied(105, 110, 120, 140);
 
 /// Draw the lines (under the rims).
 pub fn draw_graticule_lines(painter: &Painter, g: &Graticule) {
