@@ -9,6 +9,7 @@ pub mod io;
 pub mod merge;
 pub mod metrics;
 pub mod model;
+pub mod place;
 pub mod refit;
 pub mod run;
 
@@ -18,5 +19,6 @@ pub use metrics::{label_of, metric, MetricInfo, MetricKind, METRICS};
 pub use model::{
     Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION,
 };
+pub use place::{candidate_name, LonConvention};
 pub use refit::{fitted_for, locate_dem, refit, RefitProgress};
 pub use run::{into_candidates, run, Found, Progress, RunOptions, RunOutcome};

@@ -1,5 +1,6 @@
 //! Open the workbench without the main binary (screenshots, development):
 //! `workbench [FILE] [--select-rank N] [--sheet shape|sky|reflector|robustness|numbers|notes] [--screenshot OUT.png] [--size WxH] [--timing]`
+//! `[--map-layer relief|tint|slope] [--hide-failing] [--no-grid] [--no-legend] [--lon360]`
 
 use quietbowl_workbench::{run, WorkbenchOptions};
 use std::path::PathBuf;
@@ -23,6 +24,23 @@ fn main() {
                     _ => Some(SheetTab::Shape),
                 }
             }
+            "--map-layer" | "--hide-failing" | "--no-grid" | "--no-legend" => {
+                use quietbowl_workbench::shading::MapLayer;
+                let m = options.map_settings.get_or_insert_with(Default::default);
+                match a.as_str() {
+                    "--map-layer" => {
+                        m.layer = match args.next().as_deref() {
+                            Some("relief") => MapLayer::Relief,
+                            Some("slope") => MapLayer::Slope,
+                            _ => MapLayer::HeightTint,
+                        }
+                    }
+                    "--hide-failing" => m.show_failing = false,
+                    "--no-grid" => m.show_grid = false,
+                    _ => m.show_legend = false,
+                }
+            }
+            "--lon360" => options.lon_convention = Some(survey::LonConvention::East360),
             "--size" => {
                 options.window_size = args.next().and_then(|v| {
                     let (w, h) = v.split_once('x')?;

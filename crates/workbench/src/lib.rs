@@ -15,6 +15,8 @@ pub mod fit_plan;
 pub mod fit_view;
 pub mod job;
 pub mod map;
+pub mod map_grid;
+pub mod map_legend;
 pub mod marks;
 pub mod open_dialog;
 pub mod profiles;
@@ -54,6 +56,10 @@ pub struct WorkbenchOptions {
     pub sheet_tab: Option<crater_sheet::SheetTab>,
     /// Runs a survey on a DEM opened without one (the binary passes the survey library's run).
     pub survey_runner: Option<job::SurveyRunner>,
+    /// The map's layer and toggles at start (screenshots); default otherwise.
+    pub map_settings: Option<map::MapSettings>,
+    /// How longitudes are written at start (screenshots); default otherwise.
+    pub lon_convention: Option<survey::LonConvention>,
 }
 
 #[derive(Debug, thiserror::Error)]
@@ -81,6 +87,8 @@ pub fn run(options: WorkbenchOptions) -> Result<(), WorkbenchError> {
             app.restore(cc.storage);
             app.select_rank_on_load = options.select_rank;
             app.sheet.tab = options.sheet_tab.unwrap_or_default();
+            app.map.settings = options.map_settings.clone().unwrap_or_default();
+            app.session.lon_convention = options.lon_convention.unwrap_or_default();
             app.survey_runner = Some(
                 options
                     .survey_runner

@@ -1,5 +1,6 @@
 //! Candidate rims on the map: positions cached in source pixels once per survey and frame of
-//! reference, drawn as their fitted ellipses coloured by score, failed ones dimmed.
+//! reference, drawn as their fitted ellipses coloured by score over a dark halo (so they read
+//! on any terrain colour); failing ones, when shown, dashed in [`FAILING_COLOUR`].
 //!
 //! A survey may hold hundreds of thousands of candidates, so the drawing is built in stages,
 //! each kept until what it depends on changes:
@@ -30,6 +31,23 @@ const DOT_SIDE_PT: f32 = 2.66;
 const PARALLEL_MARKS: usize = 4_096;
 /// Cells along each side of the grid index of mark centres.
 const GRID_SIDE: usize = 256;
+/// How far a drawn outline may stray from the true ellipse, points: the vertex count is
+/// chosen from the rim's size on screen so the chords' sagitta stays under this.
+const OUTLINE_TOLERANCE_PT: f32 = 0.1;
+/// Fewest and most vertices of a drawn rim.
+const OUTLINE_VERTICES: (usize, usize) = (12, 720);
+/// Width of the dark halo on each side of a rim, points.
+pub const HALO_PT: f32 = 1.2;
+/// The halo's colour.
+pub const HALO_COLOUR: Color32 = Color32::from_rgba_premultiplied(0, 0, 0, 150);
+/// Colour of a failing candidate's rim (dashed) or dot.
+pub const FAILING_COLOUR: Color32 = Color32::from_rgb(255, 96, 84);
+/// Dash and gap along a failing rim, points.
+pub const DASH_PT: (f32, f32) = (4.0, 3.0);
+/// Width of a passing rim and of a failing one, points.
+pub const RIM_WIDTH_PT: (f32, f32) = (1.8, 1.4);
+/// The selected rim: white over a wider dark stroke.
+pub const SELECTED_WIDTH_PT: f32 = 2.5;
 
 #[derive(Clone, Copy)]
 struct Mark {
@@ -153,13 +171,15 @@ struct ViewKey {
     zoom: u64,
 }
 
-/// What the mesh was built for: the view, the ranking, the resolution and the survey.
+/// What the mesh was built for: the view, the ranking, the resolution, the survey and
+/// whether failing candidates are drawn.
 #[derive(Clone, Copy, PartialEq)]
 struct MeshKey {
     view: ViewKey,
     ranking: u64,
     pixels_per_point: u32,
     built_for: (usize, usize),
+    show_failing: bool,
 }
 
 #[derive(Default)]
@@ -192,6 +212,8 @@ pub struct MarkStyle {
     pub rect: Rect,
     pub centre_px: [f64; 2],
     pub zoom: f64,
+    /// Draw candidates that fail a requirement (dashed); when false they are left out.
+    pub show_failing: bool,
 }
 
 impl MarkStyle {
@@ -315,9 +337,16 @@ impl CandidateMarks {
         self.in_view_for = Some(key);
     }
 
+    /// Score range the colours stretch over: lowest and highest score among the passing
+    /// candidates of the current ranking (what the legend shows).
+    pub fn score_range(&self) -> (f64, f64) {
+        self.score_range
+    }
+
     /// The candidates to draw, best first: the first `MARK_BUDGET` in view in ranking order
-    /// (survey order while the ranking does not cover the survey).
-    fn choose_drawn(&mut self, session: &Session) {
+    /// (survey order while the ranking does not cover the survey); failing ones only with
+    /// `show_failing`.
+    fn choose_drawn(&mut self, session: &Session, show_failing: bool) {
         let ranking = &session.ranking;
         self.drawn.clear();
         if ranking.len() != self.marks.len() {
@@ -328,7 +357,11 @@ impl CandidateMarks {
         if self.in_view_list.len() <= MARK_BUDGET {
             // Few in view: put them in ranking order by the order's own key, and runs equal
             // on it by their places (the tie order).
-            self.drawn.extend_from_slice(&self.in_view_list);
+            self.drawn.extend(
+                self.in_view_list
+                    .iter()
+                    .filter(|&&i| show_failing || ranking.passed(i as usize)),
+            );
             self.drawn
                 .sort_unstable_by_key(|&i| (ranking.sort_key(i as usize), i));
             let mut k = 0;
@@ -344,9 +377,16 @@ impl CandidateMarks {
                 k = end;
             }
         } else {
-            // Many: walk the ranking until the budget is full.
+            // Many: walk the ranking until the budget is full (passing candidates fill the
+            // first places, so without failing ones the walk ends at the last that passes).
             let (in_view, drawn) = (&self.in_view, &mut self.drawn);
+            let passing = ranking.passing_count();
+            let mut place = 0usize;
             ranking.walk(0, |i| {
+                place += 1;
+                if !show_failing && place > passing {
+                    return false;
+                }
                 if in_view.get(i as usize).copied().unwrap_or(false) {
                     drawn.push(i);
                 }
@@ -415,10 +455,11 @@ impl CandidateMarks {
             ranking: session.ranking.generation,
             pixels_per_point: painter.ctx().pixels_per_point().to_bits(),
             built_for: self.built_for.unwrap_or_default(),
+            show_failing: view.show_failing,
         };
         if self.mesh_key != Some(key) {
             self.find_in_view(view);
-            self.choose_drawn(session);
+            self.choose_drawn(session, view.show_failing);
             self.build_mesh(session, view, painter.ctx());
             self.mesh_key = Some(key);
         }
@@ -445,15 +486,73 @@ impl CandidateMarks {
         {
             let mut pts = Vec::new();
             ellipse_points_into(&sel, view.to_screen(sel.pos), z, &mut pts);
-            painter.add(Shape::closed_line(
-                pts.clone(),
-                Stroke::new(5.0, Color32::from_black_alpha(160)),
-            ));
-            painter.add(Shape::closed_line(pts, Stroke::new(2.5, Color32::WHITE)));
-            painter.circle_filled(view.to_screen(sel.pos), 2.5, Color32::WHITE);
+            draw_selected(painter, pts, view.to_screen(sel.pos));
         }
         hovered.map(|(i, _)| i)
     }
+}
+
+/// The selected rim: white over a wider dark stroke, with its centre.
+fn draw_selected(painter: &Painter, outline: Vec<Pos2>, centre: Pos2) {
+    painter.add(Shape::closed_line(
+        outline.clone(),
+        Stroke::new(SELECTED_WIDTH_PT + 2.5, Color32::from_black_alpha(160)),
+    ));
+    painter.add(Shape::closed_line(
+        outline,
+        Stroke::new(SELECTED_WIDTH_PT, Color32::WHITE),
+    ));
+    painter.circle_filled(centre, 2.5, Color32::WHITE);
+}
+
+/// What the legend shows for each kind of mark, drawn by the same code as the map.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum LegendMark {
+    /// A passing rim in the colour of the given score fraction.
+    Passing(f64),
+    Failing,
+    /// A dot of a passing rim in the colour of the given score fraction.
+    Dot(f64),
+    Selected,
+}
+
+/// Draw `mark` as the map draws it, a circle of radius `r_pt` around `centre`.
+pub fn draw_legend_mark(painter: &Painter, mark: LegendMark, centre: Pos2, r_pt: f32) {
+    let circle = Mark {
+        pos: [0.0, 0.0],
+        px_m: [1.0, 1.0],
+        semi_major_m: r_pt,
+        semi_minor_m: r_pt,
+        azimuth_rad: 0.0,
+    };
+    let mut s = Scratch::default();
+    ellipse_points_into(&circle, centre, 1.0, &mut s.points);
+    let ctx = painter.ctx();
+    let feathering = ctx.tessellation_options(|o| {
+        if o.feathering {
+            o.feathering_size_in_pixels
+        } else {
+            0.0
+        }
+    }) / ctx.pixels_per_point();
+    let mut mesh = Mesh::default();
+    match mark {
+        LegendMark::Passing(t) => {
+            let profile = haloed_profile(RIM_WIDTH_PT.0, score_colour(t), feathering);
+            stroke_path(&s.points, true, &profile, &mut s.normals, &mut mesh);
+        }
+        LegendMark::Failing => {
+            let profile = haloed_profile(RIM_WIDTH_PT.1, FAILING_COLOUR, feathering);
+            let pts = std::mem::take(&mut s.points);
+            stroke_dashed(&pts, &profile, &mut s, &mut mesh);
+        }
+        LegendMark::Dot(t) => add_dot(&mut mesh, centre, score_colour(t), true),
+        LegendMark::Selected => {
+            draw_selected(painter, s.points, centre);
+            return;
+        }
+    }
+    painter.add(Shape::mesh(mesh));
 }
 
 /// What every part of the mesh is drawn with.
@@ -481,15 +580,15 @@ fn build_mesh_part(
     let (lo, hi) = style.score_range;
     let feathering = style.feathering;
     // A dense view's outlines are a few points across and overlap one another; there the
-    // feathered (anti-aliased) edge doubles the triangles, and the time to rebuild them on
-    // every re-rank, for little that can be seen. Sparser views keep it.
+    // feathered (anti-aliased) edge adds triangles, and time to rebuild them on every
+    // re-rank, for little that can be seen. Sparser views keep it.
     let outline_feathering = if style.dense { 0.0 } else { feathering };
     let part = drawn.get(range.clone()).unwrap_or(&[]);
     // Emptied by hand: `Mesh::clear` in epaint 0.37 drops the vertex buffer.
     mesh.indices.clear();
     mesh.vertices.clear();
     let outlines = OUTLINE_BUDGET.saturating_sub(range.start).min(part.len());
-    mesh.reserve_vertices(outlines * 40 + part.len() * 4);
+    mesh.reserve_vertices(outlines * 80 + part.len() * 8);
     // Gathered first in a loop of independent loads: the drawn candidates lie scattered
     // over arrays of hundreds of thousands, and a long loop body would wait for each.
     let gathered: Vec<(Option<Mark>, bool, f64)> = part
@@ -503,7 +602,7 @@ fn build_mesh_part(
             )
         })
         .collect();
-    let (mut points, mut normals) = (Vec::new(), Vec::new());
+    let mut scratch = Scratch::default();
     let mut on_screen = Vec::with_capacity(part.len());
     for (j, &(m, pass, score)) in gathered.iter().enumerate().rev() {
         let Some(m) = m else { continue };
@@ -515,21 +614,19 @@ fn build_mesh_part(
         let colour = if pass {
             score_colour((score - lo) / (hi - lo))
         } else {
-            Color32::from_rgba_unmultiplied(150, 150, 150, 110)
+            FAILING_COLOUR
         };
         if r_screen < 2.0 || (style.dense && (r_screen < 3.0 || k >= OUTLINE_BUDGET)) {
             if view.rect.expand(DOT_SIDE_PT).contains(centre) {
-                mesh.add_colored_rect(
-                    Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT)),
-                    colour,
-                );
+                add_dot(mesh, centre, colour, pass);
             }
             continue;
         }
-        let width = if pass { 1.8 } else { 1.0 };
+        let width = if pass { RIM_WIDTH_PT.0 } else { RIM_WIDTH_PT.1 };
         // Rims wholly off the map are left out, as the tessellator's coarse culling would.
         let reach = m.semi_major_m.max(m.semi_minor_m) / m.px_m[0].min(m.px_m[1]).max(1e-6) * z
             + width
+            + HALO_PT
             + feathering;
         if !view
             .rect
@@ -537,17 +634,44 @@ fn build_mesh_part(
         {
             continue;
         }
-        ellipse_points_into(&m, centre, z, &mut points);
-        stroke_loop(
-            &points,
-            width,
-            colour,
-            outline_feathering,
-            &mut normals,
-            mesh,
-        );
+        ellipse_points_into(&m, centre, z, &mut scratch.points);
+        let profile = haloed_profile(width, colour, outline_feathering);
+        if pass {
+            stroke_path(&scratch.points, true, &profile, &mut scratch.normals, mesh);
+        } else {
+            let points = std::mem::take(&mut scratch.points);
+            stroke_dashed(&points, &profile, &mut scratch, mesh);
+            scratch.points = points;
+        }
     }
     on_screen
+}
+
+/// Buffers re-used from rim to rim.
+#[derive(Default)]
+struct Scratch {
+    points: Vec<Pos2>,
+    normals: Vec<Vec2>,
+    dash: Vec<Pos2>,
+}
+
+/// A dot for a rim too small or too crowded to outline: a square over a dark one a halo
+/// wider; a failing candidate's dot is hollow (its colour around a dark centre).
+fn add_dot(mesh: &mut Mesh, centre: Pos2, colour: Color32, pass: bool) {
+    mesh.add_colored_rect(
+        Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT + 2.0 * HALO_PT)),
+        HALO_COLOUR,
+    );
+    mesh.add_colored_rect(
+        Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT)),
+        colour,
+    );
+    if !pass {
+        mesh.add_colored_rect(
+            Rect::from_center_size(centre, Vec2::splat(DOT_SIDE_PT * 0.4)),
+            Color32::BLACK,
+        );
+    }
 }
 
 /// The mesh behind `arc` to refill: itself when nothing else holds it (egui lets go of the
@@ -559,10 +683,11 @@ fn reusable(arc: &mut Arc<Mesh>) -> &mut Mesh {
     Arc::make_mut(arc)
 }
 
-/// Screen outline of a rim: the fitted ellipse, major axis at its azimuth from north.
+/// Screen outline of a rim: the fitted ellipse, major axis at its azimuth from north, with
+/// as many vertices as its size on screen needs ([`outline_vertices`]).
 fn ellipse_points_into(m: &Mark, centre: Pos2, zoom: f32, out: &mut Vec<Pos2>) {
     let r_screen = m.radius_px() * zoom;
-    let n = (r_screen / 2.0).clamp(10.0, 72.0) as usize;
+    let n = outline_vertices(r_screen);
     let (sa, ca) = m.azimuth_rad.sin_cos();
     // The angle steps by a fixed rotation (no sine or cosine per point).
     let (sd, cd) = (std::f32::consts::TAU / n as f32).sin_cos();
@@ -580,87 +705,211 @@ fn ellipse_points_into(m: &Mark, centre: Pos2, zoom: f32, out: &mut Vec<Pos2>) {
     }));
 }
 
-/// Stroke a closed outline along its middle, anti-aliased: the same triangles `epaint`'s
-/// tessellator makes for a closed `PathShape` with a solid stroke and no fill (miter joins,
-/// a feathered edge `feathering` points wide), without its per-shape overhead.
-fn stroke_loop(
-    points: &[Pos2],
-    width: f32,
-    colour: Color32,
-    feathering: f32,
-    normals: &mut Vec<Vec2>,
-    out: &mut Mesh,
-) {
+/// Vertices of a drawn circle of radius `r_pt` points so a chord strays at most
+/// [`OUTLINE_TOLERANCE_PT`] from the arc: the sagitta of a chord spanning 2 pi / n is
+/// r (1 - cos(pi / n)), about r pi^2 / (2 n^2), hence n = pi sqrt(r / (2 tol)).
+pub fn outline_vertices(r_pt: f32) -> usize {
+    let n = std::f32::consts::PI * (r_pt.max(0.0) / (2.0 * OUTLINE_TOLERANCE_PT)).sqrt();
+    (n.ceil() as usize).clamp(OUTLINE_VERTICES.0, OUTLINE_VERTICES.1)
+}
+
+/// Across-the-line profile of a rim over its halo, from one edge to the other: offsets from
+/// the centre line (points) and colours. With `feathering`, each edge fades to transparent
+/// over that width (anti-aliasing, as `epaint` feathers its strokes).
+fn haloed_profile(width: f32, colour: Color32, feathering: f32) -> Vec<(f32, Color32)> {
+    let a = 0.5 * width;
+    let h = a + HALO_PT;
+    if feathering > 0.0 {
+        let f = 0.5 * feathering;
+        vec![
+            (h + f, Color32::TRANSPARENT),
+            (h - f, HALO_COLOUR),
+            (a, colour),
+            (-a, colour),
+            (-h + f, HALO_COLOUR),
+            (-h - f, Color32::TRANSPARENT),
+        ]
+    } else {
+        vec![
+            (h, HALO_COLOUR),
+            (a, colour),
+            (-a, colour),
+            (-h, HALO_COLOUR),
+        ]
+    }
+}
+
+/// A closed outline in dashes of [`DASH_PT`] with gaps between, each dash stroked with
+/// `profile` and square ends.
+fn stroke_dashed(points: &[Pos2], profile: &[(f32, Color32)], s: &mut Scratch, out: &mut Mesh) {
     let n = points.len();
     if n < 2 {
         return;
     }
-    normals.clear();
-    let mut n0 = (points[0] - points[n - 1]).normalized().rot90();
+    let (on, off) = DASH_PT;
+    let mut drawing = true;
+    let mut left = on;
+    s.dash.clear();
+    s.dash.push(points[0]);
     for i in 0..n {
-        let next = if i + 1 == n { 0 } else { i + 1 };
-        let mut n1 = (points[next] - points[i]).normalized().rot90();
+        let (a, b) = (points[i], points[(i + 1) % n]);
+        let mut from = a;
+        let mut seg = b.distance(a);
+        while seg > left {
+            let t = left / seg;
+            let p = from + (b - from) * t;
+            if drawing {
+                s.dash.push(p);
+                stroke_path(&s.dash, false, profile, &mut s.normals, out);
+            }
+            s.dash.clear();
+            s.dash.push(p);
+            drawing = !drawing;
+            seg -= left;
+            left = if drawing { on } else { off };
+            from = p;
+        }
+        left -= seg;
+        if drawing {
+            s.dash.push(b);
+        }
+    }
+    if drawing && s.dash.len() >= 2 {
+        stroke_path(&s.dash, false, profile, &mut s.normals, out);
+    }
+}
+
+/// Stroke a path (closed or open) along its middle with an across-the-line `profile`
+/// (offsets, edge to edge, and colours): miter joins as `epaint`'s tessellator makes them,
+/// one vertex per profile stop at every point, without its per-shape overhead.
+fn stroke_path(
+    points: &[Pos2],
+    closed: bool,
+    profile: &[(f32, Color32)],
+    normals: &mut Vec<Vec2>,
+    out: &mut Mesh,
+) {
+    let n = points.len();
+    let k = profile.len();
+    if n < 2 || k < 2 {
+        return;
+    }
+    normals.clear();
+    let dir = |i: usize, j: usize| (points[j] - points[i]).normalized().rot90();
+    let mut n0 = if closed { dir(n - 1, 0) } else { dir(0, 1) };
+    for i in 0..n {
+        let mut n1 = if i + 1 < n {
+            dir(i, i + 1)
+        } else if closed {
+            dir(i, 0)
+        } else {
+            n0
+        };
         if n0 == Vec2::ZERO {
             n0 = n1;
         } else if n1 == Vec2::ZERO {
             n1 = n0;
         }
         let normal = (n0 + n1) * 0.5;
-        normals.push(normal / normal.length_sq());
+        let len_sq = normal.length_sq();
+        normals.push(if len_sq > 0.0 {
+            normal / len_sq
+        } else {
+            normal
+        });
         n0 = n1;
     }
-    let vertex = |pos: Pos2, color: Color32| Vertex {
-        pos,
-        uv: WHITE_UV,
-        color,
-    };
     let idx = out.vertices.len() as u32;
-    let n = n as u32;
-    let clear = Color32::TRANSPARENT;
-    if feathering <= 0.0 {
-        let r = 0.5 * width;
-        for (p, nm) in points.iter().zip(normals.iter()) {
-            out.vertices.push(vertex(*p + *nm * r, colour));
-            out.vertices.push(vertex(*p - *nm * r, colour));
+    for (p, nm) in points.iter().zip(normals.iter()) {
+        for &(offset, color) in profile {
+            out.vertices.push(Vertex {
+                pos: *p + *nm * offset,
+                uv: WHITE_UV,
+                color,
+            });
         }
-        let mut i0 = n - 1;
-        for i1 in 0..n {
-            out.add_triangle(idx + 2 * i0, idx + 2 * i0 + 1, idx + 2 * i1);
-            out.add_triangle(idx + 2 * i0 + 1, idx + 2 * i1, idx + 2 * i1 + 1);
-            i0 = i1;
+    }
+    let (n, k) = (n as u32, k as u32);
+    let mut quad = |i0: u32, i1: u32| {
+        for s in 0..k - 1 {
+            let (a, b) = (idx + k * i0 + s, idx + k * i1 + s);
+            out.add_triangle(a, a + 1, b);
+            out.add_triangle(a + 1, b, b + 1);
         }
-    } else if width <= 0.9 * feathering {
-        // A line thinner than a pixel: a ridge two feathers wide, dimmed instead of thinned.
-        let middle = colour.gamma_multiply(width / feathering);
-        for (p, nm) in points.iter().zip(normals.iter()) {
-            out.vertices.push(vertex(*p + *nm * feathering, clear));
-            out.vertices.push(vertex(*p, middle));
-            out.vertices.push(vertex(*p - *nm * feathering, clear));
+    };
+    if closed {
+        quad(n - 1, 0);
+    }
+    for i in 1..n {
+        quad(i - 1, i);
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// The drawn outline stays within the tolerance of the true circle: the midpoint of every
+    /// chord lies at most `OUTLINE_TOLERANCE_PT` inside the radius (plane geometry; a chord's
+    /// midpoint is the point of the polygon farthest from the arc).
+    #[test]
+    fn rims_are_smooth_at_every_size_on_screen() {
+        for r_pt in [2.0f32, 3.0, 5.0, 10.0, 20.0, 60.0, 200.0, 1000.0] {
+            let m = Mark {
+                pos: [0.0, 0.0],
+                px_m: [1.0, 1.0],
+                semi_major_m: r_pt,
+                semi_minor_m: r_pt,
+                azimuth_rad: 0.3,
+            };
+            let mut pts = Vec::new();
+            ellipse_points_into(&m, Pos2::ZERO, 1.0, &mut pts);
+            let n = pts.len();
+            let worst = (0..n)
+                .map(|i| {
+                    let mid = pts[i] + (pts[(i + 1) % n] - pts[i]) * 0.5;
+                    r_pt - mid.to_vec2().length()
+                })
+                .fold(0.0f32, f32::max);
+            assert!(
+                worst <= OUTLINE_TOLERANCE_PT * 1.05,
+                "radius {r_pt} pt, {n} vertices: chord {worst} pt inside the circle"
+            );
         }
-        let mut i0 = n - 1;
-        for i1 in 0..n {
-            out.add_triangle(idx + 3 * i0, idx + 3 * i0 + 1, idx + 3 * i1);
-            out.add_triangle(idx + 3 * i0 + 1, idx + 3 * i1, idx + 3 * i1 + 1);
-            out.add_triangle(idx + 3 * i0 + 1, idx + 3 * i0 + 2, idx + 3 * i1 + 1);
-            out.add_triangle(idx + 3 * i0 + 2, idx + 3 * i1 + 1, idx + 3 * i1 + 2);
-            i0 = i1;
-        }
-    } else {
-        let inner = 0.5 * (width - feathering);
-        let outer = 0.5 * (width + feathering);
-        for (p, nm) in points.iter().zip(normals.iter()) {
-            out.vertices.push(vertex(*p + *nm * outer, clear));
-            out.vertices.push(vertex(*p + *nm * inner, colour));
-            out.vertices.push(vertex(*p - *nm * inner, colour));
-            out.vertices.push(vertex(*p - *nm * outer, clear));
-        }
-        let mut i0 = n - 1;
-        for i1 in 0..n {
-            for k in 0..3 {
-                out.add_triangle(idx + 4 * i0 + k, idx + 4 * i0 + k + 1, idx + 4 * i1 + k);
-                out.add_triangle(idx + 4 * i0 + k + 1, idx + 4 * i1 + k, idx + 4 * i1 + k + 1);
-            }
-            i0 = i1;
-        }
+        // A small rim is no longer a decagon.
+        assert!(outline_vertices(5.0) > 10);
+    }
+
+    #[test]
+    fn dashes_cover_a_share_of_the_outline_set_by_dash_and_gap() {
+        let m = Mark {
+            pos: [0.0, 0.0],
+            px_m: [1.0, 1.0],
+            semi_major_m: 100.0,
+            semi_minor_m: 100.0,
+            azimuth_rad: 0.0,
+        };
+        let mut s = Scratch::default();
+        ellipse_points_into(&m, Pos2::ZERO, 1.0, &mut s.points);
+        let pts = s.points.clone();
+        let mut mesh = Mesh::default();
+        let profile = [(0.5, Color32::RED), (-0.5, Color32::RED)];
+        stroke_dashed(&pts, &profile, &mut s, &mut mesh);
+        // Area of the strokes (width 1): the dashed length.
+        let area: f32 = mesh
+            .indices
+            .chunks(3)
+            .map(|t| {
+                let [a, b, c] = [0, 1, 2].map(|k| mesh.vertices[t[k] as usize].pos);
+                ((b - a).x * (c - a).y - (b - a).y * (c - a).x).abs() / 2.0
+            })
+            .sum();
+        let perimeter = std::f32::consts::TAU * 100.0;
+        let share = DASH_PT.0 / (DASH_PT.0 + DASH_PT.1);
+        assert!(
+            (area / perimeter - share).abs() < 0.02,
+            "dashed share {} against {share}",
+            area / perimeter
+        );
     }
 }

@@ -1,8 +1,9 @@
 //! The terrain as the map shows it: a whole-raster overview read decimated once, plus one
 //! detail window read on demand at the resolution the current zoom needs. Both are shaded on
-//! a worker thread so panning and zooming never wait for GDAL.
+//! a worker thread so panning and zooming never wait for GDAL. Each level keeps its heights,
+//! hillshade and slope, so a change of layer re-colours without reading or deriving again.
 
-use crate::shading;
+use crate::shading::{self, Derived, MapLayer};
 use egui::{ColorImage, TextureHandle, TextureOptions};
 use std::sync::mpsc::{channel, Receiver};
 use std::sync::Arc;
@@ -40,13 +41,21 @@ struct Shaded {
     key: WindowKey,
     image: ColorImage,
     grid: ElevationGrid,
+    derived: Derived,
+    layer: MapLayer,
+    /// Top of the slope scale (the overview's; a detail level reuses it).
+    slope_top_deg: f32,
 }
 
-/// One shaded level on the GPU, with its heights kept for the cursor read-out.
+/// One shaded level on the GPU, with its heights kept for the cursor read-out and its
+/// derivatives for re-colouring.
 pub struct Level {
     pub key: WindowKey,
     pub texture: TextureHandle,
     pub grid: ElevationGrid,
+    derived: Derived,
+    /// The layer the texture shows.
+    layer: MapLayer,
 }
 
 impl Level {
@@ -66,23 +75,48 @@ pub struct TerrainLayer {
     pub detail: Option<Level>,
     /// Height range of the overview, for the tint and the legend.
     pub range_m: Option<(f32, f32)>,
+    /// Top of the slope colour scale, degrees (from the overview), for the legend.
+    pub slope_top_deg: Option<f32>,
+    /// What the levels are coloured as.
+    layer: MapLayer,
     pending_overview: Option<Receiver<Result<Shaded, String>>>,
     pending_detail: Option<(WindowKey, Receiver<Result<Shaded, String>>)>,
     pub error: Option<String>,
 }
 
-fn shade_window(dem: &Dem, key: WindowKey, range: Option<(f32, f32)>) -> Result<Shaded, String> {
+/// Read a window, derive hillshade and slope once, and colour it as `layer`. The overview
+/// (no `scales` yet) sets the height range and the top of the slope scale.
+fn shade_window(
+    dem: &Dem,
+    key: WindowKey,
+    scales: Option<((f32, f32), f32)>,
+    layer: MapLayer,
+) -> Result<Shaded, String> {
     let grid = dem
         .read_window_decimated(key.col, key.row, key.width, key.height, key.factor)
         .map_err(|e| e.to_string())?;
-    let range = range.or_else(|| grid.min_max()).unwrap_or((0.0, 1.0));
-    let image = shading::shaded_relief(&grid, range);
-    Ok(Shaded { key, image, grid })
+    let derived = Derived::of(&grid);
+    let (range, slope_top_deg) = scales.unwrap_or_else(|| {
+        (
+            grid.min_max().unwrap_or((0.0, 1.0)),
+            shading::slope_scale_top_deg(&derived.slope_deg),
+        )
+    });
+    let image = shading::colour_level(&grid, &derived, layer, range, slope_top_deg);
+    Ok(Shaded {
+        key,
+        image,
+        grid,
+        derived,
+        layer,
+        slope_top_deg,
+    })
 }
 
 impl TerrainLayer {
     /// Start shading the overview in the background.
     pub fn new(dem: Arc<Dem>, ctx: &egui::Context) -> Self {
+        let layer = MapLayer::default();
         let (w, h) = (dem.width(), dem.height());
         let factor = w.max(h).div_ceil(OVERVIEW_MAX_SIDE_PX).max(1);
         let key = WindowKey {
@@ -95,7 +129,7 @@ impl TerrainLayer {
         let (tx, rx) = channel();
         let (dem2, ctx2) = (dem.clone(), ctx.clone());
         std::thread::spawn(move || {
-            let _ = tx.send(shade_window(&dem2, key, None));
+            let _ = tx.send(shade_window(&dem2, key, None, layer));
             ctx2.request_repaint();
         });
         TerrainLayer {
@@ -103,6 +137,8 @@ impl TerrainLayer {
             overview: None,
             detail: None,
             range_m: None,
+            slope_top_deg: None,
+            layer,
             pending_overview: Some(rx),
             pending_detail: None,
             error: None,
@@ -117,7 +153,8 @@ impl TerrainLayer {
         self.pending_overview.is_some() || self.pending_detail.is_some()
     }
 
-    /// Collect finished work; upload to textures.
+    /// Collect finished work; upload to textures (re-coloured if the layer changed while
+    /// it was being shaded).
     pub fn poll(&mut self, ctx: &egui::Context) {
         if let Some(rx) = &self.pending_overview {
             if let Ok(res) = rx.try_recv() {
@@ -125,13 +162,8 @@ impl TerrainLayer {
                 match res {
                     Ok(s) => {
                         self.range_m = s.grid.min_max();
-                        let texture =
-                            ctx.load_texture("terrain-overview", s.image, TextureOptions::LINEAR);
-                        self.overview = Some(Level {
-                            key: s.key,
-                            texture,
-                            grid: s.grid,
-                        });
+                        self.slope_top_deg = Some(s.slope_top_deg);
+                        self.overview = Some(Level::upload(ctx, "terrain-overview", s));
                     }
                     Err(e) => self.error = Some(e),
                 }
@@ -141,19 +173,12 @@ impl TerrainLayer {
             if let Ok(res) = rx.try_recv() {
                 self.pending_detail = None;
                 match res {
-                    Ok(s) => {
-                        let texture =
-                            ctx.load_texture("terrain-detail", s.image, TextureOptions::LINEAR);
-                        self.detail = Some(Level {
-                            key: s.key,
-                            texture,
-                            grid: s.grid,
-                        });
-                    }
+                    Ok(s) => self.detail = Some(Level::upload(ctx, "terrain-detail", s)),
                     Err(e) => self.error = Some(e),
                 }
             }
         }
+        self.recolour();
     }
 
     /// Ask for the detail the view needs: `visible` is the source-pixel rectangle on screen and
@@ -212,12 +237,40 @@ impl TerrainLayer {
             height,
         };
         let (tx, rx) = channel();
-        let (dem, ctx2, range) = (self.dem.clone(), ctx.clone(), self.range_m);
+        let (dem, ctx2, layer) = (self.dem.clone(), ctx.clone(), self.layer);
+        let scales = self.range_m.zip(self.slope_top_deg);
         std::thread::spawn(move || {
-            let _ = tx.send(shade_window(&dem, key, range));
+            let _ = tx.send(shade_window(&dem, key, scales, layer));
             ctx2.request_repaint();
         });
         self.pending_detail = Some((key, rx));
+    }
+
+    /// What the terrain is coloured as.
+    pub fn layer(&self) -> MapLayer {
+        self.layer
+    }
+
+    /// Colour the terrain as `layer`: the levels on screen are re-coloured from the hillshade
+    /// and slope they keep (no read, no derivative computed again); work still pending is
+    /// re-coloured when it arrives.
+    pub fn set_layer(&mut self, layer: MapLayer) {
+        self.layer = layer;
+        self.recolour();
+    }
+
+    fn recolour(&mut self) {
+        let (Some(range), Some(top)) = (self.range_m, self.slope_top_deg) else {
+            return;
+        };
+        let layer = self.layer;
+        for level in [&mut self.overview, &mut self.detail].into_iter().flatten() {
+            if level.layer != layer {
+                let image = shading::colour_level(&level.grid, &level.derived, layer, range, top);
+                level.texture.set(image, TextureOptions::LINEAR);
+                level.layer = layer;
+            }
+        }
     }
 
     /// Height under a source-pixel position from the finest level that covers it.
@@ -226,5 +279,17 @@ impl TerrainLayer {
             .as_ref()
             .and_then(|d| d.height_at(col, row))
             .or_else(|| self.overview.as_ref()?.height_at(col, row))
+    }
+}
+
+impl Level {
+    fn upload(ctx: &egui::Context, name: &str, s: Shaded) -> Level {
+        Level {
+            key: s.key,
+            texture: ctx.load_texture(name, s.image, TextureOptions::LINEAR),
+            grid: s.grid,
+            derived: s.derived,
+            layer: s.layer,
+        }
     }
 }

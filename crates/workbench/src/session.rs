@@ -30,6 +30,8 @@ pub struct Session {
     pub scroll_table_to_selection: bool,
     /// Decisions and notes, by candidate id (kept in the study file).
     pub reviews: BTreeMap<u32, CandidateReview>,
+    /// How longitudes are written on every screen (the user's choice).
+    pub lon_convention: survey::LonConvention,
     generation: u64,
 }
 
@@ -49,6 +51,7 @@ impl Default for Session {
             centre_map_on_selection: false,
             scroll_table_to_selection: false,
             reviews: BTreeMap::new(),
+            lon_convention: Default::default(),
             generation: 0,
         }
     }
@@ -182,5 +185,5 @@ impl Session {
 
 /// How a candidate is named on screen: stable across rankings.
 pub fn candidate_label(id: u32) -> String {
-    format!("C-{id:05}")
+    survey::candidate_name(id)
 }
