@@ -9,11 +9,14 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 
 /// Choose lunar craters to host a large far-side structure, from orbital elevation data.
-///
-/// Screening estimates from orbital data; real site decisions rest on mission-grade analysis
-/// and the responsible engineering authority's review.
 #[derive(Parser)]
-#[command(name = "quietbowl", version, about, long_about = None)]
+#[command(
+    name = "quietbowl",
+    version,
+    about,
+    long_about = None,
+    after_help = format!("{}\n{}", siting::SCREENING_CAUTION, siting::VERDICT_SCOPE),
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,

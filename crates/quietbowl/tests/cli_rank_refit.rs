@@ -93,7 +93,7 @@ fn criteria_with_another_dish_refit_the_survey_before_ranking() {
     assert_eq!(n_same, n_default);
     let (said, n_wide) = rank("wide-dish", "\n[structure]\naperture_diameter_m = 700.0\n");
     assert!(
-        said.contains("refitting its") && said.contains("a 700 m paraboloid at f/D 0.5"),
+        said.contains("refitting its") && said.contains("a 700 m paraboloid at f/D 0.50"),
         "{said}"
     );
     assert!(said.contains("refitted"), "{said}");

@@ -19,6 +19,7 @@ pub mod smaa;
 pub mod study;
 pub mod table;
 pub mod utility;
+pub mod words;
 
 pub use criteria::{
     Criteria, CriteriaError, Requirement, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling,
@@ -31,9 +32,14 @@ pub use ranking::{
 };
 pub use smaa::{smaa, SmaaResult};
 pub use study::Study;
+pub use words::{dish_summary, structure_summary};
 
 /// Shown with every ranking the tool presents (DEVELOPERS.md; domain notes section 8).
 pub const SCREENING_CAUTION: &str = "Screening estimates from orbital data; real site decisions rest on mission-grade analysis and the responsible engineering authority's review.";
+
+/// What every verdict ("meets limits", "fits the stated envelope on this DEM") leaves out;
+/// shown beside the caution wherever verdicts are shown.
+pub const VERDICT_SCOPE: &str = "Verdicts are screening only: loads, cable dynamics, ground bearing, thermal effects and DEM vertical error are not assessed.";
 
 /// Tool name and version recorded in every export and study file.
 pub const TOOL_VERSION: &str = concat!("quietbowl ", env!("CARGO_PKG_VERSION"));

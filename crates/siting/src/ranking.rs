@@ -142,7 +142,7 @@ impl PreparedTable {
             .iter()
             .zip(&criteria.criteria)
             .find(|(s, c)| **s != shape_only(c))
-            .map(|(s, _)| format!("soft criterion on {} changed", s.metric))
+            .map(|(s, _)| format!("soft criterion on {} changed", survey::label_of(&s.metric)))
     }
 
     pub fn len(&self) -> usize {

@@ -18,7 +18,8 @@ pub struct FailedRequirement {
 }
 
 impl FailedRequirement {
-    /// One line a person can read: `diameter_m 2300 above max 2000 by 300`.
+    /// The file form, with the metric's id and plain numbers (export columns keep it):
+    /// `diameter_m 2300 above max 2000 by 300`.
     pub fn describe(&self) -> String {
         let g = |v: f64| crate::table::fmt_num(v);
         match (self.value, self.min, self.max) {
@@ -40,6 +41,53 @@ impl FailedRequirement {
                 g(v - max)
             ),
             (Some(v), _, None) => format!("{} {} outside bounds", self.metric, g(v)),
+        }
+    }
+
+    /// The same for a person, in the metric's label and units (`survey::METRICS`): "Diameter
+    /// 71.3 km: 69.3 km over the 2.00 km maximum"; a yes/no limit as "Structure fits: no
+    /// (required)"; "Earth shielding margin: not measured".
+    pub fn in_words(&self) -> String {
+        let info = survey::metrics::metric(&self.metric);
+        let label = survey::label_of(&self.metric);
+        let f = |v: f64| info.map_or_else(|| crate::table::fmt_num(v), |m| m.format(v));
+        let Some(v) = self.value else {
+            return format!("{label}: not measured");
+        };
+        let below = self.min.filter(|&min| v < min);
+        let above = self.max.filter(|&max| v > max);
+        if info.is_some_and(|m| m.is_flag()) {
+            let wanted = if below.is_some() {
+                "required"
+            } else {
+                "must be no"
+            };
+            return format!("{label}: {} ({wanted})", f(v));
+        }
+        // A margin that rounds to nothing in the value's format would read "0.000 under":
+        // say how close it is instead.
+        let by = |margin: f64, word: &str| {
+            let m = f(margin);
+            if m == f(0.0) {
+                format!("just {word}")
+            } else {
+                format!("{m} {word}")
+            }
+        };
+        match (below, above) {
+            (Some(min), _) => format!(
+                "{label} {}: {} the {} minimum",
+                f(v),
+                by(min - v, "under"),
+                f(min)
+            ),
+            (None, Some(max)) => format!(
+                "{label} {}: {} the {} maximum",
+                f(v),
+                by(v - max, "over"),
+                f(max)
+            ),
+            (None, None) => format!("{label} {}: outside its limits", f(v)),
         }
     }
 }
@@ -64,4 +112,101 @@ pub fn check(req: &Requirement, value: Option<f64>) -> Option<FailedRequirement>
         return Some(fail(Some(v), Some(v - max)));
     }
     None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn failed(metric: &str, min: Option<f64>, max: Option<f64>, value: Option<f64>) -> String {
+        let req = Requirement {
+            metric: metric.into(),
+            min,
+            max,
+            why: String::new(),
+        };
+        check(&req, value)
+            .expect("the value breaks the requirement")
+            .in_words()
+    }
+
+    #[test]
+    fn length_over_its_maximum_reads_in_km() {
+        assert_eq!(
+            failed("diameter_m", Some(800.0), Some(2000.0), Some(71_317.0)),
+            "Diameter 71.3 km: 69.3 km over the 2.00 km maximum"
+        );
+    }
+
+    #[test]
+    fn length_under_its_minimum_reads_in_metres() {
+        assert_eq!(
+            failed("diameter_m", Some(800.0), Some(2000.0), Some(500.0)),
+            "Diameter 500 m: 300 m under the 800 m minimum"
+        );
+    }
+
+    #[test]
+    fn ratio_angle_and_share_read_with_their_own_format() {
+        assert_eq!(
+            failed("depth_to_diameter", Some(0.15), Some(0.3), Some(0.1)),
+            "Depth/diameter (d/D) 0.100: 0.050 under the 0.150 minimum"
+        );
+        assert_eq!(
+            failed("earth_clearance_deg", Some(1.0), None, Some(-3.3)),
+            "Earth shielding margin -3.3°: 4.3° under the 1.0° minimum"
+        );
+        assert_eq!(
+            failed("valid_fraction", Some(0.9), None, Some(0.85)),
+            "Data coverage 85 %: 5 % under the 90 % minimum"
+        );
+    }
+
+    #[test]
+    fn yes_no_limits_read_as_yes_or_no() {
+        assert_eq!(
+            failed("fit_ok", Some(1.0), None, Some(0.0)),
+            "Structure fits: no (required)"
+        );
+        assert_eq!(
+            failed("far_side_band", Some(1.0), None, Some(0.0)),
+            "In the far-side band: no (required)"
+        );
+        assert_eq!(
+            failed("far_side_band", None, Some(0.0), Some(1.0)),
+            "In the far-side band: yes (must be no)"
+        );
+    }
+
+    #[test]
+    fn a_margin_too_small_to_print_reads_as_just_outside() {
+        assert_eq!(
+            failed("depth_to_diameter", Some(0.15), None, Some(0.1499)),
+            "Depth/diameter (d/D) 0.150: just under the 0.150 minimum"
+        );
+    }
+
+    #[test]
+    fn unmeasured_value_names_the_label() {
+        assert_eq!(
+            failed("earth_clearance_deg", Some(1.0), None, None),
+            "Earth shielding margin: not measured"
+        );
+    }
+
+    #[test]
+    fn no_reason_in_words_shows_a_metric_id() {
+        for m in survey::METRICS {
+            for text in [
+                failed(m.name, Some(1.0e9), None, Some(0.0)),
+                failed(m.name, None, Some(-1.0e9), Some(0.0)),
+                failed(m.name, Some(0.0), None, None),
+            ] {
+                assert!(
+                    !survey::METRICS.iter().any(|n| text.contains(n.name)),
+                    "{text}"
+                );
+            }
+        }
+    }
 }

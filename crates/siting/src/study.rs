@@ -45,12 +45,20 @@ pub struct Study {
     pub schema_version: u32,
     /// quietbowl version that last saved the study.
     pub tool_version: String,
+    /// The screening caution ([`crate::SCREENING_CAUTION`]), so the file carries it wherever
+    /// it goes. Files saved before the field existed read with the current one.
+    #[serde(default = "current_caution")]
+    pub caution: String,
     pub dem_path: String,
     pub dem_sha256: String,
     pub survey: SurveyFile,
     pub criteria: Criteria,
     /// Keyed by candidate id.
     pub reviews: BTreeMap<u32, CandidateReview>,
+}
+
+fn current_caution() -> String {
+    crate::SCREENING_CAUTION.to_string()
 }
 
 /// Why a study file cannot be opened.
@@ -80,6 +88,7 @@ impl Study {
             format: STUDY_FORMAT.to_string(),
             schema_version: STUDY_VERSION,
             tool_version: crate::TOOL_VERSION.to_string(),
+            caution: current_caution(),
             dem_path: survey.input.path.clone(),
             dem_sha256: survey.input.sha256.clone(),
             survey,
@@ -130,7 +139,9 @@ impl Study {
                 });
             }
         }
-        let study: Study = serde_json::from_value(value)?;
+        let mut study: Study = serde_json::from_value(value)?;
+        // The caution is the tool's, not the file's: an older wording is not kept.
+        study.caution = current_caution();
         if study.dem_sha256 != study.survey.input.sha256 {
             return Err(StudyError::ChecksumMismatch {
                 study: study.dem_sha256.clone(),

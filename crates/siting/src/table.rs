@@ -1,4 +1,4 @@
-//! The ranked table as terminal text, with the screening caution.
+//! The ranked table as terminal text, in the metrics' labels, with the screening caution.
 
 use std::fmt::Write;
 
@@ -21,15 +21,60 @@ pub fn fmt_num(v: f64) -> String {
     }
 }
 
-fn metric(survey: &SurveyFile, i: usize, name: &str, decimals: usize) -> String {
-    survey::metrics::metric(name)
-        .and_then(|m| (m.get)(&survey.candidates[i]))
-        .filter(|v| v.is_finite())
-        .map_or_else(|| "-".to_string(), |v| format!("{v:.decimals$}"))
+/// The metrics the terminal table shows, in order, after rank and id.
+const TABLE_METRICS: [&str; 8] = [
+    "lon_deg",
+    "lat_deg",
+    "diameter_m",
+    "depth_to_diameter",
+    "rim_completeness",
+    "floor_tilt_deg",
+    "earth_clearance_deg",
+    "gc_separation_deg",
+];
+
+/// One cell of a metric column: the number in the header's unit (`survey::METRICS`);
+/// longitudes in -180..180.
+fn metric_cell(survey: &SurveyFile, i: usize, name: &str) -> String {
+    let Some(m) = survey::metrics::metric(name) else {
+        return "-".into();
+    };
+    let v = (m.get)(&survey.candidates[i]);
+    let v = if name == "lon_deg" {
+        v.map(terrain::projection::wrap_deg_180)
+    } else {
+        v
+    };
+    m.format_number(v)
 }
 
-/// The best `top_n` rows as a fixed-width table, then the failed requirements of the rows
-/// shown, then the screening caution.
+/// Right-aligned columns, each as wide as its widest cell or header.
+fn aligned(rows: &[Vec<String>]) -> Vec<String> {
+    let cols = rows.iter().map(Vec::len).max().unwrap_or(0);
+    let width: Vec<usize> = (0..cols)
+        .map(|k| {
+            rows.iter()
+                .filter_map(|r| r.get(k))
+                .map(|c| c.chars().count())
+                .max()
+                .unwrap_or(0)
+        })
+        .collect();
+    rows.iter()
+        .map(|r| {
+            let cells: Vec<String> = r
+                .iter()
+                .zip(&width)
+                .map(|(c, &w)| format!("{c:>w$}"))
+                .collect();
+            cells.join("  ").trim_end().to_string()
+        })
+        .collect()
+}
+
+/// The best `top_n` rows as a fixed-width table (headers in the metrics' short labels and
+/// units), then why each row shown fails the limits, in words, then what the short labels
+/// stand for, then the screening caution and what the verdicts leave out.
 pub fn render_table(
     survey: &SurveyFile,
     table: &PreparedTable,
@@ -48,78 +93,61 @@ pub fn render_table(
         let _ = writeln!(out, "{}", crate::SCREENING_CAUTION);
         return out;
     }
-    let mut head = format!(
-        "{:>5} {:>7} {:>10} {:>8} {:>8} {:>6} {:>6} {:>6} {:>7} {:>7} {:>6} {:>4}",
-        "rank",
-        "id",
-        "lon_deg",
-        "lat_deg",
-        "diam_m",
-        "d/D",
-        "compl",
-        "tilt",
-        "earth",
-        "gc_sep",
-        "score",
-        "pass"
-    );
+    let shown: Vec<&survey::MetricInfo> = TABLE_METRICS
+        .iter()
+        .filter_map(|n| survey::metrics::metric(n))
+        .collect();
+    let mut head: Vec<String> = vec!["Rank".into(), "Id".into()];
+    head.extend(shown.iter().map(|m| m.header()));
+    head.extend(["Score".into(), "Meets limits".into()]);
     if let Some(s) = smaa {
-        let _ = write!(
-            head,
-            " {:>6} {:>7}",
-            "P(1)",
-            format!("P(<={})", s.settings.top_n)
-        );
+        head.extend([
+            "P(rank 1)".into(),
+            format!("P(top {})", s.settings.top_n),
+        ]);
     }
-    let _ = writeln!(out, "{head}");
+    let mut rows = vec![head];
     let mut notes = Vec::new();
     for e in ranking.entries(table).take(top_n) {
         let i = e.index;
-        let c = &survey.candidates[i].crater;
-        let lon = terrain::projection::wrap_deg_180(c.centre_lon_deg);
-        let pass = if e.passed() {
+        let mut row = vec![e.rank.to_string(), e.id().to_string()];
+        row.extend(shown.iter().map(|m| metric_cell(survey, i, m.name)));
+        row.push(format!("{:.3}", e.score));
+        row.push(if e.passed() {
             "yes".to_string()
         } else {
-            format!("no{}", e.failures().len())
-        };
-        let mut line = format!(
-            "{:>5} {:>7} {:>10.4} {:>8.4} {:>8} {:>6} {:>6} {:>6} {:>7} {:>7} {:>6.3} {:>4}",
-            e.rank,
-            e.id(),
-            lon,
-            c.centre_lat_deg,
-            metric(survey, i, "diameter_m", 0),
-            metric(survey, i, "depth_to_diameter", 3),
-            metric(survey, i, "rim_completeness", 2),
-            metric(survey, i, "floor_tilt_deg", 1),
-            metric(survey, i, "earth_clearance_deg", 2),
-            metric(survey, i, "gc_separation_deg", 1),
-            e.score,
-            pass
-        );
+            format!("no ({})", e.failures().len())
+        });
         if let Some(s) = smaa {
-            match s.probabilities(i) {
-                Some((p1, pn)) => {
-                    let _ = write!(line, " {p1:>6.3} {pn:>7.3}");
-                }
-                None => {
-                    let _ = write!(line, " {:>6} {:>7}", "-", "-");
-                }
-            }
+            let (p1, pn) = s
+                .probabilities(i)
+                .map_or(("-".into(), "-".into()), |(p1, pn)| {
+                    (format!("{p1:.3}"), format!("{pn:.3}"))
+                });
+            row.extend([p1, pn]);
         }
-        let _ = writeln!(out, "{}", line.trim_end());
+        rows.push(row);
         if !e.passed() {
-            let why: Vec<String> = e.failures().iter().map(|f| f.describe()).collect();
+            let why: Vec<String> = e.failures().iter().map(|f| f.in_words()).collect();
             notes.push(format!("  id {}: {}", e.id(), why.join("; ")));
         }
     }
+    for line in aligned(&rows) {
+        let _ = writeln!(out, "{line}");
+    }
     if !notes.is_empty() {
-        let _ = writeln!(out, "\nfailed requirements:");
+        let _ = writeln!(out, "\nWhy these fail the limits:");
         for n in notes {
             let _ = writeln!(out, "{n}");
         }
     }
-    let _ = writeln!(out, "\nlon/lat deg; diam_m rim diameter; compl rim completeness; tilt floor tilt deg; earth Earth clearance deg; gc_sep galactic-centre separation deg.");
+    let key: Vec<String> = shown
+        .iter()
+        .filter(|m| m.short != m.label)
+        .map(|m| format!("{} = {}", m.short, m.label))
+        .collect();
+    let _ = writeln!(out, "\n{}.", key.join("; "));
+    let _ = writeln!(out, "{}", crate::VERDICT_SCOPE);
     let _ = writeln!(out, "{}", crate::SCREENING_CAUTION);
     out
 }

@@ -100,22 +100,51 @@ fn edited_study_with_inconsistent_checksum_or_criteria_is_refused() {
 }
 
 #[test]
+fn study_file_carries_the_screening_caution() {
+    let text = study().to_json().unwrap();
+    let j: serde_json::Value = serde_json::from_str(&text).unwrap();
+    assert_eq!(j["caution"].as_str(), Some(SCREENING_CAUTION));
+    // A file saved before the field existed opens, with the caution of this build.
+    let mut old = j.clone();
+    old.as_object_mut().unwrap().remove("caution");
+    let reopened = Study::from_json(&old.to_string()).unwrap();
+    assert_eq!(reopened.caution, SCREENING_CAUTION);
+}
+
+#[test]
 fn table_lists_the_columns_rows_failures_and_caution() {
     let f = Fixture::new();
     let text = render_table(&f.survey, &f.table, &f.ranking, Some(&f.smaa), 10);
     let lines: Vec<&str> = text.lines().collect();
     for col in [
-        "rank", "id", "lon_deg", "lat_deg", "diam_m", "d/D", "compl", "tilt", "earth", "gc_sep",
-        "score", "pass", "P(1)",
+        "Rank",
+        "Id",
+        "Lon [°]",
+        "Lat [°]",
+        "Diam. [m]",
+        "d/D",
+        "Rim compl. [%]",
+        "Floor tilt [°]",
+        "Earth margin [°]",
+        "Gal. centre [°]",
+        "Score",
+        "Meets limits",
+        "P(rank 1)",
+        "P(top 10)",
     ] {
         assert!(lines[0].contains(col), "header lacks {col}: {}", lines[0]);
     }
     assert!(lines[1].trim_start().starts_with("1 "));
     assert!(
-        text.contains("id 5: earth_clearance_deg not measured"),
+        text.contains("id 5: Earth shielding margin: not measured"),
         "{text}"
     );
+    // No metric id anywhere a person reads.
+    for m in survey::METRICS {
+        assert!(!text.contains(m.name), "{} in the table:\n{text}", m.name);
+    }
     assert_eq!(lines.last().copied(), Some(SCREENING_CAUTION));
+    assert!(text.contains(siting::VERDICT_SCOPE));
     // The longitude of the crater on 180 prints in -180..180.
-    assert!(text.contains("-180.0000"), "{text}");
+    assert!(text.contains("-180.000"), "{text}");
 }

@@ -44,13 +44,15 @@ pub struct MetricInfo {
 }
 
 impl MetricInfo {
-    /// A value as a person reads it, with its unit: "71.3 km", "0.183", "93 %", "yes".
+    /// A value as a person reads it, with its unit: "71.3 km", "2.00 km", "800 m", "0.183",
+    /// "93 %", "yes".
     pub fn format(&self, v: f64) -> String {
         if !v.is_finite() {
             return "no value".to_string();
         }
         match self.kind {
             MetricKind::Length if v.abs() >= 10_000.0 => format!("{:.1} km", v / 1000.0),
+            MetricKind::Length if v.abs() >= 1_000.0 => format!("{:.2} km", v / 1000.0),
             MetricKind::Length if v.abs() >= 100.0 => format!("{v:.0} m"),
             MetricKind::Length => format!("{v:.1} m"),
             MetricKind::Volume if v.abs() >= 1.0e6 => format!("{:.2} million m³", v / 1.0e6),
@@ -59,6 +61,25 @@ impl MetricInfo {
             MetricKind::Coordinate => format!("{v:.3}°"),
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0} %", v * 100.0),
+            MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
+        }
+    }
+
+    /// A value as a table cell under a header that carries [`MetricInfo::unit_suffix`]: the
+    /// number alone, in that unit ("1234" under "[m]", "93" under "[%]"), with fixed decimals
+    /// per kind so a column lines up; "–" for a missing value.
+    pub fn format_number(&self, v: Option<f64>) -> String {
+        let Some(v) = v.filter(|v| v.is_finite()) else {
+            return "–".to_string();
+        };
+        match self.kind {
+            MetricKind::Length if v.abs() >= 100.0 => format!("{v:.0}"),
+            MetricKind::Length => format!("{v:.1}"),
+            MetricKind::Volume => format!("{v:.0}"),
+            MetricKind::Angle => format!("{v:.1}"),
+            MetricKind::Coordinate => format!("{v:.3}"),
+            MetricKind::Ratio => format!("{v:.3}"),
+            MetricKind::Fraction => format!("{:.0}", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
         }
     }
@@ -74,9 +95,30 @@ impl MetricInfo {
         }
     }
 
+    /// A table header: the short label with its unit, "Diam. [m]".
+    pub fn header(&self) -> String {
+        format!("{}{}", self.short, self.unit_suffix())
+    }
+
+    /// A tooltip: label, meaning, and the id the metric has in files (the only place a
+    /// person meets the id on screen).
+    pub fn hint(&self) -> String {
+        format!(
+            "{}: {}.\nid in files: {}",
+            self.label, self.description, self.name
+        )
+    }
+
     /// True for yes/no metrics (limits on them are checkboxes).
     pub fn is_flag(&self) -> bool {
         self.kind == MetricKind::Flag
+    }
+
+    /// Whether `needle` (lower case) names this metric: part of its label, short label or id.
+    pub fn matches(&self, needle: &str) -> bool {
+        [self.label, self.short, self.name]
+            .iter()
+            .any(|t| t.to_lowercase().contains(needle))
     }
 }
 
@@ -225,7 +267,7 @@ pub static METRICS: &[MetricInfo] = &[
     crater!(
         "roughness_rms_m",
         "Floor roughness (RMS)",
-        "Rough.",
+        "Roughness",
         Length,
         "m",
         "RMS floor height after removing a smooth bowl",
@@ -297,7 +339,7 @@ pub static METRICS: &[MetricInfo] = &[
     vis!(
         "gc_separation_deg",
         "Beam closest to galactic centre",
-        "GC sep.",
+        "Gal. centre",
         Angle,
         "deg",
         "closest approach of a zenith-fixed beam to the galactic centre",
@@ -306,7 +348,7 @@ pub static METRICS: &[MetricInfo] = &[
     vis!(
         "plane_fraction",
         "Beam time near galactic plane",
-        "Plane frac.",
+        "Gal. plane",
         Fraction,
         "",
         "fraction of the beam's sky track near the galactic plane",
@@ -355,7 +397,7 @@ pub static METRICS: &[MetricInfo] = &[
     fit!(
         "excavation_m3",
         "Excavation volume",
-        "Excav.",
+        "Excavation",
         Volume,
         "m3",
         "ground to remove to reach the clearance"
@@ -406,6 +448,11 @@ mod tests {
         let d = super::metric("diameter_m").unwrap();
         assert_eq!(d.format(71_317.0), "71.3 km");
         assert_eq!(d.format(800.0), "800 m");
+        assert_eq!(d.format(2_000.0), "2.00 km");
+        assert_eq!(d.format(12.34), "12.3 m");
+        assert_eq!(d.format_number(Some(800.0)), "800");
+        assert_eq!(d.format_number(None), "–");
+        assert_eq!(d.header(), "Diam. [m]");
         assert_eq!(super::metric("fit_ok").unwrap().format(1.0), "yes");
         assert_eq!(super::metric("valid_fraction").unwrap().format(0.934), "93 %");
         assert_eq!(super::metric("depth_to_diameter").unwrap().format(0.1834), "0.183");

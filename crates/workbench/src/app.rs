@@ -419,18 +419,7 @@ impl WorkbenchApp {
 
     fn handle_export(&mut self, ctx: &egui::Context, req: ExportRequest) {
         match req.format {
-            ExportFormat::MapPicture => {
-                let Some(rect) = self.map.last_rect else {
-                    return;
-                };
-                let path = req.path.clone();
-                let ppp = ctx.pixels_per_point();
-                ctx.request_screenshot(move |image| {
-                    let region = image.region(&rect, Some(ppp));
-                    let _ = crate::save_png(&path, &region);
-                });
-                self.export.status = Some(Ok(format!("Picture written to {}", req.path.display())));
-            }
+            ExportFormat::MapPicture => self.export.request_picture(ctx, req.path),
             _ => {
                 self.export.status = Some(crate::engine::export(&self.session, &req));
             }
@@ -530,7 +519,7 @@ impl WorkbenchApp {
                 ui.label(&self.status);
             });
             ui.label(
-                RichText::new(SCREENING_CAUTION)
+                RichText::new(format!("{SCREENING_CAUTION} {}", siting::VERDICT_SCOPE))
                     .small()
                     .color(Color32::from_rgb(230, 200, 120)),
             );
@@ -584,6 +573,7 @@ impl WorkbenchApp {
         if let Some(req) = self.export.ui(&ctx) {
             self.handle_export(&ctx, req);
         }
+        self.export.capture_map(&ctx, self.map.last_rect);
     }
 }
 

@@ -149,21 +149,20 @@ impl CraterSheet {
             }
             SheetTab::Robustness => self.smaa_ui(ui, session, index),
             SheetTab::Numbers => {
-                egui::Grid::new("sheet-metrics").striped(true).num_columns(3).show(ui, |ui| {
+                egui::Grid::new("sheet-metrics").striped(true).num_columns(2).show(ui, |ui| {
                     let sd = |name: &str| match name {
                         "diameter_m" => Some(m.diameter_sd_m),
                         "depth_m" => Some(m.depth_sd_m),
                         _ => None,
                     };
                     for info in METRICS {
-                        ui.label(info.name).on_hover_text(info.description);
+                        ui.label(info.label).on_hover_text(info.hint());
                         let text = match ((info.get)(&c), sd(info.name)) {
-                            (Some(v), Some(s)) => format!("{v:.1} ± {s:.1}"),
-                            (Some(v), None) => format!("{v:.3}"),
+                            (Some(v), Some(s)) => format!("{} ± {}", info.format(v), info.format(s)),
+                            (Some(v), None) => info.format(v),
                             (None, _) => "not measured".into(),
                         };
                         ui.label(text);
-                        ui.label(info.unit);
                         ui.end_row();
                     }
                 });

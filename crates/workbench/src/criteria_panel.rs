@@ -29,18 +29,12 @@ pub enum CriteriaRequest {
     Load,
 }
 
-fn unit_of(metric: &str) -> &'static str {
-    METRICS
-        .iter()
-        .find(|m| m.name == metric)
-        .map_or("", |m| m.unit)
-}
-
+/// What a person reads for a metric: its label and unit (`survey::METRICS`).
 fn with_unit(metric: &str) -> String {
-    match unit_of(metric) {
-        "" => metric.to_owned(),
-        u => format!("{metric} [{u}]"),
-    }
+    survey::metric(metric).map_or_else(
+        || metric.to_owned(),
+        |m| format!("{}{}", m.label, m.unit_suffix()),
+    )
 }
 
 impl CriteriaPanel {
@@ -93,6 +87,7 @@ impl CriteriaPanel {
         let mut edited = session.criteria.clone();
         ui.heading("Weights and limits");
         ui.label(RichText::new(&edited.title).weak());
+        ui.label(RichText::new(siting::dish_summary(&edited, session.survey.as_ref().and_then(|s| s.parameters.structure.as_ref()))).small());
         if let Some(e) = &session.criteria_error {
             ui.colored_label(
                 Color32::from_rgb(240, 140, 120),
@@ -115,7 +110,7 @@ impl CriteriaPanel {
                             }
                             if let Some(v) = bound {
                                 ui.add(egui::Slider::new(v, lo..=hi).clamping(egui::SliderClamping::Never).text("").custom_formatter(|v, _| format!("{v:.3}")))
-                                    .on_hover_text(format!("{} {which}", req.metric));
+                                    .on_hover_text(format!("{} {which}", survey::label_of(&req.metric)));
                             }
                         });
                     }

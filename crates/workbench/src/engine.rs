@@ -197,10 +197,10 @@ pub fn rank_into(
     Ok(())
 }
 
-/// One readable line per requirement a candidate misses.
+/// One line in words per requirement a candidate misses.
 pub fn reasons(table: Option<&PreparedTable>, index: usize) -> Vec<String> {
     match table {
-        Some(t) if index < t.len() => t.failures(index).iter().map(|f| f.describe()).collect(),
+        Some(t) if index < t.len() => t.failures(index).iter().map(|f| f.in_words()).collect(),
         _ => Vec::new(),
     }
 }

@@ -1,16 +1,26 @@
-//! The candidate list: rank, score, pass/fail and every metric with its unit; sortable by any
-//! column, filtered by text and by pass/fail, virtually scrolled so only visible rows are built.
+//! The candidate list: rank, score, whether it meets the limits and why not, Pareto flag,
+//! rank probabilities after a robustness run, and every metric under its label and unit;
+//! sortable by any column, filtered by text and by verdict, virtually scrolled so only visible
+//! rows are built. Metric ids appear only in header tooltips ("id in files").
 
+use crate::engine::SmaaRun;
 use crate::session::{candidate_label, Session};
 use egui::{Align, Color32, RichText};
 use egui_extras::{Column, TableBuilder};
 use survey::METRICS;
+
+const MEETS_COLOUR: Color32 = Color32::from_rgb(120, 200, 120);
+const FAILS_COLOUR: Color32 = Color32::from_rgb(230, 130, 110);
 
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum SortKey {
     Rank,
     Id,
     Score,
+    /// Share of weight draws ranking the candidate first (robustness run).
+    RankFirst,
+    /// Share of weight draws putting it in the top N.
+    TopN,
     Metric(usize),
 }
 
@@ -22,7 +32,9 @@ pub enum StatusFilter {
     Failing,
 }
 
-type ViewKey = (u64, SortKey, bool, String, StatusFilter, usize);
+/// What the listed rows depend on: ranking generation, sort, direction, find text, verdict
+/// filter, candidate count, and which robustness run (if any) the probabilities come from.
+type ViewKey = (u64, SortKey, bool, String, StatusFilter, usize, Option<u64>);
 
 pub struct CandidateTable {
     pub sort: SortKey,
@@ -35,6 +47,10 @@ pub struct CandidateTable {
     /// weights move): rows are read from the ranking's own order, place by place.
     rows_are_ranking: bool,
     rows_key: Option<ViewKey>,
+    /// A robustness run started from the list (the crater sheet can start one too; both
+    /// leave the result in `Session::smaa`).
+    smaa_run: Option<SmaaRun>,
+    smaa_error: Option<String>,
 }
 
 impl Default for CandidateTable {
@@ -47,21 +63,51 @@ impl Default for CandidateTable {
             rows: Vec::new(),
             rows_are_ranking: false,
             rows_key: None,
+            smaa_run: None,
+            smaa_error: None,
         }
     }
 }
 
-/// Fixed decimals by unit so columns line up.
-fn format_value(v: Option<f64>, unit: &str) -> String {
-    match v {
-        None => "–".to_owned(),
-        Some(v) if !v.is_finite() => "–".to_owned(),
-        Some(v) => match unit {
-            "m" => format!("{v:.0}"),
-            "deg" => format!("{v:.2}"),
-            _ => format!("{v:.3}"),
-        },
+/// The robustness result that belongs to the ranking on screen, if any.
+fn current_smaa(session: &Session) -> Option<&siting::SmaaResult> {
+    session
+        .smaa
+        .as_ref()
+        .filter(|(g, _)| *g == session.ranking.generation)
+        .map(|(_, r)| r)
+}
+
+/// Whether a find text (lower case) matches candidate `i`: its name, or, for one that fails,
+/// a limit it fails, by the reason's words or by the metric's label or id.
+fn finds(session: &Session, i: usize, needle: &str) -> bool {
+    if needle.is_empty() {
+        return true;
     }
+    let Some(candidates) = session.survey.as_ref().map(|s| &s.candidates) else {
+        return false;
+    };
+    if candidate_label(candidates[i].id)
+        .to_lowercase()
+        .contains(needle)
+    {
+        return true;
+    }
+    if session.ranking.passed(i) {
+        return false;
+    }
+    let Some(table) = &session.prepared else {
+        return false;
+    };
+    table.failures(i).iter().any(|f| {
+        f.in_words().to_lowercase().contains(needle)
+            || survey::metric(&f.metric).map_or(f.metric.contains(needle), |m| m.matches(needle))
+    })
+}
+
+/// A probability as a table cell.
+fn percent(p: Option<f64>) -> String {
+    p.map_or("–".into(), |p| format!("{:.1} %", p * 100.0))
 }
 
 impl CandidateTable {
@@ -101,6 +147,7 @@ impl CandidateTable {
             self.filter_text.clone(),
             self.status,
             session.candidate_count(),
+            session.smaa.as_ref().map(|(g, _)| *g),
         );
         if self.rows_key.as_ref() == Some(&key) {
             return;
@@ -120,16 +167,7 @@ impl CandidateTable {
                 StatusFilter::Passing => pass,
                 StatusFilter::Failing => !pass,
             };
-            status_ok
-                && (needle.is_empty()
-                    || candidate_label(survey.candidates[i].id)
-                        .to_lowercase()
-                        .contains(&needle)
-                    || (!pass
-                        && session
-                            .reasons(i)
-                            .iter()
-                            .any(|s| s.to_lowercase().contains(&needle))))
+            status_ok && finds(session, i, &needle)
         };
         let unfiltered = needle.is_empty() && self.status == StatusFilter::All;
         let by_rank = matches!(self.sort, SortKey::Rank | SortKey::Score);
@@ -154,20 +192,32 @@ impl CandidateTable {
                 .filter(|&i| keep(i as usize))
                 .collect(),
         };
+        let smaa = current_smaa(session);
+        let probability = |i: u32, first: bool| {
+            let (p1, pn) = smaa?.probabilities(i as usize)?;
+            Some(if first { p1 } else { pn })
+        };
+        let value = |i: u32| -> Option<f64> {
+            match self.sort {
+                SortKey::RankFirst => probability(i, true),
+                SortKey::TopN => probability(i, false),
+                SortKey::Metric(m) => (METRICS[m].get)(&survey.candidates[i as usize]),
+                SortKey::Rank | SortKey::Score | SortKey::Id => None,
+            }
+        };
         match self.sort {
             SortKey::Rank | SortKey::Score => {}
             SortKey::Id => rows.sort_by_key(|&i| survey.candidates[i as usize].id),
-            SortKey::Metric(m) => {
-                let get = METRICS[m].get;
-                // Missing values sort last in either direction.
+            SortKey::RankFirst | SortKey::TopN | SortKey::Metric(_) => {
+                // Missing values sort last in either direction; probabilities read highest
+                // first unless reversed.
+                let descending =
+                    self.descending != matches!(self.sort, SortKey::RankFirst | SortKey::TopN);
                 rows.sort_by(|&a, &b| {
-                    let (va, vb) = (
-                        get(&survey.candidates[a as usize]),
-                        get(&survey.candidates[b as usize]),
-                    );
+                    let (va, vb) = (value(a), value(b));
                     match (va, vb) {
                         (Some(x), Some(y)) => {
-                            if self.descending {
+                            if descending {
                                 y.total_cmp(&x)
                             } else {
                                 x.total_cmp(&y)
@@ -224,26 +274,68 @@ impl CandidateTable {
         }
     }
 
+    /// Start a robustness run of the current ranking, or take in a finished one.
+    fn robustness_controls(&mut self, ui: &mut egui::Ui, session: &mut Session) {
+        if let Some(done) = self.smaa_run.as_ref().and_then(SmaaRun::try_finish) {
+            let generation = self.smaa_run.take().map_or(0, |r| r.generation);
+            match done {
+                Ok(r) => session.smaa = Some((generation, r)),
+                Err(e) => self.smaa_error = Some(e),
+            }
+        }
+        if self.smaa_run.is_some() {
+            ui.spinner();
+            ui.label("Drawing weights…");
+        } else if current_smaa(session).is_none() {
+            let hint = "Draw the weights around the chosen ones many times and count how often \
+                        each candidate comes first or in the top N (SMAA); adds two columns";
+            if ui
+                .button("Rank probabilities")
+                .on_hover_text(hint)
+                .clicked()
+            {
+                if let Some(table) = &session.prepared {
+                    self.smaa_run = Some(SmaaRun::start(
+                        table.clone(),
+                        session.criteria.clone(),
+                        session.ranking.generation,
+                        ui.ctx(),
+                    ));
+                    self.smaa_error = None;
+                }
+            }
+        }
+        if let Some(e) = &self.smaa_error {
+            ui.colored_label(FAILS_COLOUR, e);
+        }
+    }
+
     pub fn ui(&mut self, ui: &mut egui::Ui, session: &mut Session) {
         ui.horizontal(|ui| {
             ui.label("Find:");
             ui.add(
                 egui::TextEdit::singleline(&mut self.filter_text)
-                    .hint_text("name or failure reason")
+                    .hint_text("name, or a limit it fails")
                     .desired_width(180.0),
+            )
+            .on_hover_text(
+                "A candidate's name, or words of a limit it fails: \"diameter\", \"coverage\", \
+                 or the limit's id in files",
             );
             ui.separator();
             ui.selectable_value(&mut self.status, StatusFilter::All, "All");
-            ui.selectable_value(&mut self.status, StatusFilter::Passing, "Passing");
+            ui.selectable_value(&mut self.status, StatusFilter::Passing, "Meeting limits");
             ui.selectable_value(&mut self.status, StatusFilter::Failing, "Failing");
             self.rebuild(session);
             ui.separator();
             ui.label(format!(
-                "{} shown of {} ({} pass)",
+                "{} shown of {} ({} meet the limits)",
                 self.row_count(session),
                 session.candidate_count(),
                 session.ranking.passing_count()
             ));
+            ui.separator();
+            self.robustness_controls(ui, session);
         });
         self.rebuild(session);
         let scroll_to = if session.scroll_table_to_selection {
@@ -256,6 +348,7 @@ impl CandidateTable {
             ui.label("No survey loaded.");
             return;
         };
+        let top_n = current_smaa(session).map(|r| r.settings.top_n);
         let row_h = ui.text_style_height(&egui::TextStyle::Body) + 6.0;
         egui::ScrollArea::horizontal()
             .id_salt("candidate-table-h")
@@ -269,7 +362,13 @@ impl CandidateTable {
                     .column(Column::exact(52.0))
                     .column(Column::exact(78.0))
                     .column(Column::exact(58.0))
-                    .column(Column::exact(52.0))
+                    .column(Column::exact(96.0))
+                    .column(Column::initial(300.0).at_least(120.0).resizable(true).clip(true))
+                    .column(Column::exact(56.0));
+                if top_n.is_some() {
+                    builder = builder.columns(Column::exact(76.0), 2);
+                }
+                let mut builder = builder
                     .columns(Column::auto().at_least(70.0).resizable(true), METRICS.len())
                     .auto_shrink([false, false])
                     .min_scrolled_height(0.0);
@@ -278,48 +377,7 @@ impl CandidateTable {
                 }
                 builder
                     .header(row_h + 14.0, |mut header| {
-                        header.col(|ui| {
-                            self.header_button(
-                                ui,
-                                SortKey::Rank,
-                                "Rank",
-                                "1 = best among those that pass",
-                            )
-                        });
-                        header.col(|ui| {
-                            self.header_button(
-                                ui,
-                                SortKey::Id,
-                                "Name",
-                                "stable candidate name from the survey",
-                            )
-                        });
-                        header.col(|ui| {
-                            self.header_button(
-                                ui,
-                                SortKey::Score,
-                                "Score",
-                                "weighted score, 0..1, higher is better",
-                            )
-                        });
-                        header.col(|ui| {
-                            ui.strong("Status");
-                        });
-                        for (k, m) in METRICS.iter().enumerate() {
-                            header.col(|ui| {
-                                let unit = if m.unit.is_empty() {
-                                    String::new()
-                                } else {
-                                    format!(" [{}]", m.unit)
-                                };
-                                self.header_button(
-                                    ui,
-                                    SortKey::Metric(k),
-                                    &format!("{}{unit}", m.name),
-                                    m.description,
-                                );
-                            });
-                        }
+                        self.header_row(&mut header, top_n);
                     })
                     .body(|body| {
                         let (by_ranking, rows) = (self.rows_are_ranking, &self.rows);
@@ -357,17 +415,43 @@ impl CandidateTable {
                             row.col(|ui| {
                                 ui.label(format!("{:.3}", session.ranking.score(i).unwrap_or(0.0)));
                             });
+                            let reasons = if pass { Vec::new() } else { session.reasons(i) };
                             row.col(|ui| {
                                 if pass {
-                                    ui.colored_label(Color32::from_rgb(120, 200, 120), "pass");
+                                    ui.colored_label(MEETS_COLOUR, "meets limits");
                                 } else {
-                                    ui.colored_label(Color32::from_rgb(230, 130, 110), "fail")
-                                        .on_hover_text(session.reasons(i).join("\n"));
+                                    ui.colored_label(FAILS_COLOUR, "fails limits");
                                 }
                             });
+                            row.col(|ui| {
+                                // Left-aligned, so the reason reads from its start when clipped.
+                                ui.with_layout(egui::Layout::left_to_right(Align::Center), |ui| {
+                                    if let Some(first) = reasons.first() {
+                                        let more = match reasons.len() {
+                                            1 => String::new(),
+                                            n => format!(" (+{} more)", n - 1),
+                                        };
+                                        ui.label(format!("{first}{more}"))
+                                            .on_hover_text(reasons.join("\n"));
+                                    }
+                                });
+                            });
+                            row.col(|ui| {
+                                let front = session.prepared.as_ref().is_some_and(|t| i < t.len() && t.pareto(i));
+                                ui.label(if front { "yes" } else { "" });
+                            });
+                            if top_n.is_some() {
+                                let p = current_smaa(session).and_then(|r| r.probabilities(i));
+                                row.col(|ui| {
+                                    ui.label(percent(p.map(|p| p.0)));
+                                });
+                                row.col(|ui| {
+                                    ui.label(percent(p.map(|p| p.1)));
+                                });
+                            }
                             for m in METRICS {
                                 row.col(|ui| {
-                                    ui.label(format_value((m.get)(c), m.unit));
+                                    ui.label(m.format_number((m.get)(c)));
                                 });
                             }
                             if clicked || row.response().clicked() {
@@ -376,5 +460,65 @@ impl CandidateTable {
                         });
                     });
             });
+    }
+
+    /// The header: fixed columns, the robustness pair when there is a run, then each metric
+    /// under its short label and unit, its label, meaning and file id in the tooltip.
+    fn header_row(&mut self, header: &mut egui_extras::TableRow<'_, '_>, top_n: Option<usize>) {
+        header.col(|ui| {
+            self.header_button(ui, SortKey::Rank, "Rank", "1 = best among those that meet the limits")
+        });
+        header.col(|ui| {
+            self.header_button(ui, SortKey::Id, "Name", "stable candidate name from the survey")
+        });
+        header.col(|ui| {
+            self.header_button(
+                ui,
+                SortKey::Score,
+                "Score",
+                "weighted score, 0..1, higher is better",
+            )
+        });
+        header.col(|ui| {
+            ui.strong("Verdict").on_hover_text(format!(
+                "Whether the candidate meets every limit of the criteria. {}",
+                siting::VERDICT_SCOPE
+            ));
+        });
+        header.col(|ui| {
+            ui.with_layout(egui::Layout::left_to_right(Align::Center), |ui| {
+                ui.strong("Why it fails")
+                    .on_hover_text("The first limit the candidate misses; all of them on hover");
+            });
+        });
+        header.col(|ui| {
+            ui.strong("Pareto").on_hover_text(
+                "yes: no other candidate that meets the limits is at least as good on every \
+                 weighted criterion and better on one (it sits on the Pareto front)",
+            );
+        });
+        if let Some(n) = top_n {
+            header.col(|ui| {
+                self.header_button(
+                    ui,
+                    SortKey::RankFirst,
+                    "P(rank 1)",
+                    "share of weight draws that rank it first",
+                )
+            });
+            header.col(|ui| {
+                self.header_button(
+                    ui,
+                    SortKey::TopN,
+                    &format!("P(top {n})"),
+                    &format!("share of weight draws that put it among the best {n}"),
+                )
+            });
+        }
+        for (k, m) in METRICS.iter().enumerate() {
+            header.col(|ui| {
+                self.header_button(ui, SortKey::Metric(k), &m.header(), &m.hint());
+            });
+        }
     }
 }

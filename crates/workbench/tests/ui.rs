@@ -46,7 +46,7 @@ fn table_lists_every_candidate_of_the_survey() {
 fn raising_a_weight_slider_changes_the_order() {
     let mut h = harness();
     let before = h.state().session.ranking.order().to_vec();
-    h.get_by_role_and_label(egui::Role::Slider, "roughness_rms_m [m]")
+    h.get_by_role_and_label(egui::Role::Slider, "Floor roughness (RMS) [m]")
         .set_value_accesskit(5.0);
     h.run_steps(8);
     let after = h.state().session.ranking.order().to_vec();
@@ -78,7 +78,7 @@ fn failed_candidate_shows_its_reasons() {
     h.get_by_label(&candidate_label(3)).click();
     h.run_steps(8);
     h.get_by_label("Fails the limits:");
-    h.get_by_label_contains("diameter_m 500 below min 1000");
+    h.get_by_label_contains("Diameter 500 m: 500 m under the 1.00 km minimum");
 }
 
 #[test]

@@ -6,9 +6,6 @@ pub mod survey;
 use anyhow::Context;
 use std::path::Path;
 
-/// The caution printed wherever results are presented.
-pub const CAUTION: &str = "Screening estimates from orbital data; real site decisions rest on mission-grade analysis and the responsible engineering authority's review.";
-
 pub fn make_demo(out: &Path) -> anyhow::Result<()> {
     std::fs::create_dir_all(out).with_context(|| format!("cannot create {}", out.display()))?;
     let files = synthetic::make_demo_terrain(out)

@@ -8,7 +8,7 @@ use siting::{Criteria, PreparedTable};
 use std::path::{Path, PathBuf};
 use std::sync::atomic::AtomicBool;
 use std::time::Instant;
-use structure::{Shape, StructureSpec};
+use structure::StructureSpec;
 use survey::SurveyFile;
 
 #[derive(clap::Args)]
@@ -112,21 +112,11 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     Ok(())
 }
 
-/// A short description of a structure for the terminal.
+/// A structure for the terminal, or "no structure".
 fn describe(spec: Option<&StructureSpec>) -> String {
-    let Some(s) = spec else {
-        return "no structure".into();
-    };
-    let shape = match s.shape {
-        Shape::Paraboloid { focal_length_m } => {
-            format!("paraboloid with focal length {focal_length_m} m")
-        }
-        Shape::ParaboloidRatio { f_over_d } => format!("paraboloid at f/D {f_over_d}"),
-        Shape::SphericalCap { radius_m } => format!("spherical cap of radius {radius_m} m"),
-    };
-    format!(
-        "a {} m {shape}, {} anchors, clearance {} m, anchor heights within {} m",
-        s.aperture_m, s.anchors, s.min_clearance_m, s.max_anchor_height_difference_m
+    spec.map_or_else(
+        || "no structure".into(),
+        |s| format!("a {}", siting::structure_summary(s)),
     )
 }
 

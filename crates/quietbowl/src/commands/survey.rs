@@ -181,6 +181,6 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         if outcome.tiles_resumed > 0 { format!(", {} tiles taken from the checkpoint", outcome.tiles_resumed) } else { String::new() },
         a.out.display()
     );
-    println!("{}", super::CAUTION);
+    println!("{}", siting::SCREENING_CAUTION);
     Ok(())
 }
