@@ -69,6 +69,13 @@ fn prefix(name: &std::ffi::OsStr) -> String {
     format!(".{}.", name.to_string_lossy())
 }
 
+/// Temporary names: `.<target name>.<random>.partial`.
+fn temp_names(prefix: &str) -> tempfile::Builder<'_, 'static> {
+    let mut b = tempfile::Builder::new();
+    b.prefix(prefix).suffix(".partial");
+    b
+}
+
 /// Write `bytes` to a temporary file beside `path`.
 pub fn stage_bytes(path: &Path, bytes: &[u8]) -> io::Result<Staged> {
     stage_with(path, |w| w.write_all(bytes))
@@ -80,10 +87,7 @@ pub fn stage_with(
     fill: impl FnOnce(&mut dyn Write) -> io::Result<()>,
 ) -> io::Result<Staged> {
     let (dir, name) = split(path)?;
-    let tmp = tempfile::Builder::new()
-        .prefix(&prefix(name))
-        .suffix(".partial")
-        .tempfile_in(dir)?;
+    let tmp = temp_names(&prefix(name)).tempfile_in(dir)?;
     let mut w = BufWriter::with_capacity(1 << 20, tmp);
     fill(&mut w)?;
     let tmp: NamedTempFile = w.into_inner().map_err(|e| e.into_error())?;
@@ -101,10 +105,7 @@ pub fn stage_by_path(
     fill: impl FnOnce(&Path) -> io::Result<()>,
 ) -> io::Result<Staged> {
     let (dir, name) = split(path)?;
-    let folder = tempfile::Builder::new()
-        .prefix(&prefix(name))
-        .suffix(".partial")
-        .tempdir_in(dir)?;
+    let folder = temp_names(&prefix(name)).tempdir_in(dir)?;
     let file = folder.path().join(name);
     fill(&file)?;
     File::open(&file)?.sync_all()?;
