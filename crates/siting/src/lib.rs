@@ -8,6 +8,7 @@
 //! Methods and their sources: docs/siting.md.
 
 pub mod atomic;
+pub mod breakdown;
 pub mod criteria;
 mod error;
 pub mod export;
@@ -20,6 +21,7 @@ pub mod study;
 pub mod table;
 pub mod utility;
 
+pub use breakdown::{score_breakdown, CriterionPart, ScoreBreakdown};
 pub use criteria::{
     Criteria, CriteriaError, Requirement, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling,
 };
