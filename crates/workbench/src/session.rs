@@ -30,6 +30,8 @@ pub struct Session {
     pub scroll_table_to_selection: bool,
     /// Decisions and notes, by candidate id (kept in the study file).
     pub reviews: BTreeMap<u32, CandidateReview>,
+    /// Candidates chosen for the side-by-side comparison.
+    pub compare: crate::compare::CompareSet,
     generation: u64,
 }
 
@@ -49,6 +51,7 @@ impl Default for Session {
             centre_map_on_selection: false,
             scroll_table_to_selection: false,
             reviews: BTreeMap::new(),
+            compare: Default::default(),
             generation: 0,
         }
     }
@@ -75,6 +78,7 @@ impl Session {
         self.survey = Some(Arc::new(survey));
         self.survey_path = path;
         self.selected = None;
+        self.compare.clear();
         self.prepared = None;
         self.rerank();
     }

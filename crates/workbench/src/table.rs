@@ -370,7 +370,9 @@ impl CandidateTable {
                                     ui.label(format_value((m.get)(c), m.unit));
                                 });
                             }
-                            if clicked || row.response().clicked() {
+                            if (clicked || row.response().clicked())
+                                && !crate::compare::table_click(&row.response().ctx, session, i)
+                            {
                                 session.select(Some(i), false);
                             }
                         });
