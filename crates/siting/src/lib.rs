@@ -8,6 +8,7 @@
 //! Methods and their sources: docs/siting.md.
 
 pub mod atomic;
+pub mod breakdown;
 pub mod criteria;
 mod error;
 pub mod export;
@@ -21,6 +22,7 @@ pub mod table;
 pub mod utility;
 pub mod words;
 
+pub use breakdown::{score_breakdown, CriterionPart, ScoreBreakdown};
 pub use criteria::{
     Criteria, CriteriaError, Requirement, ScoreMethod, SoftCriterion, UtilityShape, WeightSampling,
 };

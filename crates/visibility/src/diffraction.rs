@@ -12,6 +12,7 @@
 use crate::constants::{
     AIRY_AI_FIRST_ZERO, AIRY_AI_PRIME_FIRST_ZERO, MOON_RADIUS_KM, SPEED_OF_LIGHT_M_S,
 };
+use crate::earth::EarthMargin;
 use serde::Serialize;
 
 /// Attenuation in dB, (hard boundary, soft boundary), after `shadow_angle_deg` into the lunar
@@ -50,4 +51,15 @@ pub fn estimate_table(shadow_angle_deg: f64) -> Vec<DiffractionEstimate> {
             }
         })
         .collect()
+}
+
+/// The table a site report carries for a site with Earth margin `m`: the attenuation at the
+/// bare-sphere clearance (the angle into the smooth sphere's shadow); empty when the Earth can
+/// rise over the bare sphere's horizon, where the estimate does not apply.
+pub fn estimate_for_margin(m: &EarthMargin) -> Vec<DiffractionEstimate> {
+    if m.clearance_sphere_deg > 0.0 {
+        estimate_table(m.clearance_sphere_deg)
+    } else {
+        Vec::new()
+    }
 }

@@ -207,11 +207,7 @@ pub fn site_report(
         month_track_b_max_deg: b.1,
         month_gc_separation_deg: sky::track_gc_separation_deg(&track),
     };
-    let diffraction_estimate = if earth.clearance_sphere_deg > 0.0 {
-        diffraction::estimate_table(earth.clearance_sphere_deg)
-    } else {
-        Vec::new()
-    };
+    let diffraction_estimate = diffraction::estimate_for_margin(&earth);
     Ok(SiteReport {
         lon_deg,
         lat_deg,

@@ -130,6 +130,8 @@ pub struct WorkbenchApp {
     remembered: Remembered,
     /// Select this rank once a survey is ranked (start-up option).
     pub select_rank_on_load: Option<u32>,
+    /// Compare the candidates of these ranks once a survey is ranked (start-up option).
+    pub compare_ranks_on_load: Vec<u32>,
     /// A study read from disk, adopted at the start of the next frame (needs the context).
     pending_study: Option<(siting::Study, PathBuf)>,
     /// Runs a survey when a DEM without one is opened (wired in by the binary).
@@ -156,6 +158,7 @@ impl WorkbenchApp {
             status: String::new(),
             remembered: Remembered::default(),
             select_rank_on_load: None,
+            compare_ranks_on_load: Vec::new(),
             pending_study: None,
             survey_runner: None,
             ask_before_survey_above_px: ASK_BEFORE_SURVEY_ABOVE_PX,
@@ -352,6 +355,11 @@ impl WorkbenchApp {
         if let Some(rank) = self.select_rank_on_load.take() {
             let idx = self.session.index_of_rank(rank);
             self.session.select(idx, false);
+        }
+        for rank in std::mem::take(&mut self.compare_ranks_on_load) {
+            if let Some(i) = self.session.index_of_rank(rank) {
+                self.session.compare.toggle(i);
+            }
         }
     }
 

@@ -1,21 +1,24 @@
-//! The crater sheet: everything about the selected candidate on one page: standing, metrics
-//! with uncertainties, radial profiles, rim crest around the circle, visibility figures, and
-//! the user's notes and verdict.
+//! The crater sheet: everything about the selected candidate on one page: its standing (the
+//! screening verdict), how its score is made, key measurements with what their uncertainties
+//! cover, shape, Earth and sky, the reflector fit, robustness, every number, and the user's
+//! notes and decision. It also hosts the comparison window (`compare.rs`).
 
+use crate::compare::{CompareView, MAX_COMPARED};
 use crate::engine::SmaaRun;
 use crate::profiles::{radial_profiles, RadialProfiles};
 use crate::session::{candidate_label, Session};
+use crate::shape_view::{DEPTH_SPREAD_HINT, DIAMETER_SPREAD_HINT};
 use crate::SCREENING_CAUTION;
 use egui::{Color32, RichText};
-use egui_plot::{HLine, Legend, Line, Plot, PlotPoints, Points, VLine};
 use siting::study::Decision;
 use std::sync::Arc;
-use survey::METRICS;
+use survey::{Candidate, METRICS};
 use terrain::Dem;
 
 /// The pages of the crater sheet.
 #[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
 pub enum SheetTab {
+    Score,
     #[default]
     Shape,
     Sky,
@@ -25,6 +28,9 @@ pub enum SheetTab {
     Notes,
 }
 
+const PASS_COLOUR: Color32 = Color32::from_rgb(130, 220, 140);
+const FAIL_COLOUR: Color32 = Color32::from_rgb(240, 140, 120);
+
 #[derive(Default)]
 pub struct CraterSheet {
     pub tab: SheetTab,
@@ -33,10 +39,41 @@ pub struct CraterSheet {
     smaa_error: Option<String>,
     sky: crate::sky_view::SkyView,
     fit: crate::fit_view::FitView,
+    /// The comparison window, drawn from here so it follows the same session.
+    pub compare: CompareView,
+}
+
+/// A length with its spread in the same unit: "1433 ± 3 m", "71.3 ± 0.05 km".
+fn length_with_spread(v_m: f64, sd_m: f64) -> String {
+    if v_m.abs() >= 10_000.0 {
+        format!("{:.1} ± {:.2} km", v_m / 1000.0, sd_m / 1000.0)
+    } else if v_m.abs() >= 100.0 {
+        format!("{v_m:.0} ± {sd_m:.0} m")
+    } else {
+        format!("{v_m:.1} ± {sd_m:.1} m")
+    }
+}
+
+/// A metric's label with its meaning and id on hover.
+fn metric_name(ui: &mut egui::Ui, id: &str) -> egui::Response {
+    match survey::metrics::metric(id) {
+        Some(m) => ui
+            .label(m.label)
+            .on_hover_text(format!("{}\nid: {id}", m.description)),
+        None => ui.label(id),
+    }
+}
+
+/// A metric's value as the registry formats it.
+fn metric_value(c: &Candidate, id: &str) -> String {
+    survey::metrics::metric(id)
+        .and_then(|m| (m.get)(c).map(|v| m.format(v)))
+        .unwrap_or_else(|| "not measured".into())
 }
 
 impl CraterSheet {
     pub fn ui(&mut self, ui: &mut egui::Ui, session: &mut Session, dem: Option<&Arc<Dem>>) {
+        self.compare.window(ui.ctx(), session, dem);
         if let Some(done) = self.smaa_run.as_ref().and_then(SmaaRun::try_finish) {
             let generation = self.smaa_run.take().map_or(0, |r| r.generation);
             match done {
@@ -47,6 +84,7 @@ impl CraterSheet {
         let Some(index) = session.selected else {
             ui.heading("Crater sheet");
             ui.label("Select a candidate in the list or on the map.");
+            compare_bar(ui, session, None);
             return;
         };
         let Some(c) = session.candidate(index).cloned() else {
@@ -54,92 +92,23 @@ impl CraterSheet {
         };
         let m = &c.crater;
         ui.heading(format!("Crater sheet: {}", candidate_label(c.id)));
-        match session.ranking.rank(index) {
-            Some(r) => {
-                ui.label(
-                    RichText::new(format!(
-                        "Rank {r} of {}, score {:.3}",
-                        session.ranking.passing_count(),
-                        session.ranking.score(index).unwrap_or(0.0)
-                    ))
-                    .strong(),
-                );
-            }
-            None => {
-                ui.label(
-                    RichText::new("Fails the limits:")
-                        .strong()
-                        .color(Color32::from_rgb(240, 140, 120)),
-                );
-                for reason in session.reasons(index) {
-                    ui.label(format!("• {reason}"));
-                }
-            }
-        }
-        ui.label(RichText::new(SCREENING_CAUTION).small().italics());
-        egui::Grid::new("sheet-key-figures")
-            .num_columns(4)
-            .spacing([14.0, 2.0])
-            .show(ui, |ui| {
-                ui.label("Diameter");
-                ui.strong(format!("{:.0} ± {:.0} m", m.diameter_m, m.diameter_sd_m));
-                ui.label("Depth");
-                ui.strong(format!("{:.0} ± {:.0} m", m.depth_m, m.depth_sd_m));
-                ui.end_row();
-                ui.label("d/D");
-                ui.strong(format!("{:.3}", m.depth_to_diameter));
-                ui.label("Rim found");
-                ui.strong(format!("{:.0}% of azimuths", m.rim_completeness * 100.0));
-                ui.end_row();
-                ui.label("Centre");
-                ui.strong(format!(
-                    "{:.3}°, {:.3}°",
-                    m.centre_lon_deg, m.centre_lat_deg
-                ));
-                ui.end_row();
-            });
+        compare_bar(ui, session, Some(index));
+        verdict(ui, session, index, &c);
+        key_figures(ui, &c);
         ui.separator();
-        ui.horizontal(|ui| {
-            for (tab, name) in [
-                (SheetTab::Shape, "Shape"),
-                (SheetTab::Sky, "Earth and sky"),
-                (SheetTab::Fit, "Reflector"),
-                (SheetTab::Robustness, "Robustness"),
-                (SheetTab::Numbers, "All numbers"),
-                (SheetTab::Notes, "Notes"),
-            ] {
-                ui.selectable_value(&mut self.tab, tab, name);
-            }
-        });
+        self.tab_row(ui);
         ui.separator();
         egui::ScrollArea::vertical().id_salt("sheet-scroll").show(ui, |ui| match self.tab {
+            SheetTab::Score => crate::score_view::score_ui(ui, session, index, &c),
             SheetTab::Shape => {
-                ui.strong("Radial profiles");
                 if self.profiles.as_ref().map(|p| p.0) != Some(index) {
                     let p = dem.and_then(|d| radial_profiles(d, m.centre_lon_deg, m.centre_lat_deg, m.diameter_m / 2.0));
                     self.profiles = Some((index, p));
                 }
-                match self.profiles.as_ref().and_then(|p| p.1.as_ref()) {
-                    Some(p) => profile_plot(ui, p, m.diameter_m / 2.0, m.floor_height_m),
-                    None => { ui.label("Needs the DEM the survey was made from."); }
-                }
-                ui.add_space(6.0);
-                ui.strong("Rim crest around the fitted circle");
-                rim_plot(ui, &m.rim_crest_radius_m, m.diameter_m / 2.0);
-                ui.label(format!("Crest found on {:.0}% of azimuths; widest gap {:.0}° centred at {:.0}°", m.rim_completeness * 100.0, m.rim_gap_deg, m.rim_gap_azimuth_deg));
+                let p = self.profiles.as_ref().and_then(|p| p.1.as_ref());
+                crate::shape_view::shape_ui(ui, m, p);
             }
-            SheetTab::Sky => {
-                match &c.visibility {
-                    Some(v) => {
-                        ui.label(format!("Earth clearance over all librations: {:.2}° (bare sphere {:.2}°)", v.earth_clearance_deg, v.earth_clearance_sphere_deg));
-                        ui.label(format!("Behind the libration-extended limb by {:.2}°", v.limb_margin_deg));
-                        ui.label(format!("Beam's closest approach to the galactic centre: {:.1}°", v.gc_separation_deg));
-                        ui.label(format!("Sky track within {:.0}° of the galactic plane: {:.0}%", v.plane_band_deg, v.plane_fraction * 100.0));
-                    }
-                    None => { ui.label("No visibility figures in this survey."); }
-                }
-                self.sky.ui(ui, index, m.centre_lon_deg, m.centre_lat_deg, dem);
-            }
+            SheetTab::Sky => self.sky.ui(ui, index, &c, dem),
             SheetTab::Fit => {
                 let survey = session.survey.clone();
                 let spec = survey.as_ref().and_then(|s| s.parameters.structure.as_ref());
@@ -182,6 +151,120 @@ impl CraterSheet {
             }
         });
     }
+
+    fn tab_row(&mut self, ui: &mut egui::Ui) {
+        ui.horizontal_wrapped(|ui| {
+            for (tab, name) in [
+                (SheetTab::Score, "Score"),
+                (SheetTab::Shape, "Shape"),
+                (SheetTab::Sky, "Earth and sky"),
+                (SheetTab::Fit, "Reflector"),
+                (SheetTab::Robustness, "Robustness"),
+                (SheetTab::Numbers, "All numbers"),
+                (SheetTab::Notes, "Notes"),
+            ] {
+                ui.selectable_value(&mut self.tab, tab, name);
+            }
+        });
+    }
+}
+
+/// Whether the candidate is in the comparison, and the way to open it.
+fn compare_bar(ui: &mut egui::Ui, session: &mut Session, index: Option<usize>) {
+    let count = session.compare.indices.len();
+    if index.is_none() && count == 0 {
+        return;
+    }
+    ui.horizontal(|ui| {
+        if let Some(i) = index {
+            let mut inside = session.compare.contains(i);
+            let full = !inside && count >= MAX_COMPARED;
+            let resp = ui
+                .add_enabled(!full, egui::Checkbox::new(&mut inside, "In comparison"))
+                .on_hover_text("Compare two to four candidates side by side (also Ctrl-click rows of the candidate list)")
+                .on_disabled_hover_text(format!("{MAX_COMPARED} candidates at most: remove one first"));
+            if resp.changed() {
+                session.compare.toggle(i);
+            }
+        }
+        let count = session.compare.indices.len();
+        if count >= crate::compare::MIN_COMPARED && !session.compare.show {
+            if ui.button(format!("Open comparison ({count})")).clicked() {
+                session.compare.show = true;
+            }
+        } else if count == 1 {
+            ui.label(RichText::new("Add one more to compare").small().weak());
+        }
+    });
+}
+
+/// The screening verdict: meets the limits (rank and score) or every limit it misses; the
+/// reflector verdict; what neither covers.
+fn verdict(ui: &mut egui::Ui, session: &Session, index: usize, c: &Candidate) {
+    match session.ranking.rank(index) {
+        Some(r) => {
+            ui.label(
+                RichText::new(format!(
+                    "Meets limits: rank {r} of {}, score {:.3}",
+                    session.ranking.passing_count(),
+                    session.ranking.score(index).unwrap_or(0.0)
+                ))
+                .strong()
+                .color(PASS_COLOUR),
+            );
+        }
+        None => {
+            ui.label(
+                RichText::new("Fails the limits:")
+                    .strong()
+                    .color(FAIL_COLOUR),
+            );
+            for reason in session.reasons(index) {
+                ui.label(format!("• {reason}"));
+            }
+        }
+    }
+    if let Some(f) = &c.fit {
+        ui.label(format!(
+            "Reflector: {}",
+            crate::fit_view::verdict_words(f.fit_ok).to_lowercase()
+        ));
+    }
+    ui.label(
+        RichText::new(crate::fit_view::NOT_ASSESSED)
+            .small()
+            .italics(),
+    );
+    ui.label(RichText::new(SCREENING_CAUTION).small().italics());
+}
+
+/// The measurements every page leans on, named by the metric registry; each ± says on hover
+/// what it covers.
+fn key_figures(ui: &mut egui::Ui, c: &Candidate) {
+    let m = &c.crater;
+    egui::Grid::new("sheet-key-figures")
+        .num_columns(4)
+        .spacing([14.0, 2.0])
+        .show(ui, |ui| {
+            metric_name(ui, "diameter_m");
+            ui.strong(length_with_spread(m.diameter_m, m.diameter_sd_m))
+                .on_hover_text(DIAMETER_SPREAD_HINT);
+            metric_name(ui, "depth_m");
+            ui.strong(length_with_spread(m.depth_m, m.depth_sd_m))
+                .on_hover_text(DEPTH_SPREAD_HINT);
+            ui.end_row();
+            metric_name(ui, "depth_to_diameter");
+            ui.strong(metric_value(c, "depth_to_diameter"));
+            metric_name(ui, "rim_completeness");
+            ui.strong(metric_value(c, "rim_completeness"));
+            ui.end_row();
+            ui.label("Centre");
+            ui.strong(format!(
+                "lon {:.3}°, lat {:.3}°",
+                m.centre_lon_deg, m.centre_lat_deg
+            ));
+            ui.end_row();
+        });
 }
 
 impl CraterSheet {
@@ -242,97 +325,4 @@ impl CraterSheet {
             ui.colored_label(Color32::from_rgb(240, 140, 120), e);
         }
     }
-}
-
-fn profile_plot(ui: &mut egui::Ui, p: &RadialProfiles, radius_m: f64, floor_m: f64) {
-    Plot::new("radial-profiles")
-        .height(200.0)
-        .legend(Legend::default())
-        .x_axis_label("distance from centre [km]")
-        .y_axis_label("height [m]")
-        .allow_scroll(false)
-        .show(ui, |plot| {
-            for (k, ray) in p.heights_m.iter().enumerate() {
-                let pts: PlotPoints = p
-                    .distance_m
-                    .iter()
-                    .zip(ray)
-                    .filter(|(_, h)| h.is_finite())
-                    .map(|(d, h)| [d / 1000.0, *h])
-                    .collect();
-                plot.line(
-                    Line::new(if k == 0 { "each azimuth" } else { "" }, pts)
-                        .color(Color32::from_rgba_unmultiplied(160, 185, 220, 90))
-                        .width(1.0)
-                        .allow_hover(false),
-                );
-            }
-            let med: PlotPoints = p
-                .distance_m
-                .iter()
-                .zip(&p.median_m)
-                .filter(|(_, h)| h.is_finite())
-                .map(|(d, h)| [d / 1000.0, *h])
-                .collect();
-            plot.line(
-                Line::new("median", med)
-                    .color(Color32::from_rgb(250, 210, 90))
-                    .width(2.5),
-            );
-            plot.vline(
-                VLine::new("fitted rim", radius_m / 1000.0).color(Color32::from_rgb(240, 120, 100)),
-            );
-            if floor_m.is_finite() {
-                plot.hline(
-                    HLine::new("floor level", floor_m).color(Color32::from_rgb(110, 200, 240)),
-                );
-            }
-        });
-}
-
-fn rim_plot(ui: &mut egui::Ui, crest_m: &[f32], radius_m: f64) {
-    let n = crest_m.len().max(1);
-    let to_xy = |az_deg: f64, r: f64| {
-        [
-            r * az_deg.to_radians().sin() / 1000.0,
-            r * az_deg.to_radians().cos() / 1000.0,
-        ]
-    };
-    Plot::new("rim-crest")
-        .height(220.0)
-        .data_aspect(1.0)
-        .legend(Legend::default())
-        .x_axis_label("east [km]")
-        .y_axis_label("north [km]")
-        .allow_scroll(false)
-        .show(ui, |plot| {
-            let circle: PlotPoints = (0..=120).map(|k| to_xy(k as f64 * 3.0, radius_m)).collect();
-            plot.line(
-                Line::new("fitted circle", circle)
-                    .color(Color32::from_gray(160))
-                    .width(1.0),
-            );
-            let found: PlotPoints = crest_m
-                .iter()
-                .enumerate()
-                .filter(|(_, r)| r.is_finite())
-                .map(|(k, r)| to_xy(360.0 * k as f64 / n as f64, *r as f64))
-                .collect();
-            plot.points(
-                Points::new("crest found", found)
-                    .radius(2.5)
-                    .color(Color32::from_rgb(250, 210, 90)),
-            );
-            let missing: PlotPoints = crest_m
-                .iter()
-                .enumerate()
-                .filter(|(_, r)| !r.is_finite())
-                .map(|(k, _)| to_xy(360.0 * k as f64 / n as f64, radius_m))
-                .collect();
-            plot.points(
-                Points::new("no crest", missing)
-                    .radius(2.0)
-                    .color(Color32::from_rgb(230, 110, 100)),
-            );
-        });
 }

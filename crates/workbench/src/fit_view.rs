@@ -14,6 +14,20 @@ use terrain::{Dem, LocalFrame};
 const FAIL_COLOUR: Color32 = Color32::from_rgb(240, 140, 120);
 const OK_COLOUR: Color32 = Color32::from_rgb(130, 220, 140);
 
+/// What a fit verdict does not cover, shown beside every verdict: the fit is geometry on an
+/// elevation model, nothing more.
+pub const NOT_ASSESSED: &str = "Not assessed: loads, cable dynamics, ground bearing, thermal effects and the DEM's vertical error.";
+
+/// The fit verdict as screening words: the structure meets the stated envelope on this DEM,
+/// which is not a design check.
+pub fn verdict_words(fit_ok: bool) -> &'static str {
+    if fit_ok {
+        "Fits the stated envelope on this DEM"
+    } else {
+        "Does not fit the stated envelope on this DEM"
+    }
+}
+
 #[derive(Default)]
 pub struct FitView {
     /// Shaded relief under the plan, for (candidate id, survey identity, close-up).
@@ -64,22 +78,15 @@ impl FitView {
             }
             return;
         };
-        if fit.fit_ok {
-            ui.label(
-                RichText::new("The reflector fits")
-                    .strong()
-                    .color(OK_COLOUR),
-            );
-        } else {
-            ui.label(
-                RichText::new("The reflector does not fit")
-                    .strong()
-                    .color(FAIL_COLOUR),
-            );
-            for r in &fit.reasons {
-                ui.label(format!("• {r}"));
-            }
+        ui.label(
+            RichText::new(verdict_words(fit.fit_ok))
+                .strong()
+                .color(if fit.fit_ok { OK_COLOUR } else { FAIL_COLOUR }),
+        );
+        for r in &fit.reasons {
+            ui.label(format!("• {r}"));
         }
+        ui.label(RichText::new(NOT_ASSESSED).small().italics());
         if let Some(s) = spec {
             ui.label(RichText::new(format!("Structure: {}", describe_spec(s))).small());
         }
@@ -114,12 +121,15 @@ impl FitView {
 }
 
 fn numbers(ui: &mut egui::Ui, f: &StructureFit, spec: Option<&StructureSpec>, frame: &LocalFrame) {
-    let m = |v: f64, digits: usize, unit: &str| {
-        if v.is_finite() {
-            format!("{v:.digits$} {unit}")
-        } else {
-            "no data".into()
-        }
+    // Values through the metric registry, so the page reads like every other screen.
+    let fmt = |id: &str, v: f64| match survey::metrics::metric(id) {
+        Some(m) if v.is_finite() => m.format(v),
+        _ => "no data".to_owned(),
+    };
+    let hint = |id: &str, fallback: &str| {
+        survey::metrics::metric(id).map_or(fallback.to_owned(), |m| {
+            format!("{}\nid: {id}", m.description)
+        })
     };
     let (mx, my) = frame.to_local(f.min_clearance_lon_deg, f.min_clearance_lat_deg);
     let d_m = mx.hypot(my);
@@ -134,24 +144,76 @@ fn numbers(ui: &mut egui::Ui, f: &StructureFit, spec: Option<&StructureSpec>, fr
     let limit = spec
         .map(|s| format!(" (limit {:.0} m)", s.max_anchor_height_difference_m))
         .unwrap_or_default();
-    egui::Grid::new("fit-numbers").num_columns(2).spacing([14.0, 2.0]).striped(true).show(ui, |ui| {
-        let mut row = |name: &str, value: String, hint: &str| {
-            ui.label(name).on_hover_text(hint);
-            ui.strong(value);
-            ui.end_row();
-        };
-        row("Vertex height", m(f.vertex_height_m, 0, "m"), "lowest point of the surface, above the reference sphere");
-        row("Smallest clearance", format!("{}, {where_min}", m(f.min_clearance_m, 1, "m")), "gap between the surface and the ground under it, at its smallest");
-        row("Headroom", m(f.headroom_m, 1, "m"), "how far the surface could rise before its edge reaches the lowest anchor");
-        row("Anchor height spread", format!("{}{limit}", m(f.anchor_height_spread_m, 0, "m")), "highest minus lowest rim anchor");
-        row("Longest span", m(f.max_span_m, 0, "m"), "longest straight line from an anchor to the aperture edge");
-        row("Excavation", m(f.excavation_m3, 0, "m³"), "ground to remove to reach the clearance");
-        row(
-            "Offset from crater centre",
-            format!("{} toward {:.0}°", m(f.offset_from_crater_centre_m, 0, "m"), f.offset_azimuth_deg),
-            "distance of the structure's axis from the crater centre, and its direction from north",
-        );
-        row("Rotation", format!("first anchor at {:.1}°", f.rotation_deg), "azimuth of anchor 1 from the axis, clockwise from north");
-        row("Aperture with data", format!("{:.0}%", f.aperture_valid_fraction * 100.0), "share of the aperture the DEM covers");
-    });
+    egui::Grid::new("fit-numbers")
+        .num_columns(2)
+        .spacing([14.0, 2.0])
+        .striped(true)
+        .show(ui, |ui| {
+            let mut row = |name: &str, value: String, hint: String| {
+                ui.label(name).on_hover_text(hint);
+                ui.strong(value);
+                ui.end_row();
+            };
+            let vertex = if f.vertex_height_m.is_finite() {
+                format!("{:.0} m", f.vertex_height_m)
+            } else {
+                "no data".to_owned()
+            };
+            row(
+                "Vertex height",
+                vertex,
+                "lowest point of the surface, above the reference sphere".into(),
+            );
+            let label = survey::label_of;
+            row(
+                label("min_clearance_m"),
+                format!("{}, {where_min}", fmt("min_clearance_m", f.min_clearance_m)),
+                hint("min_clearance_m", ""),
+            );
+            row(
+                label("headroom_m"),
+                fmt("headroom_m", f.headroom_m),
+                hint("headroom_m", ""),
+            );
+            row(
+                label("anchor_height_spread_m"),
+                format!(
+                    "{}{limit}",
+                    fmt("anchor_height_spread_m", f.anchor_height_spread_m)
+                ),
+                hint("anchor_height_spread_m", ""),
+            );
+            row(
+                label("max_span_m"),
+                fmt("max_span_m", f.max_span_m),
+                hint("max_span_m", ""),
+            );
+            row(
+                label("excavation_m3"),
+                fmt("excavation_m3", f.excavation_m3),
+                hint("excavation_m3", ""),
+            );
+            // A structure on the crater's centre has no direction to give.
+            if f.offset_from_crater_centre_m >= 0.5 {
+                row(
+                    label("offset_from_crater_centre_m"),
+                    format!(
+                        "{} toward {:.0}°",
+                        fmt("offset_from_crater_centre_m", f.offset_from_crater_centre_m),
+                        f.offset_azimuth_deg
+                    ),
+                    hint("offset_from_crater_centre_m", ""),
+                );
+            }
+            row(
+                "Rotation",
+                format!("first anchor at {:.1}°", f.rotation_deg),
+                "azimuth of anchor 1 from the axis, clockwise from north".into(),
+            );
+            row(
+                "Aperture with data",
+                format!("{:.0} %", f.aperture_valid_fraction * 100.0),
+                "share of the aperture the DEM covers".into(),
+            );
+        });
 }

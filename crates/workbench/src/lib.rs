@@ -7,6 +7,8 @@
 //! in tests without a window.
 
 pub mod app;
+pub mod charts;
+pub mod compare;
 pub mod crater_sheet;
 pub mod criteria_panel;
 pub mod engine;
@@ -22,8 +24,10 @@ pub mod open_dialog;
 pub mod profiles;
 pub mod pyramid;
 pub mod reflector_editor;
+pub mod score_view;
 pub mod session;
 pub mod shading;
+pub mod shape_view;
 pub mod sky_view;
 pub mod table;
 
@@ -54,6 +58,8 @@ pub struct WorkbenchOptions {
     pub report_first_frame: bool,
     /// Which page of the crater sheet to show first.
     pub sheet_tab: Option<crater_sheet::SheetTab>,
+    /// Open the comparison on the candidates of these ranks (screenshots, demos).
+    pub compare_ranks: Vec<u32>,
     /// Runs a survey on a DEM opened without one (the binary passes the survey library's run).
     pub survey_runner: Option<job::SurveyRunner>,
     /// The map's layer and toggles at start (screenshots); default otherwise.
@@ -86,6 +92,7 @@ pub fn run(options: WorkbenchOptions) -> Result<(), WorkbenchError> {
             let mut app = WorkbenchApp::new(Session::default());
             app.restore(cc.storage);
             app.select_rank_on_load = options.select_rank;
+            app.compare_ranks_on_load = options.compare_ranks.clone();
             app.sheet.tab = options.sheet_tab.unwrap_or_default();
             app.map.settings = options.map_settings.clone().unwrap_or_default();
             app.session.lon_convention = options.lon_convention.unwrap_or_default();

@@ -32,6 +32,8 @@ pub struct Session {
     pub reviews: BTreeMap<u32, CandidateReview>,
     /// How longitudes are written on every screen (the user's choice).
     pub lon_convention: survey::LonConvention,
+    /// Candidates chosen for the side-by-side comparison.
+    pub compare: crate::compare::CompareSet,
     generation: u64,
 }
 
@@ -52,6 +54,7 @@ impl Default for Session {
             scroll_table_to_selection: false,
             reviews: BTreeMap::new(),
             lon_convention: Default::default(),
+            compare: Default::default(),
             generation: 0,
         }
     }
@@ -78,6 +81,7 @@ impl Session {
         self.survey = Some(Arc::new(survey));
         self.survey_path = path;
         self.selected = None;
+        self.compare.clear();
         self.prepared = None;
         self.rerank();
     }

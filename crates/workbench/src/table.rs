@@ -454,7 +454,9 @@ impl CandidateTable {
                                     ui.label(m.format_number((m.get)(c)));
                                 });
                             }
-                            if clicked || row.response().clicked() {
+                            if (clicked || row.response().clicked())
+                                && !crate::compare::table_click(&row.response().ctx, session, i)
+                            {
                                 session.select(Some(i), false);
                             }
                         });

@@ -26,7 +26,7 @@ fn harness_on(id: u32, survey: survey::SurveyFile) -> Harness<'static, Workbench
 #[test]
 fn reflector_page_shows_the_verdict_and_each_failure_reason() {
     let h = harness_on(2, common::survey_with_fits());
-    h.get_by_label("The reflector does not fit");
+    h.get_by_label("Does not fit the stated envelope on this DEM");
     h.get_by_label_contains(common::FIT_FAILURE_REASON);
     h.get_by_label_contains("Structure: 350 m aperture, paraboloid, f/D 0.50, 6 anchors");
     h.get_by_label("Reflector plan");
@@ -35,8 +35,10 @@ fn reflector_page_shows_the_verdict_and_each_failure_reason() {
 #[test]
 fn reflector_page_shows_a_fitting_candidate_with_its_numbers() {
     let h = harness_on(1, common::survey_with_fits());
-    h.get_by_label("The reflector fits");
-    assert!(h.query_by_label("The reflector does not fit").is_none());
+    h.get_by_label("Fits the stated envelope on this DEM");
+    assert!(h
+        .query_by_label("Does not fit the stated envelope on this DEM")
+        .is_none());
     h.get_by_label_contains("12.0 m, on the axis");
     h.get_by_label("Reflector plan");
 }
