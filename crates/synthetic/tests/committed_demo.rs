@@ -51,8 +51,9 @@ fn committed_raster_matches_the_checksum_in_committed_truth() {
 }
 
 /// The full check: regenerate the 2000 x 2000 scene and compare everything, byte for byte.
-/// Runs in the plain debug `cargo test` (dev profile, opt-level 1; see the timing in the
-/// commit that un-ignored it), so `make test` covers it.
+/// Runs in the plain debug `cargo test`, so `make test` covers it: the dev profile (opt-level 1,
+/// dependencies at 2) regenerates in about 5-6 s on two shared cores, as fast as release
+/// (4.8 s).
 #[test]
 fn committed_files_equal_full_regeneration_from_default_spec() {
     let terrain = generate(&DemoSpec::default()).expect("generate");
