@@ -39,7 +39,7 @@ impl LonConvention {
         }
         match self {
             LonConvention::Signed180 => {
-                let w = (lon_deg + 180.0).rem_euclid(360.0) - 180.0;
+                let w = terrain::projection::wrap_deg_180(lon_deg);
                 // rem_euclid can round up to the full turn for a value a hair below it.
                 if w >= 180.0 {
                     w - 360.0

@@ -61,6 +61,18 @@ struct Mark {
 }
 
 impl Mark {
+    /// A circle `r_pt` across on a grid of one-metre pixels seen at zoom 1: a rim of that
+    /// radius in points (legend icons, tests).
+    fn circle(r_pt: f32, azimuth_rad: f32) -> Mark {
+        Mark {
+            pos: [0.0, 0.0],
+            px_m: [1.0, 1.0],
+            semi_major_m: r_pt,
+            semi_minor_m: r_pt,
+            azimuth_rad,
+        }
+    }
+
     /// Semi-major axis in source pixels (east-west scale).
     fn radius_px(&self) -> f32 {
         self.semi_major_m / self.px_m[0].max(1e-6)
@@ -518,13 +530,7 @@ pub enum LegendMark {
 
 /// Draw `mark` as the map draws it, a circle of radius `r_pt` around `centre`.
 pub fn draw_legend_mark(painter: &Painter, mark: LegendMark, centre: Pos2, r_pt: f32) {
-    let circle = Mark {
-        pos: [0.0, 0.0],
-        px_m: [1.0, 1.0],
-        semi_major_m: r_pt,
-        semi_minor_m: r_pt,
-        azimuth_rad: 0.0,
-    };
+    let circle = Mark::circle(r_pt, 0.0);
     let mut s = Scratch::default();
     ellipse_points_into(&circle, centre, 1.0, &mut s.points);
     let ctx = painter.ctx();
@@ -855,13 +861,7 @@ mod tests {
     #[test]
     fn rims_are_smooth_at_every_size_on_screen() {
         for r_pt in [2.0f32, 3.0, 5.0, 10.0, 20.0, 60.0, 200.0, 1000.0] {
-            let m = Mark {
-                pos: [0.0, 0.0],
-                px_m: [1.0, 1.0],
-                semi_major_m: r_pt,
-                semi_minor_m: r_pt,
-                azimuth_rad: 0.3,
-            };
+            let m = Mark::circle(r_pt, 0.3);
             let mut pts = Vec::new();
             ellipse_points_into(&m, Pos2::ZERO, 1.0, &mut pts);
             let n = pts.len();
@@ -882,13 +882,7 @@ mod tests {
 
     #[test]
     fn dashes_cover_a_share_of_the_outline_set_by_dash_and_gap() {
-        let m = Mark {
-            pos: [0.0, 0.0],
-            px_m: [1.0, 1.0],
-            semi_major_m: 100.0,
-            semi_minor_m: 100.0,
-            azimuth_rad: 0.0,
-        };
+        let m = Mark::circle(100.0, 0.0);
         let mut s = Scratch::default();
         ellipse_points_into(&m, Pos2::ZERO, 1.0, &mut s.points);
         let pts = s.points.clone();

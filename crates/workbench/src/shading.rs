@@ -20,25 +20,26 @@ const TINT_STOPS: [[u8; 3]; 6] = [
     [236, 226, 206],
 ];
 
-/// Colour for a fraction 0..1 along the elevation tint.
-pub fn tint(t: f32) -> Color32 {
-    let t = t.clamp(0.0, 1.0) * (TINT_STOPS.len() - 1) as f32;
-    let i = (t.floor() as usize).min(TINT_STOPS.len() - 2);
+/// Colour at fraction `t` (0..1) of a scale through evenly spaced `stops` (at least two),
+/// mixed linearly between neighbours.
+fn ramp(stops: &[[u8; 3]], t: f32) -> Color32 {
+    let t = t.clamp(0.0, 1.0) * (stops.len() - 1) as f32;
+    let i = (t.floor() as usize).min(stops.len() - 2);
     let f = t - i as f32;
-    let (a, b) = (TINT_STOPS[i], TINT_STOPS[i + 1]);
+    let (a, b) = (stops[i], stops[i + 1]);
     let mix = |k: usize| (a[k] as f32 + (b[k] as f32 - a[k] as f32) * f).round() as u8;
     Color32::from_rgb(mix(0), mix(1), mix(2))
+}
+
+/// Colour for a fraction 0..1 along the elevation tint.
+pub fn tint(t: f32) -> Color32 {
+    ramp(&TINT_STOPS, t)
 }
 
 /// Colour for a score 0..1: dull violet (poor) through teal to bright yellow (best).
 pub fn score_colour(t: f64) -> Color32 {
     const STOPS: [[u8; 3]; 4] = [[94, 60, 153], [33, 145, 140], [94, 201, 98], [253, 231, 37]];
-    let t = (t.clamp(0.0, 1.0) as f32) * 3.0;
-    let i = (t.floor() as usize).min(2);
-    let f = t - i as f32;
-    let (a, b) = (STOPS[i], STOPS[i + 1]);
-    let mix = |k: usize| (a[k] as f32 + (b[k] as f32 - a[k] as f32) * f).round() as u8;
-    Color32::from_rgb(mix(0), mix(1), mix(2))
+    ramp(&STOPS, t as f32)
 }
 
 /// What the terrain picture shows.
@@ -77,12 +78,7 @@ const SLOPE_STOPS: [[u8; 3]; 5] = [
 
 /// Colour for a fraction 0..1 of the slope scale.
 pub fn slope_colour(t: f32) -> Color32 {
-    let t = t.clamp(0.0, 1.0) * (SLOPE_STOPS.len() - 1) as f32;
-    let i = (t.floor() as usize).min(SLOPE_STOPS.len() - 2);
-    let f = t - i as f32;
-    let (a, b) = (SLOPE_STOPS[i], SLOPE_STOPS[i + 1]);
-    let mix = |k: usize| (a[k] as f32 + (b[k] as f32 - a[k] as f32) * f).round() as u8;
-    Color32::from_rgb(mix(0), mix(1), mix(2))
+    ramp(&SLOPE_STOPS, t)
 }
 
 /// The per-pixel numbers a terrain picture is coloured from, computed once per shaded level
