@@ -407,7 +407,13 @@ mod tests {
         assert_eq!(d.format(71_317.0), "71.3 km");
         assert_eq!(d.format(800.0), "800 m");
         assert_eq!(super::metric("fit_ok").unwrap().format(1.0), "yes");
-        assert_eq!(super::metric("valid_fraction").unwrap().format(0.934), "93 %");
-        assert_eq!(super::metric("depth_to_diameter").unwrap().format(0.1834), "0.183");
+        assert_eq!(
+            super::metric("valid_fraction").unwrap().format(0.934),
+            "93 %"
+        );
+        assert_eq!(
+            super::metric("depth_to_diameter").unwrap().format(0.1834),
+            "0.183"
+        );
     }
 }

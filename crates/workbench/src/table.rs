@@ -229,6 +229,7 @@ impl CandidateTable {
             ui.label("Find:");
             ui.add(
                 egui::TextEdit::singleline(&mut self.filter_text)
+                    .id(crate::keys::find_field_id())
                     .hint_text("name or failure reason")
                     .desired_width(180.0),
             );

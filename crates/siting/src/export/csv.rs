@@ -5,7 +5,7 @@
 use std::fmt::Write;
 use std::path::Path;
 
-use super::{columns, row, Cell, ExportSet};
+use super::{row, Cell, ExportSet};
 use crate::SitingError;
 
 fn field(s: &str) -> String {
@@ -34,7 +34,8 @@ pub fn to_csv_string(set: &ExportSet<'_>) -> Result<String, SitingError> {
     for line in set.provenance.criteria_toml.lines() {
         let _ = writeln!(out, "# criteria | {line}");
     }
-    let header: Vec<String> = columns(set.criteria)
+    let header: Vec<String> = set
+        .columns()
         .iter()
         .map(|c| {
             field(&if c.unit.is_empty() {
