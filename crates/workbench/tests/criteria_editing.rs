@@ -51,7 +51,7 @@ fn harness() -> Harness<'static, WorkbenchApp> {
         Criteria::default_reflector(),
     ));
     let mut h = Harness::builder()
-        .with_size(egui::vec2(1600.0, 1400.0))
+        .with_size(egui::vec2(1600.0, 3000.0))
         .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
     h.run_steps(3);
     h
@@ -228,6 +228,13 @@ fn undo_and_redo_round_trip_through_the_keyboard() {
     h.run_steps(3);
     let edited = h.state().session.criteria.clone();
     assert_ne!(edited, original);
+    // Leave the last field (a typed entry keeps the keyboard for its own undo).
+    h.ctx.memory_mut(|m| {
+        if let Some(id) = m.focused() {
+            m.surrender_focus(id)
+        }
+    });
+    h.run_steps(2);
     for _ in 0..3 {
         h.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
         h.run_steps(2);
