@@ -156,6 +156,8 @@ impl eframe::App for Launcher {
                         ctx.send_viewport_cmd(egui::ViewportCommand::Close);
                         ctx.request_repaint();
                     });
+                    // A scripted picture ends the session without the unsaved-work question.
+                    self.app.persistence.quit_confirmed = true;
                 }
             }
         }

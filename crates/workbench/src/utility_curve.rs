@@ -185,7 +185,19 @@ pub fn view_range(c: &SoftCriterion, spread: Option<&ValueSpread>) -> (f64, f64)
         return (0.0, 1.0);
     }
     let pad = ((hi - lo) * 0.06).max(hi.abs().max(1e-9) * 1e-3);
-    (lo - pad, hi + pad)
+    // Padding never invents values a measure cannot take: no negative lengths or angles
+    // from non-negative data, no share above 1 from shares.
+    let lo_view = if lo >= 0.0 {
+        (lo - pad).max(0.0)
+    } else {
+        lo - pad
+    };
+    let hi_view = if lo >= 0.0 && hi <= 1.0 {
+        (hi + pad).min(1.0)
+    } else {
+        hi + pad
+    };
+    (lo_view, hi_view)
 }
 
 /// How the plot maps values and utilities to the screen.
