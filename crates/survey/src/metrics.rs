@@ -454,7 +454,13 @@ mod tests {
         assert_eq!(d.format_number(None), "–");
         assert_eq!(d.header(), "Diam. [m]");
         assert_eq!(super::metric("fit_ok").unwrap().format(1.0), "yes");
-        assert_eq!(super::metric("valid_fraction").unwrap().format(0.934), "93 %");
-        assert_eq!(super::metric("depth_to_diameter").unwrap().format(0.1834), "0.183");
+        assert_eq!(
+            super::metric("valid_fraction").unwrap().format(0.934),
+            "93 %"
+        );
+        assert_eq!(
+            super::metric("depth_to_diameter").unwrap().format(0.1834),
+            "0.183"
+        );
     }
 }

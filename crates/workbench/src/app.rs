@@ -6,8 +6,10 @@ use crate::export_dialog::{ExportDialog, ExportFormat, ExportRequest};
 use crate::job::{self, Job, JobOutcome};
 use crate::map::MapView;
 use crate::open_dialog::{PathPrompt, PromptPurpose};
+use crate::persistence::{Guarded, Persistence};
 use crate::pyramid::TerrainLayer;
 use crate::session::Session;
+use crate::survey_settings::{SurveySettings, SurveySettingsDialog};
 use crate::table::CandidateTable;
 use crate::SCREENING_CAUTION;
 use egui::{Color32, RichText};
@@ -112,6 +114,9 @@ fn duration_words(s: f64) -> String {
 #[derive(Default, serde::Serialize, serde::Deserialize)]
 struct Remembered {
     last_dir: Option<PathBuf>,
+    /// What the last survey run from the window looked for.
+    #[serde(default)]
+    survey_settings: Option<SurveySettings>,
 }
 
 pub struct WorkbenchApp {
@@ -140,6 +145,10 @@ pub struct WorkbenchApp {
     pub ask_before_survey_above_px: u64,
     /// The survey offered for the open DEM, if it was too large to start unasked.
     pub survey_offer: Option<SurveyOffer>,
+    /// Unsaved-changes mark, questions before losing work, recovery file.
+    pub persistence: Persistence,
+    /// What a survey run from the window looks for.
+    pub survey_settings: SurveySettingsDialog,
 }
 
 impl WorkbenchApp {
@@ -163,13 +172,22 @@ impl WorkbenchApp {
             survey_runner: None,
             ask_before_survey_above_px: ASK_BEFORE_SURVEY_ABOVE_PX,
             survey_offer: None,
+            persistence: Persistence::default(),
+            survey_settings: SurveySettingsDialog::default(),
         }
     }
 
     pub fn restore(&mut self, storage: Option<&dyn eframe::Storage>) {
         if let Some(r) = storage.and_then(|s| eframe::get_value::<Remembered>(s, STORAGE_KEY)) {
+            if let Some(settings) = &r.survey_settings {
+                self.survey_settings.settings = settings.clone();
+            }
             self.remembered = r;
         }
+    }
+
+    pub(crate) fn set_prompt(&mut self, prompt: PathPrompt) {
+        self.prompt = Some(prompt);
     }
 
     /// Open any file the workbench understands, judged by its extension.
@@ -223,7 +241,12 @@ impl WorkbenchApp {
                         );
                         self.survey_offer = Some(offer);
                     } else if let Some(runner) = self.survey_runner.clone() {
-                        self.job = Some(job::run_survey(runner, path.to_path_buf(), ctx));
+                        self.job = Some(job::run_survey(
+                            runner,
+                            path.to_path_buf(),
+                            self.survey_settings.settings.clone(),
+                            ctx,
+                        ));
                     } else {
                         self.status = format!(
                             "Opened {}; no survey of it yet (open one from File).",
@@ -253,7 +276,12 @@ impl WorkbenchApp {
             offer.dem_path.display(),
             duration_words(offer.estimate_s())
         );
-        self.job = Some(job::run_survey(runner, offer.dem_path, ctx));
+        self.job = Some(job::run_survey(
+            runner,
+            offer.dem_path,
+            self.survey_settings.settings.clone(),
+            ctx,
+        ));
     }
 
     /// The offer of a survey of a large DEM, above the map.
@@ -272,8 +300,11 @@ impl WorkbenchApp {
                 ui.horizontal(|ui| {
                     start = ui
                         .button("Survey it in the background")
-                        .on_hover_text("Progress and Cancel appear in the status bar")
+                        .on_hover_text("With the survey settings; progress and Cancel appear in the status bar")
                         .clicked();
+                    if ui.button("Survey settings…").clicked() {
+                        self.survey_settings.open = true;
+                    }
                     dismiss = ui.button("Just view it").clicked();
                 });
             });
@@ -301,9 +332,8 @@ impl WorkbenchApp {
             .and_then(|t| crate::engine::Criteria::parse(&t).map_err(|e| e.to_string()))
         {
             Ok(c) => {
-                self.session.criteria_baseline = c;
-                let baseline = self.session.criteria_baseline.clone();
-                crate::criteria_panel::apply(&mut self.session, baseline);
+                self.session.criteria_baseline = c.clone();
+                crate::criteria_panel::apply(&mut self.session, c);
                 self.status = format!("Criteria read from {}", path.display());
             }
             Err(e) => self.status = format!("Could not read criteria from {}: {e}", path.display()),
@@ -321,6 +351,7 @@ impl WorkbenchApp {
         self.status = format!("{} candidates", survey.candidates.len());
         self.survey_offer = None;
         self.session.set_survey(survey, path);
+        self.restore_if_pending();
         self.after_survey(ctx, Some(dem_path));
     }
 
@@ -396,7 +427,7 @@ impl WorkbenchApp {
         self.prompt = None;
         let Some(path) = answer else { return };
         match purpose {
-            PromptPurpose::Open => self.open_path(ctx, &path),
+            PromptPurpose::Open => self.guard_then(ctx, Guarded::Open(path)),
             PromptPurpose::LoadCriteria => self.load_criteria(&path),
             PromptPurpose::SaveCriteria => {
                 self.status = match crate::write_atomically(
@@ -408,16 +439,23 @@ impl WorkbenchApp {
                 }
             }
             PromptPurpose::SaveStudy => {
-                self.status = match self.session.to_study().map(|s| s.save(&path)) {
-                    Some(Ok(())) => format!("Study saved to {}", path.display()),
-                    Some(Err(e)) => format!("Could not save the study: {e}"),
-                    None => "Nothing to save yet: no survey.".into(),
+                self.save_study_to(&path);
+                if let Some(then) = self.persistence.after_save.take() {
+                    if !self.session.is_dirty() {
+                        self.perform(ctx, then);
+                    }
+                }
+            }
+            PromptPurpose::SaveSurvey => {
+                self.status = match self.session.save_survey(&path) {
+                    Ok(()) => format!("Survey saved to {}", path.display()),
+                    Err(e) => format!("Could not save the survey: {e}"),
                 }
             }
         }
     }
 
-    fn start_dir(&self) -> PathBuf {
+    pub(crate) fn start_dir(&self) -> PathBuf {
         self.remembered
             .last_dir
             .clone()
@@ -443,6 +481,7 @@ impl WorkbenchApp {
             let dem = PathBuf::from(&study.dem_path);
             self.survey_offer = None;
             self.session.adopt_study(study, Some(path));
+            self.restore_if_pending();
             self.after_survey(&ctx, Some(dem));
         }
         if let Some(t) = &mut self.terrain {
@@ -457,44 +496,14 @@ impl WorkbenchApp {
                 .collect()
         });
         for p in dropped {
-            self.open_path(&ctx, &p);
+            self.guard_then(&ctx, Guarded::Open(p));
         }
+        self.shortcuts(&ctx);
 
         egui::Panel::top("menu").show(ui, |ui| {
             egui::MenuBar::new().ui(ui, |ui| {
-                ui.menu_button("File", |ui| {
-                    if ui.button("Open…").clicked() {
-                        self.prompt = Some(PathPrompt::new(PromptPurpose::Open, &self.start_dir()));
-                    }
-                    if ui.button("Save study…").clicked() {
-                        self.prompt = Some(PathPrompt::new(
-                            PromptPurpose::SaveStudy,
-                            &self.start_dir().join("study.json"),
-                        ));
-                    }
-                    if ui.button("Export shortlist…").clicked() {
-                        self.export.open = true;
-                    }
-                    let can_survey = self.terrain.is_some()
-                        && self.job.is_none()
-                        && self.survey_runner.is_some();
-                    if ui
-                        .add_enabled(can_survey, egui::Button::new("Survey the open terrain"))
-                        .clicked()
-                    {
-                        if self.survey_offer.is_none() {
-                            self.survey_offer = self
-                                .terrain
-                                .as_ref()
-                                .map(|t| SurveyOffer::of(&t.dem.info().path, &t.dem));
-                        }
-                        self.start_offered_survey(&ctx);
-                    }
-                    ui.separator();
-                    if ui.button("Quit").clicked() {
-                        ctx.send_viewport_cmd(egui::ViewportCommand::Close);
-                    }
-                });
+                ui.menu_button("File", |ui| self.file_menu(ui));
+                ui.menu_button("Edit", |ui| self.edit_menu(ui));
                 ui.menu_button("View", |ui| {
                     if ui.button("Fit terrain to window").clicked() {
                         self.map.refit();
@@ -582,6 +591,24 @@ impl WorkbenchApp {
             self.handle_export(&ctx, req);
         }
         self.export.capture_map(&ctx, self.map.last_rect);
+        self.survey_settings_frame(&ctx);
+        self.persistence_frame(&ctx);
+    }
+
+    /// The survey settings dialog; starting it runs the survey of the open terrain.
+    fn survey_settings_frame(&mut self, ctx: &egui::Context) {
+        let can_start =
+            self.terrain.is_some() && self.job.is_none() && self.survey_runner.is_some();
+        if let Some(settings) = self.survey_settings.ui(ctx, can_start) {
+            self.remembered.survey_settings = Some(settings);
+            if self.survey_offer.is_none() {
+                self.survey_offer = self
+                    .terrain
+                    .as_ref()
+                    .map(|t| SurveyOffer::of(&t.dem.info().path, &t.dem));
+            }
+            self.start_offered_survey(ctx);
+        }
     }
 }
 

@@ -250,6 +250,7 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
         .as_ref()
         .filter(|(g, _)| *g == session.ranking.generation)
         .map(|(_, s)| s);
+    let reviews = session.kept_reviews();
     let set = siting::export::ExportSet {
         survey,
         criteria: &session.criteria,
@@ -258,6 +259,10 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
         smaa,
         provenance: &provenance,
         limit,
+        decisions: Some(siting::export::Decisions {
+            reviews: &reviews,
+            only_kept: req.only_kept,
+        }),
     };
     let res = match req.format {
         ExportFormat::GeoJson => siting::export::geojson::write_geojson(&set, &req.path),
@@ -265,12 +270,7 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
         ExportFormat::Csv => siting::export::csv::write_csv(&set, &req.path),
         ExportFormat::MapPicture => return Err("pictures are written by the window".into()),
     };
-    res.map(|()| {
-        format!(
-            "Wrote {} candidates to {}",
-            limit.unwrap_or(survey.candidates.len()),
-            req.path.display()
-        )
-    })
-    .map_err(|e| e.to_string())
+    let written = set.entries_count();
+    res.map(|()| format!("Wrote {written} candidates to {}", req.path.display()))
+        .map_err(|e| e.to_string())
 }

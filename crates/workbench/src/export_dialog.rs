@@ -50,6 +50,8 @@ pub struct ExportRequest {
     pub format: ExportFormat,
     pub path: PathBuf,
     pub passing_only: bool,
+    /// Only the candidates the user marked kept (decisions and notes are columns either way).
+    pub only_kept: bool,
 }
 
 pub struct ExportDialog {
@@ -57,6 +59,7 @@ pub struct ExportDialog {
     pub format: ExportFormat,
     pub path: String,
     pub passing_only: bool,
+    pub only_kept: bool,
     /// Outcome of the last export, shown until the dialog closes.
     pub status: Option<Result<String, String>>,
     /// A picture of the terrain view asked for: taken in the next frame, with this dialog
@@ -76,6 +79,7 @@ impl Default for ExportDialog {
             format: ExportFormat::GeoJson,
             path: "shortlist.geojson".into(),
             passing_only: true,
+            only_kept: false,
             status: None,
             picture_to: None,
             capture_now: false,
@@ -123,6 +127,8 @@ impl ExportDialog {
                         &mut self.passing_only,
                         "Only candidates that pass the limits",
                     );
+                    ui.checkbox(&mut self.only_kept, "Only candidates marked kept")
+                        .on_hover_text("decisions and notes are exported as columns either way");
                 }
                 ui.horizontal(|ui| {
                     ui.label("Write to:");
@@ -134,6 +140,7 @@ impl ExportDialog {
                             format: self.format,
                             path: PathBuf::from(self.path.trim()),
                             passing_only: self.passing_only,
+                            only_kept: self.only_kept,
                         });
                     }
                 });

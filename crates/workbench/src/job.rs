@@ -95,11 +95,23 @@ impl Job {
 /// How the workbench runs a survey on a DEM: supplied by the binary (which wires in the survey
 /// library's run), so the GUI holds no survey logic. Reports progress and honours cancel
 /// through the [`JobControl`].
-pub type SurveyRunner =
-    Arc<dyn Fn(&std::path::Path, &JobControl) -> Result<SurveyFile, String> + Send + Sync>;
+pub type SurveyRunner = Arc<
+    dyn Fn(
+            &std::path::Path,
+            &crate::survey_settings::SurveySettings,
+            &JobControl,
+        ) -> Result<SurveyFile, String>
+        + Send
+        + Sync,
+>;
 
-/// Run a survey on a DEM in the background.
-pub fn run_survey(runner: SurveyRunner, dem_path: PathBuf, ctx: &egui::Context) -> Job {
+/// Run a survey on a DEM in the background with the chosen settings.
+pub fn run_survey(
+    runner: SurveyRunner,
+    dem_path: PathBuf,
+    settings: crate::survey_settings::SurveySettings,
+    ctx: &egui::Context,
+) -> Job {
     let title = format!(
         "Surveying {}",
         dem_path
@@ -107,13 +119,17 @@ pub fn run_survey(runner: SurveyRunner, dem_path: PathBuf, ctx: &egui::Context) 
             .map(|n| n.to_string_lossy().into_owned())
             .unwrap_or_default()
     );
-    Job::spawn(title, ctx, move |ctl| match runner(&dem_path, ctl) {
-        _ if ctl.cancelled() => JobOutcome::Cancelled,
-        Ok(survey) => JobOutcome::Survey {
-            survey: Box::new(survey),
-            path: None,
-        },
-        Err(e) => JobOutcome::Failed(format!("The survey of {} failed: {e}", dem_path.display())),
+    Job::spawn(title, ctx, move |ctl| {
+        match runner(&dem_path, &settings, ctl) {
+            _ if ctl.cancelled() => JobOutcome::Cancelled,
+            Ok(survey) => JobOutcome::Survey {
+                survey: Box::new(survey),
+                path: None,
+            },
+            Err(e) => {
+                JobOutcome::Failed(format!("The survey of {} failed: {e}", dem_path.display()))
+            }
+        }
     })
 }
 
@@ -170,22 +186,21 @@ pub fn load_survey(path: PathBuf, ctx: &egui::Context) -> Job {
     })
 }
 
-/// The survey library's run with its default options, as the workbench's survey runner.
+/// The survey library's run with the chosen settings, as the workbench's survey runner.
 pub fn default_survey_runner() -> SurveyRunner {
-    Arc::new(|dem_path: &std::path::Path, ctl: &JobControl| {
-        let progress = |p: survey::run::Progress| {
-            if p.tiles_total > 0 {
-                ctl.set_progress(p.tiles_done as f32 / p.tiles_total as f32);
-            }
-        };
-        let cancel = ctl.cancel_flag();
-        survey::run::run(
-            dem_path,
-            &survey::run::RunOptions::default(),
-            &progress,
-            &cancel,
-        )
-        .map(|o| o.survey)
-        .map_err(|e| e.to_string())
-    })
+    Arc::new(
+        |dem_path: &std::path::Path,
+         settings: &crate::survey_settings::SurveySettings,
+         ctl: &JobControl| {
+            let progress = |p: survey::run::Progress| {
+                if p.tiles_total > 0 {
+                    ctl.set_progress(p.tiles_done as f32 / p.tiles_total as f32);
+                }
+            };
+            let cancel = ctl.cancel_flag();
+            survey::run::run(dem_path, &settings.run_options(), &progress, &cancel)
+                .map(|o| o.survey)
+                .map_err(|e| e.to_string())
+        },
+    )
 }

@@ -16,20 +16,25 @@ pub mod export_dialog;
 pub mod fit_plan;
 pub mod fit_view;
 pub mod job;
+pub mod keys;
 pub mod map;
 pub mod map_grid;
 pub mod map_legend;
 pub mod marks;
 pub mod open_dialog;
+pub mod persistence;
 pub mod profiles;
 pub mod pyramid;
+pub mod recovery;
 pub mod reflector_editor;
 pub mod score_view;
 pub mod session;
 pub mod shading;
 pub mod shape_view;
 pub mod sky_view;
+pub mod survey_settings;
 pub mod table;
+pub mod utility_curve;
 
 pub use app::WorkbenchApp;
 pub use session::Session;
@@ -91,6 +96,11 @@ pub fn run(options: WorkbenchOptions) -> Result<(), WorkbenchError> {
         Box::new(move |cc| {
             let mut app = WorkbenchApp::new(Session::default());
             app.restore(cc.storage);
+            if let Some(store) = recovery::RecoveryStore::in_user_data() {
+                if let Some(problem) = app.persistence.use_store(store) {
+                    app.status = problem;
+                }
+            }
             app.select_rank_on_load = options.select_rank;
             app.compare_ranks_on_load = options.compare_ranks.clone();
             app.sheet.tab = options.sheet_tab.unwrap_or_default();
@@ -161,6 +171,8 @@ impl eframe::App for Launcher {
                         ctx.send_viewport_cmd(egui::ViewportCommand::Close);
                         ctx.request_repaint();
                     });
+                    // A scripted picture ends the session without the unsaved-work question.
+                    self.app.persistence.quit_confirmed = true;
                 }
             }
         }

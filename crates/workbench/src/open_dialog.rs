@@ -10,6 +10,7 @@ pub const OPENABLE: [&str; 6] = ["tif", "tiff", "img", "json", "toml", "lbl"];
 pub enum PromptPurpose {
     Open,
     SaveStudy,
+    SaveSurvey,
     SaveCriteria,
     LoadCriteria,
 }
@@ -31,6 +32,7 @@ impl PathPrompt {
         match self.purpose {
             PromptPurpose::Open => "Open a DEM, survey or study",
             PromptPurpose::SaveStudy => "Save the study",
+            PromptPurpose::SaveSurvey => "Save the survey",
             PromptPurpose::SaveCriteria => "Save criteria",
             PromptPurpose::LoadCriteria => "Load criteria",
         }

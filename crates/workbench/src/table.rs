@@ -315,6 +315,7 @@ impl CandidateTable {
             ui.label("Find:");
             ui.add(
                 egui::TextEdit::singleline(&mut self.filter_text)
+                    .id(crate::keys::find_field_id())
                     .hint_text("name, or a limit it fails")
                     .desired_width(180.0),
             )

@@ -29,6 +29,7 @@ fn export_request_writes_the_passing_shortlist_as_csv() {
         format: ExportFormat::Csv,
         path: path.clone(),
         passing_only: true,
+        only_kept: false,
     };
     engine::export(&session, &req).expect("export succeeds");
     // By hand from common::ROWS and test_criteria's requirements (diameter >= 1000 m, rim
@@ -61,4 +62,50 @@ fn saved_study_reopens_with_decisions_and_criteria() {
     );
     assert_eq!(reopened.criteria.criteria[0].weight, 3.0);
     assert_eq!(reopened.ranking.order(), session.ranking.order());
+}
+
+#[test]
+fn decisions_and_notes_are_exported_as_columns_and_can_narrow_the_list() {
+    let mut session =
+        Session::with_survey_and_criteria(common::small_survey(), common::test_criteria());
+    session.review_mut(2).decision = siting::study::Decision::Accepted;
+    session.review_mut(2).note = "smooth, \"best\" floor".into();
+    session.review_mut(1).decision = siting::study::Decision::Rejected;
+    let dir = tempfile::tempdir().unwrap();
+    let all = dir.path().join("all.csv");
+    let kept = dir.path().join("kept.csv");
+    for (path, only_kept) in [(&all, false), (&kept, true)] {
+        let req = ExportRequest {
+            format: ExportFormat::Csv,
+            path: path.clone(),
+            passing_only: false,
+            only_kept,
+        };
+        engine::export(&session, &req).expect("export succeeds");
+    }
+    let rows = |p: &std::path::Path| -> Vec<String> {
+        std::fs::read_to_string(p)
+            .unwrap()
+            .lines()
+            .filter(|l| !l.starts_with('#'))
+            .map(str::to_owned)
+            .collect()
+    };
+    let all = rows(&all);
+    assert!(all[0].ends_with(",decision,note"), "{}", all[0]);
+    assert_eq!(all.len(), 1 + common::ROWS.len());
+    // RFC 4180 quoting of the note (quotes doubled), decision words as on screen.
+    assert!(
+        all.iter().any(|l| l.starts_with("")
+            && l.contains(",2,")
+            && l.ends_with(",kept,\"smooth, \"\"best\"\" floor\"")),
+        "{all:?}"
+    );
+    assert!(
+        all.iter()
+            .any(|l| l.contains(",1,") && l.ends_with(",set aside,")),
+        "{all:?}"
+    );
+    let kept = rows(&kept);
+    assert_eq!(kept.len(), 2, "header and the one kept candidate: {kept:?}");
 }

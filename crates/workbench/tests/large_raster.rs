@@ -47,10 +47,14 @@ fn write_dem(path: &Path) {
 
 /// A survey runner that only counts its calls and returns an empty survey.
 fn counting_runner(calls: Arc<AtomicUsize>) -> SurveyRunner {
-    Arc::new(move |_dem: &Path, _ctl: &JobControl| {
-        calls.fetch_add(1, Ordering::SeqCst);
-        Ok(common::survey_of(vec![]))
-    })
+    Arc::new(
+        move |_dem: &Path,
+              _settings: &quietbowl_workbench::survey_settings::SurveySettings,
+              _ctl: &JobControl| {
+            calls.fetch_add(1, Ordering::SeqCst);
+            Ok(common::survey_of(vec![]))
+        },
+    )
 }
 
 fn harness(limit_px: u64, calls: Arc<AtomicUsize>) -> Harness<'static, WorkbenchApp> {

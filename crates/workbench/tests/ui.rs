@@ -46,7 +46,7 @@ fn table_lists_every_candidate_of_the_survey() {
 fn raising_a_weight_slider_changes_the_order() {
     let mut h = harness();
     let before = h.state().session.ranking.order().to_vec();
-    h.get_by_role_and_label(egui::Role::Slider, "Floor roughness (RMS) [m]")
+    h.get_by_label("Weight of Floor roughness (RMS) [m]")
         .set_value_accesskit(5.0);
     h.run_steps(8);
     let after = h.state().session.ranking.order().to_vec();

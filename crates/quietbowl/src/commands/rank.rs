@@ -96,6 +96,7 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         smaa: smaa.as_ref(),
         provenance: &provenance,
         limit: a.export_top.then_some(a.top),
+        decisions: None,
     };
     if let Some(p) = &a.geojson {
         write_geojson(&set, p).with_context(|| format!("writing {}", p.display()))?;

@@ -6,7 +6,7 @@
 
 use std::path::Path;
 
-use super::{columns, row, Cell, ExportSet};
+use super::{row, Cell, ExportSet};
 use crate::SitingError;
 
 /// Shortest text that reads back to the same number (Rust's `Display` for f64: no
@@ -49,7 +49,7 @@ fn provenance_lines(set: &ExportSet<'_>) -> String {
 pub fn to_csv_string(set: &ExportSet<'_>) -> Result<String, SitingError> {
     set.check()?;
     let mut w = writer(provenance_lines(set).into_bytes());
-    w.write_record(columns(set.criteria).iter().map(|c| {
+    w.write_record(set.columns().iter().map(|c| {
         if c.unit.is_empty() {
             c.name.clone()
         } else {

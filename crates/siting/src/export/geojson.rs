@@ -11,7 +11,7 @@ use std::path::Path;
 use serde_json::{json, Value};
 
 use super::rim::{rim_shape, round9, RimShape};
-use super::{columns, row, Cell, ExportSet, MOON_CRS};
+use super::{row, Cell, ExportSet, MOON_CRS};
 use crate::SitingError;
 
 fn number(v: Option<f64>) -> Value {
@@ -128,7 +128,7 @@ pub(crate) fn union_bbox(boxes: &[[f64; 4]]) -> Option<[f64; 4]> {
 /// The whole GeoJSON text.
 pub fn to_geojson_string(set: &ExportSet<'_>) -> Result<String, SitingError> {
     set.check()?;
-    let cols = columns(set.criteria);
+    let cols = set.columns();
     let radius_m = set.radius_m();
     let mut features = Vec::new();
     let mut boxes = Vec::new();

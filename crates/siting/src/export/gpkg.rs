@@ -8,7 +8,7 @@ use gdal::vector::{Geometry, LayerAccess, LayerOptions, OGRFieldType};
 use gdal::{DriverManager, Metadata};
 
 use super::rim::rim_shape;
-use super::{columns, row, Cell, ExportSet, MOON_CRS};
+use super::{row, Cell, ExportSet, MOON_CRS};
 use crate::SitingError;
 
 /// The layer's name inside the GeoPackage.
@@ -48,7 +48,7 @@ fn fill_inner(set: &ExportSet<'_>, tmp: &Path) -> gdal::errors::Result<()> {
         &set.provenance.criteria_toml,
         PROVENANCE_DOMAIN,
     )?;
-    let cols = columns(set.criteria);
+    let cols = set.columns();
     let radius_m = set.radius_m();
     {
         let layer = ds.create_layer(LayerOptions {

@@ -14,6 +14,7 @@ use survey::{SurveyFile, SurveyParameters};
 use crate::criteria::Criteria;
 use crate::ranking::{PreparedTable, RankedEntry, Ranking};
 use crate::smaa::SmaaResult;
+use crate::study::{CandidateReview, Decision};
 use crate::SitingError;
 
 /// The geographic CRS every export is in: IAU 2015 Moon, sphere of 1737.4 km (domain notes 2).
@@ -100,6 +101,33 @@ pub struct ExportSet<'a> {
     pub provenance: &'a Provenance,
     /// Export only the best N candidates (None: all).
     pub limit: Option<usize>,
+    /// Reviewers' decisions and notes, exported as two more columns (None: no such columns).
+    pub decisions: Option<Decisions<'a>>,
+}
+
+/// Decisions and notes by candidate id (as the study file keeps them), for export.
+#[derive(Clone, Copy)]
+pub struct Decisions<'a> {
+    pub reviews: &'a std::collections::BTreeMap<u32, CandidateReview>,
+    /// Export only the candidates marked kept.
+    pub only_kept: bool,
+}
+
+impl Decisions<'_> {
+    fn kept(&self, id: u32) -> bool {
+        self.reviews
+            .get(&id)
+            .is_some_and(|r| r.decision == Decision::Accepted)
+    }
+}
+
+/// How a decision reads in an export cell.
+pub fn decision_text(d: Decision) -> &'static str {
+    match d {
+        Decision::Undecided => "",
+        Decision::Accepted => "kept",
+        Decision::Rejected => "set aside",
+    }
 }
 
 impl<'a> ExportSet<'a> {
@@ -115,9 +143,31 @@ impl<'a> ExportSet<'a> {
     }
 
     pub(crate) fn entries(&self) -> impl Iterator<Item = RankedEntry<'a>> + 'a {
+        let only = self.decisions.filter(|d| d.only_kept);
         self.ranking
             .entries(self.table)
+            .filter(move |e| only.is_none_or(|d| d.kept(e.id())))
             .take(self.limit.unwrap_or(usize::MAX))
+    }
+
+    /// How many candidates the export holds.
+    pub fn entries_count(&self) -> usize {
+        self.entries().count()
+    }
+
+    /// The columns of this export: [`columns`], then `decision` and `note` when decisions
+    /// are exported.
+    pub fn columns(&self) -> Vec<Column> {
+        let mut cols = columns(self.criteria);
+        if self.decisions.is_some() {
+            for name in ["decision", "note"] {
+                cols.push(Column {
+                    name: name.to_string(),
+                    unit: "",
+                });
+            }
+        }
+        cols
     }
 
     /// Sphere radius for drawing rims: the survey's, else the IAU Moon radius.
@@ -209,5 +259,14 @@ pub(crate) fn row(set: &ExportSet<'_>, e: &RankedEntry<'_>) -> Vec<Cell> {
     let p = set.smaa.and_then(|s| s.probabilities(e.index));
     cells.push(Cell::Real(p.map(|p| p.0)));
     cells.push(Cell::Real(p.map(|p| p.1)));
+    if let Some(d) = &set.decisions {
+        let review = d.reviews.get(&e.id());
+        cells.push(Cell::Text(
+            decision_text(review.map_or(Decision::Undecided, |r| r.decision)).to_string(),
+        ));
+        cells.push(Cell::Text(
+            review.map_or_else(String::new, |r| r.note.clone()),
+        ));
+    }
     cells
 }

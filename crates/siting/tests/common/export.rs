@@ -75,6 +75,7 @@ impl Fixture {
             smaa: Some(&self.smaa),
             provenance: &self.provenance,
             limit: None,
+            decisions: None,
         }
     }
 }
