@@ -225,10 +225,14 @@ fn verdict(ui: &mut egui::Ui, session: &Session, index: usize, c: &Candidate) {
         }
     }
     if let Some(f) = &c.fit {
-        ui.label(format!(
-            "Reflector: {}",
-            crate::fit_view::verdict_words(f.fit_ok).to_lowercase()
-        ));
+        let words = crate::fit_view::verdict_words(f.fit_ok);
+        // "Fits the ..." reads "fits the ..." after the colon; the rest keeps its capitals (DEM).
+        let mut chars = words.chars();
+        let first = chars
+            .next()
+            .map(|c| c.to_lowercase().to_string())
+            .unwrap_or_default();
+        ui.label(format!("Reflector: {first}{}", chars.as_str()));
     }
     ui.label(
         RichText::new(crate::fit_view::NOT_ASSESSED)

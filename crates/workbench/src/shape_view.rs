@@ -211,7 +211,7 @@ fn rim_deviation_plot(ui: &mut egui::Ui, crest_m: &[f32], radius_m: f64, radius_
         .enumerate()
         .map(|(k, r)| {
             r.is_finite()
-                .then(|| [k as f64 * step, *r as f64 - radius_m])
+                .then_some([k as f64 * step, *r as f64 - radius_m])
         })
         .collect();
     let reach = dev
