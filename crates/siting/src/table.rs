@@ -101,10 +101,7 @@ pub fn render_table(
     head.extend(shown.iter().map(|m| m.header()));
     head.extend(["Score".into(), "Meets limits".into()]);
     if let Some(s) = smaa {
-        head.extend([
-            "P(rank 1)".into(),
-            format!("P(top {})", s.settings.top_n),
-        ]);
+        head.extend(["P(rank 1)".into(), format!("P(top {})", s.settings.top_n)]);
     }
     let mut rows = vec![head];
     let mut notes = Vec::new();

@@ -57,7 +57,8 @@ mod tests {
         });
         let text = dish_summary(&c, Some(&StructureSpec::default()));
         assert!(
-            text.starts_with("Dish: 1000 m spherical cap of radius 800 m") && text.ends_with("(set by these criteria)"),
+            text.starts_with("Dish: 1000 m spherical cap of radius 800 m")
+                && text.ends_with("(set by these criteria)"),
             "{text}"
         );
     }

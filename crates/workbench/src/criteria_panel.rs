@@ -161,7 +161,16 @@ impl CriteriaPanel {
         let mut edited = session.criteria.clone();
         ui.heading("Weights and limits");
         ui.label(RichText::new(&edited.title).weak());
-        ui.label(RichText::new(siting::dish_summary(&edited, session.survey.as_ref().and_then(|s| s.parameters.structure.as_ref()))).small());
+        ui.label(
+            RichText::new(siting::dish_summary(
+                &edited,
+                session
+                    .survey
+                    .as_ref()
+                    .and_then(|s| s.parameters.structure.as_ref()),
+            ))
+            .small(),
+        );
         if let Some(e) = &session.criteria_error {
             ui.colored_label(ERROR_COLOUR, format!("Not applied: {e}"));
         }

@@ -91,7 +91,11 @@ impl Default for ExportDialog {
 impl ExportDialog {
     /// Draw the dialog if open; return a request when the user confirms.
     pub fn ui(&mut self, ctx: &egui::Context) -> Option<ExportRequest> {
-        if let Some(done) = self.picture_writing.as_ref().and_then(|rx| rx.try_recv().ok()) {
+        if let Some(done) = self
+            .picture_writing
+            .as_ref()
+            .and_then(|rx| rx.try_recv().ok())
+        {
             self.picture_writing = None;
             self.status = Some(done);
         }
@@ -211,7 +215,7 @@ impl ExportDialog {
 fn stamp_caution(ctx: &egui::Context, rect: egui::Rect) {
     let painter = ctx.layer_painter(egui::LayerId::new(
         egui::Order::Foreground,
-        egui::Id::new("picture-caution"),
+        egui::Id::unique("picture-caution"),
     ));
     let text = format!("{SCREENING_CAUTION}\n{}", siting::VERDICT_SCOPE);
     let galley = painter.layout(
@@ -278,7 +282,7 @@ mod tests {
         let said = save_picture(&path, &grey(20, 20), rect, 2.0).unwrap();
         assert_eq!(said, format!("Picture written to {}", path.display()));
         let png = image::open(&path).unwrap();
-        // 5..10 points at 2 pixels per point across (the image is 10 points wide), 5..13 down.
-        assert_eq!((png.width(), png.height()), (10, 16));
+        // The image is 10 points square at 2 pixels per point: 5..10 points each way remain.
+        assert_eq!((png.width(), png.height()), (10, 10));
     }
 }

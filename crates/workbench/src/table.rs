@@ -311,7 +311,8 @@ impl CandidateTable {
     }
 
     pub fn ui(&mut self, ui: &mut egui::Ui, session: &mut Session) {
-        ui.horizontal(|ui| {
+        // Wrapped, so the robustness button stays reachable in a narrow panel.
+        ui.horizontal_wrapped(|ui| {
             ui.label("Find:");
             ui.add(
                 egui::TextEdit::singleline(&mut self.filter_text)
@@ -364,7 +365,12 @@ impl CandidateTable {
                     .column(Column::exact(78.0))
                     .column(Column::exact(58.0))
                     .column(Column::exact(96.0))
-                    .column(Column::initial(300.0).at_least(120.0).resizable(true).clip(true))
+                    .column(
+                        Column::initial(300.0)
+                            .at_least(120.0)
+                            .resizable(true)
+                            .clip(true),
+                    )
                     .column(Column::exact(56.0));
                 if top_n.is_some() {
                     builder = builder.columns(Column::exact(76.0), 2);
@@ -438,7 +444,10 @@ impl CandidateTable {
                                 });
                             });
                             row.col(|ui| {
-                                let front = session.prepared.as_ref().is_some_and(|t| i < t.len() && t.pareto(i));
+                                let front = session
+                                    .prepared
+                                    .as_ref()
+                                    .is_some_and(|t| i < t.len() && t.pareto(i));
                                 ui.label(if front { "yes" } else { "" });
                             });
                             if top_n.is_some() {
@@ -469,10 +478,20 @@ impl CandidateTable {
     /// under its short label and unit, its label, meaning and file id in the tooltip.
     fn header_row(&mut self, header: &mut egui_extras::TableRow<'_, '_>, top_n: Option<usize>) {
         header.col(|ui| {
-            self.header_button(ui, SortKey::Rank, "Rank", "1 = best among those that meet the limits")
+            self.header_button(
+                ui,
+                SortKey::Rank,
+                "Rank",
+                "1 = best among those that meet the limits",
+            )
         });
         header.col(|ui| {
-            self.header_button(ui, SortKey::Id, "Name", "stable candidate name from the survey")
+            self.header_button(
+                ui,
+                SortKey::Id,
+                "Name",
+                "stable candidate name from the survey",
+            )
         });
         header.col(|ui| {
             self.header_button(

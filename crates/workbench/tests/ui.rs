@@ -78,7 +78,11 @@ fn failed_candidate_shows_its_reasons() {
     h.get_by_label(&candidate_label(3)).click();
     h.run_steps(8);
     h.get_by_label("Fails the limits:");
-    h.get_by_label_contains("Diameter 500 m: 500 m under the 1.00 km minimum");
+    // In words, in the sheet (the bullet) as well as in the list's "Why it fails" column.
+    assert!(h
+        .query_all_by_label_contains("• Diameter 500 m: 500 m under the 1.00 km minimum")
+        .next()
+        .is_some());
 }
 
 #[test]
