@@ -133,7 +133,7 @@ impl RecoveryStore {
             path: path.clone(),
             reason: e.to_string(),
         })?;
-        survey::write_atomic(&path, text.as_bytes()).map_err(write_err)
+        terrain::atomic::write_bytes(&path, text.as_bytes()).map_err(write_err)
     }
 
     /// The recovery file, if one was left behind.

@@ -58,8 +58,8 @@ fn score_page_parts_add_up_to_the_ranked_score() {
         );
         h.get_by_label(&format!("Sum of the contributions: {ranked:.3}"));
         // The measures are named by the registry, their ids kept for the tooltip.
-        // (once in the key figures, once in the breakdown)
-        assert_eq!(h.query_all_by_label("Depth/diameter (d/D)").count(), 2);
+        // (once in the criteria panel, once in the key figures, once in the breakdown)
+        assert_eq!(h.query_all_by_label("Depth/diameter (d/D)").count(), 3);
     }
 }
 
@@ -177,8 +177,9 @@ fn compare_window_opens_with_two_to_four_candidates() {
     ctrl_click(&mut h, 5);
     ctrl_click(&mut h, 6);
     h.get_by_label("Comparing C-00001, C-00002, C-00005, C-00006");
-    // Every metric has its row, by label.
-    h.get_by_label("Depth/diameter (d/D)");
+    // Every metric has its row, by label (nothing is selected, so besides the comparison only
+    // the criteria panel names it).
+    assert_eq!(h.query_all_by_label("Depth/diameter (d/D)").count(), 2);
     h.get_by_label("Radial profiles");
     h.get_by_label("Skylines and the Earth");
     h.get_by_label("Reflector fits");

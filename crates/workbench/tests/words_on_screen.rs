@@ -101,11 +101,12 @@ fn on_screen(h: &Harness<'_, WorkbenchApp>) -> Vec<(String, bool)> {
             up = p.parent();
         }
         in_tooltip |= ak.role() == egui::accesskit::Role::Tooltip;
-        for text in [ak.label(), ak.value(), ak.description()]
-            .into_iter()
-            .flatten()
-        {
+        for text in [ak.label(), ak.value()].into_iter().flatten() {
             out.push((text, in_tooltip));
+        }
+        // egui gives a widget's hover text to AccessKit as its description: tooltip text.
+        if let Some(text) = ak.description() {
+            out.push((text, true));
         }
     }
     let mut painted = Vec::new();
