@@ -16,7 +16,6 @@ use quietbowl_workbench::{Session, WorkbenchApp};
 use std::path::Path;
 use std::sync::atomic::{AtomicUsize, Ordering};
 use std::sync::Arc;
-use std::time::{Duration, Instant};
 
 const WIDTH_PX: usize = 64;
 const HEIGHT_PX: usize = 48;
@@ -72,19 +71,6 @@ fn open(h: &mut Harness<'static, WorkbenchApp>, path: &Path) {
     h.run_steps(4);
 }
 
-/// Step the window until the background job has ended (or fail after a minute).
-fn until_job_ends(h: &mut Harness<'static, WorkbenchApp>) {
-    let start = Instant::now();
-    while h.state().job.is_some() {
-        assert!(
-            start.elapsed() < Duration::from_secs(60),
-            "the job did not end"
-        );
-        std::thread::sleep(Duration::from_millis(20));
-        h.step();
-    }
-}
-
 #[test]
 fn large_raster_opens_for_viewing_and_offers_the_survey() {
     let dir = tempfile::tempdir().expect("temp dir");
@@ -107,7 +93,7 @@ fn large_raster_opens_for_viewing_and_offers_the_survey() {
     h.get_by_label("Survey it in the background").click();
     h.run_steps(2);
     assert!(h.state().survey_offer.is_none(), "the offer is taken");
-    until_job_ends(&mut h);
+    common::until_job_ends(&mut h);
     assert_eq!(calls.load(Ordering::SeqCst), 1, "the survey ran once");
 }
 
@@ -139,7 +125,7 @@ fn small_raster_is_surveyed_on_opening_as_before() {
     open(&mut h, &dem);
     assert!(h.state().survey_offer.is_none());
     assert!(h.query_by_label("Survey it in the background").is_none());
-    until_job_ends(&mut h);
+    common::until_job_ends(&mut h);
     assert_eq!(calls.load(Ordering::SeqCst), 1, "surveyed without asking");
 }
 

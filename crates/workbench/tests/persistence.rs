@@ -12,7 +12,7 @@ use quietbowl_workbench::session::candidate_label;
 use quietbowl_workbench::{Session, WorkbenchApp};
 use siting::study::Decision;
 use std::path::Path;
-use std::time::{Duration, Instant};
+use std::time::Duration;
 
 fn harness_of(app: WorkbenchApp) -> Harness<'static, WorkbenchApp> {
     let mut h = Harness::builder()
@@ -45,16 +45,6 @@ fn keep_with_note(h: &mut Harness<'static, WorkbenchApp>, id: u32, note: &str) {
     h.run_steps(2);
 }
 
-fn index_of_id(s: &Session, id: u32) -> usize {
-    s.survey
-        .as_ref()
-        .unwrap()
-        .candidates
-        .iter()
-        .position(|c| c.id == id)
-        .unwrap()
-}
-
 fn request_close(h: &mut Harness<'static, WorkbenchApp>) {
     h.input_mut()
         .viewports
@@ -66,15 +56,7 @@ fn request_close(h: &mut Harness<'static, WorkbenchApp>) {
 }
 
 fn until_job_ends(h: &mut Harness<'static, WorkbenchApp>) {
-    let start = Instant::now();
-    while h.state().job.is_some() {
-        assert!(
-            start.elapsed() < Duration::from_secs(60),
-            "the job did not end"
-        );
-        std::thread::sleep(Duration::from_millis(20));
-        h.step();
-    }
+    common::until_job_ends(h);
     h.run_steps(3);
 }
 

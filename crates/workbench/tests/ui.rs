@@ -18,18 +18,6 @@ fn harness() -> Harness<'static, WorkbenchApp> {
         .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app)
 }
 
-fn index_of_id(h: &Harness<'_, WorkbenchApp>, id: u32) -> usize {
-    h.state()
-        .session
-        .survey
-        .as_ref()
-        .unwrap()
-        .candidates
-        .iter()
-        .position(|c| c.id == id)
-        .unwrap()
-}
-
 #[test]
 fn table_lists_every_candidate_of_the_survey() {
     let h = harness();
@@ -54,7 +42,7 @@ fn raising_a_weight_slider_changes_the_order() {
     // The smoothest floor (candidate 2) should now lead, and the table follows in the same frame.
     assert_eq!(
         h.state().session.ranking.order()[0] as usize,
-        index_of_id(&h, 2)
+        common::index_of_id(&h.state().session, 2)
     );
     assert_eq!(
         h.state().table.rows(&h.state().session)[0],
@@ -67,7 +55,10 @@ fn selecting_a_row_marks_it_on_the_map() {
     let mut h = harness();
     h.get_by_label(&candidate_label(2)).click();
     h.run_steps(8);
-    assert_eq!(h.state().session.selected, Some(index_of_id(&h, 2)));
+    assert_eq!(
+        h.state().session.selected,
+        Some(common::index_of_id(&h.state().session, 2))
+    );
     h.get_by_label_contains(&format!("Marked on map: {}", candidate_label(2)));
 }
 
@@ -105,7 +96,7 @@ fn screening_caution_is_shown_with_the_ranking() {
 #[test]
 fn clicking_a_rim_on_the_map_selects_its_row() {
     let mut h = harness();
-    let target = index_of_id(&h, 5);
+    let target = common::index_of_id(&h.state().session, 5);
     let pos = {
         let app = h.state_mut();
         let session = std::mem::take(&mut app.session);

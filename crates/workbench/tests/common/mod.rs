@@ -251,3 +251,29 @@ pub fn survey_with_fits() -> SurveyFile {
     }
     s
 }
+
+/// Where the candidate with this id sits in the open survey's list.
+#[allow(dead_code)] // not every test file uses every helper
+pub fn index_of_id(s: &quietbowl_workbench::Session, id: u32) -> usize {
+    s.survey
+        .as_ref()
+        .expect("a survey is open")
+        .candidates
+        .iter()
+        .position(|c| c.id == id)
+        .expect("the id is in the survey")
+}
+
+/// Step the window until the background job has ended (or fail after a minute).
+#[allow(dead_code)]
+pub fn until_job_ends(h: &mut egui_kittest::Harness<'static, quietbowl_workbench::WorkbenchApp>) {
+    let start = std::time::Instant::now();
+    while h.state().job.is_some() {
+        assert!(
+            start.elapsed() < std::time::Duration::from_secs(60),
+            "the job did not end"
+        );
+        std::thread::sleep(std::time::Duration::from_millis(20));
+        h.step();
+    }
+}
