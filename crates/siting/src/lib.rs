@@ -36,8 +36,9 @@ pub use smaa::{smaa, SmaaResult};
 pub use study::Study;
 pub use words::{dish_summary, structure_summary};
 
-/// Shown with every ranking the tool presents (DEVELOPERS.md; domain notes section 8).
-pub const SCREENING_CAUTION: &str = "Screening estimates from orbital data; real site decisions rest on mission-grade analysis and the responsible engineering authority's review.";
+/// Shown with every ranking the tool presents (DEVELOPERS.md; domain notes section 9). It is
+/// `visibility::CAUTION`, the lowest crate that prints a report, so there is one wording.
+pub const SCREENING_CAUTION: &str = visibility::CAUTION;
 
 /// What every verdict ("meets limits", "fits the stated envelope on this DEM") leaves out;
 /// shown beside the caution wherever verdicts are shown.

@@ -34,18 +34,12 @@ const TABLE_METRICS: [&str; 8] = [
 ];
 
 /// One cell of a metric column: the number in the header's unit (`survey::METRICS`);
-/// longitudes in -180..180.
+/// longitudes in -180..180, the workbench's default convention.
 fn metric_cell(survey: &SurveyFile, i: usize, name: &str) -> String {
     let Some(m) = survey::metrics::metric(name) else {
         return "-".into();
     };
-    let v = (m.get)(&survey.candidates[i]);
-    let v = if name == "lon_deg" {
-        v.map(terrain::projection::wrap_deg_180)
-    } else {
-        v
-    };
-    m.format_number(v)
+    m.format_number((m.get)(&survey.candidates[i]))
 }
 
 /// Right-aligned columns, each as wide as its widest cell or header.

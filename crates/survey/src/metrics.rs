@@ -6,6 +6,7 @@
 //! [`MetricInfo::format`].
 
 use crate::model::Candidate;
+use crate::place::LonConvention;
 
 /// How a metric's values read: decides the number format and, for yes/no metrics, that a
 /// limit on it is a checkbox rather than a threshold.
@@ -17,8 +18,11 @@ pub enum MetricKind {
     Volume,
     /// An angle in degrees.
     Angle,
-    /// A latitude or longitude in degrees.
+    /// A latitude in degrees.
     Coordinate,
+    /// A longitude in degrees east, written in the user's convention
+    /// ([`crate::LonConvention`]).
+    Longitude,
     /// A dimensionless ratio such as d/D.
     Ratio,
     /// A share between 0 and 1, shown in percent.
@@ -47,6 +51,11 @@ impl MetricInfo {
     /// A value as a person reads it, with its unit: "71.3 km", "2.00 km", "800 m", "0.183",
     /// "93 %", "yes".
     pub fn format(&self, v: f64) -> String {
+        self.format_in(v, LonConvention::default())
+    }
+
+    /// [`MetricInfo::format`] with longitudes in the given convention.
+    pub fn format_in(&self, v: f64, lon: LonConvention) -> String {
         if !v.is_finite() {
             return "no value".to_string();
         }
@@ -59,6 +68,7 @@ impl MetricInfo {
             MetricKind::Volume => format!("{v:.0} m³"),
             MetricKind::Angle => format!("{v:.1}°"),
             MetricKind::Coordinate => format!("{v:.3}°"),
+            MetricKind::Longitude => lon.format_lon(v, 3),
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0} %", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
@@ -69,6 +79,12 @@ impl MetricInfo {
     /// number alone, in that unit ("1234" under "[m]", "93" under "[%]"), with fixed decimals
     /// per kind so a column lines up; "–" for a missing value.
     pub fn format_number(&self, v: Option<f64>) -> String {
+        self.format_number_in(v, LonConvention::default())
+    }
+
+    /// [`MetricInfo::format_number`] with longitudes in the given convention (the number
+    /// alone: "-170.000" or "190.000").
+    pub fn format_number_in(&self, v: Option<f64>, lon: LonConvention) -> String {
         let Some(v) = v.filter(|v| v.is_finite()) else {
             return "–".to_string();
         };
@@ -78,6 +94,7 @@ impl MetricInfo {
             MetricKind::Volume => format!("{v:.0}"),
             MetricKind::Angle => format!("{v:.1}"),
             MetricKind::Coordinate => format!("{v:.3}"),
+            MetricKind::Longitude => format!("{:.3}", lon.normalise(v)),
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0}", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
@@ -89,7 +106,7 @@ impl MetricInfo {
         match self.kind {
             MetricKind::Length => " [m]",
             MetricKind::Volume => " [m³]",
-            MetricKind::Angle | MetricKind::Coordinate => " [°]",
+            MetricKind::Angle | MetricKind::Coordinate | MetricKind::Longitude => " [°]",
             MetricKind::Fraction => " [%]",
             MetricKind::Ratio | MetricKind::Flag => "",
         }
@@ -304,7 +321,7 @@ pub static METRICS: &[MetricInfo] = &[
         "lon_deg",
         "Longitude",
         "Lon",
-        Coordinate,
+        Longitude,
         "deg",
         "longitude of the crater centre",
         centre_lon_deg

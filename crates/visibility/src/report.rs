@@ -104,9 +104,9 @@ pub struct SiteReport {
     pub caution: String,
 }
 
-/// Printed with every report.
-pub const CAUTION: &str = "Screening estimate from orbital elevation data of finite resolution; \
-not a substitute for mission-grade analysis and review by the responsible engineering authority.";
+/// The one screening caution of the whole tool, printed with every report and every ranking
+/// (`siting::SCREENING_CAUTION` is this constant; domain notes section 9).
+pub const CAUTION: &str = "Screening estimates from orbital data; real site decisions rest on mission-grade analysis and the responsible engineering authority's review.";
 
 impl SiteReport {
     /// A fixed-format text rendering for the terminal.

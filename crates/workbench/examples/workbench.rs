@@ -1,5 +1,5 @@
 //! Open the workbench without the main binary (screenshots, development):
-//! `workbench [FILE] [--select-rank N] [--sheet score|shape|sky|reflector|robustness|numbers|notes] [--compare R1,R2,..] [--screenshot OUT.png] [--size WxH] [--timing]`
+//! `workbench [FILE] [--select-rank N] [--sheet score|shape|sky|reflector|robustness|numbers|notes] [--compare R1,R2,..] [--rank-probabilities] [--screenshot OUT.png] [--size WxH] [--timing]`
 //! `[--map-layer relief|tint|slope] [--hide-failing] [--no-grid] [--no-legend] [--lon360]`
 
 use quietbowl_workbench::{run, WorkbenchOptions};
@@ -13,6 +13,7 @@ fn main() {
             "--select-rank" => options.select_rank = args.next().and_then(|v| v.parse().ok()),
             "--screenshot" => options.screenshot_to = args.next().map(PathBuf::from),
             "--timing" => options.report_first_frame = true,
+            "--rank-probabilities" => options.robustness = true,
             "--compare" => {
                 options.compare_ranks = args
                     .next()

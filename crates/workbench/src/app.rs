@@ -117,6 +117,9 @@ struct Remembered {
     /// What the last survey run from the window looked for.
     #[serde(default)]
     survey_settings: Option<SurveySettings>,
+    /// How longitudes were written when the window last closed.
+    #[serde(default)]
+    lon_convention: Option<survey::LonConvention>,
 }
 
 pub struct WorkbenchApp {
@@ -137,6 +140,8 @@ pub struct WorkbenchApp {
     pub select_rank_on_load: Option<u32>,
     /// Compare the candidates of these ranks once a survey is ranked (start-up option).
     pub compare_ranks_on_load: Vec<u32>,
+    /// Start the robustness analysis once the survey is ranked (screenshots, demos).
+    pub robustness_on_load: bool,
     /// A study read from disk, adopted at the start of the next frame (needs the context).
     pending_study: Option<(siting::Study, PathBuf)>,
     /// Runs a survey when a DEM without one is opened (wired in by the binary).
@@ -168,6 +173,7 @@ impl WorkbenchApp {
             remembered: Remembered::default(),
             select_rank_on_load: None,
             compare_ranks_on_load: Vec::new(),
+            robustness_on_load: false,
             pending_study: None,
             survey_runner: None,
             ask_before_survey_above_px: ASK_BEFORE_SURVEY_ABOVE_PX,
@@ -181,6 +187,9 @@ impl WorkbenchApp {
         if let Some(r) = storage.and_then(|s| eframe::get_value::<Remembered>(s, STORAGE_KEY)) {
             if let Some(settings) = &r.survey_settings {
                 self.survey_settings.settings = settings.clone();
+            }
+            if let Some(lon) = r.lon_convention {
+                self.session.lon_convention = lon;
             }
             self.remembered = r;
         }
@@ -391,6 +400,9 @@ impl WorkbenchApp {
             if let Some(i) = self.session.index_of_rank(rank) {
                 self.session.compare.toggle(i);
             }
+        }
+        if std::mem::take(&mut self.robustness_on_load) {
+            self.session.start_robustness(ctx);
         }
     }
 
@@ -618,6 +630,7 @@ impl eframe::App for WorkbenchApp {
     }
 
     fn save(&mut self, storage: &mut dyn eframe::Storage) {
+        self.remembered.lon_convention = Some(self.session.lon_convention);
         eframe::set_value(storage, STORAGE_KEY, &self.remembered);
     }
 }

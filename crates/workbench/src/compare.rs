@@ -382,17 +382,19 @@ impl CompareView {
                 }
                 let frame = LocalFrame::new(radius_m, fit.centre_lon_deg, fit.centre_lat_deg);
                 let half_m = plan_half_width_m(fit, &frame);
-                if !self.backdrops.contains_key(&i) {
-                    let tex = dem.and_then(|d| backdrop(d, &frame, half_m)).map(|img| {
-                        ui.ctx().load_texture(
-                            format!("compare-backdrop-{i}"),
-                            img,
-                            egui::TextureOptions::LINEAR,
-                        )
-                    });
-                    self.backdrops.insert(i, tex);
-                }
-                let tex = self.backdrops.get(&i).and_then(|t| t.as_ref());
+                let tex = self
+                    .backdrops
+                    .entry(i)
+                    .or_insert_with(|| {
+                        dem.and_then(|d| backdrop(d, &frame, half_m)).map(|img| {
+                            ui.ctx().load_texture(
+                                format!("compare-backdrop-{i}"),
+                                img,
+                                egui::TextureOptions::LINEAR,
+                            )
+                        })
+                    })
+                    .as_ref();
                 plan(ui, fit, spec, &frame, half_m, tex, c);
             }
         });
@@ -456,7 +458,9 @@ fn numbers(ui: &mut egui::Ui, session: &Session, chosen: &[usize]) {
                     .on_hover_text(format!("{}\nid: {}", info.description, info.name));
                 for &i in chosen {
                     let v = session.candidate(i).and_then(|c| (info.get)(c));
-                    ui.label(v.map_or("not measured".into(), |v| info.format(v)));
+                    ui.label(v.map_or("not measured".into(), |v| {
+                        info.format_in(v, session.lon_convention)
+                    }));
                 }
                 ui.end_row();
             }

@@ -4,7 +4,6 @@
 //! notes and decision. It also hosts the comparison window (`compare.rs`).
 
 use crate::compare::{CompareView, MAX_COMPARED};
-use crate::engine::SmaaRun;
 use crate::profiles::{radial_profiles, RadialProfiles};
 use crate::session::{candidate_label, Session};
 use crate::shape_view::{DEPTH_SPREAD_HINT, DIAMETER_SPREAD_HINT};
@@ -35,8 +34,6 @@ const FAIL_COLOUR: Color32 = Color32::from_rgb(240, 140, 120);
 pub struct CraterSheet {
     pub tab: SheetTab,
     profiles: Option<(usize, Option<RadialProfiles>)>,
-    smaa_run: Option<SmaaRun>,
-    smaa_error: Option<String>,
     sky: crate::sky_view::SkyView,
     fit: crate::fit_view::FitView,
     /// The comparison window, drawn from here so it follows the same session.
@@ -74,13 +71,7 @@ fn metric_value(c: &Candidate, id: &str) -> String {
 impl CraterSheet {
     pub fn ui(&mut self, ui: &mut egui::Ui, session: &mut Session, dem: Option<&Arc<Dem>>) {
         self.compare.window(ui.ctx(), session, dem);
-        if let Some(done) = self.smaa_run.as_ref().and_then(SmaaRun::try_finish) {
-            let generation = self.smaa_run.take().map_or(0, |r| r.generation);
-            match done {
-                Ok(r) => session.smaa = Some((generation, r)),
-                Err(e) => self.smaa_error = Some(e),
-            }
-        }
+        session.poll_robustness();
         let Some(index) = session.selected else {
             ui.heading("Crater sheet");
             ui.label("Select a candidate in the list or on the map.");
@@ -94,7 +85,7 @@ impl CraterSheet {
         ui.heading(format!("Crater sheet: {}", candidate_label(c.id)));
         compare_bar(ui, session, Some(index));
         verdict(ui, session, index, &c);
-        key_figures(ui, &c);
+        key_figures(ui, &c, session.lon_convention);
         ui.separator();
         self.tab_row(ui);
         ui.separator();
@@ -128,7 +119,7 @@ impl CraterSheet {
                         ui.label(info.label).on_hover_text(info.hint());
                         let text = match ((info.get)(&c), sd(info.name)) {
                             (Some(v), Some(s)) => format!("{} ± {}", info.format(v), info.format(s)),
-                            (Some(v), None) => info.format(v),
+                            (Some(v), None) => info.format_in(v, session.lon_convention),
                             (None, _) => "not measured".into(),
                         };
                         ui.label(text);
@@ -244,7 +235,7 @@ fn verdict(ui: &mut egui::Ui, session: &Session, index: usize, c: &Candidate) {
 
 /// The measurements every page leans on, named by the metric registry; each ± says on hover
 /// what it covers.
-fn key_figures(ui: &mut egui::Ui, c: &Candidate) {
+fn key_figures(ui: &mut egui::Ui, c: &Candidate, lon: survey::LonConvention) {
     let m = &c.crater;
     egui::Grid::new("sheet-key-figures")
         .num_columns(4)
@@ -264,15 +255,16 @@ fn key_figures(ui: &mut egui::Ui, c: &Candidate) {
             ui.end_row();
             ui.label("Centre");
             ui.strong(format!(
-                "lon {:.3}°, lat {:.3}°",
-                m.centre_lon_deg, m.centre_lat_deg
+                "lon {}, lat {}",
+                lon.format_lon(m.centre_lon_deg, 3),
+                survey::place::format_lat(m.centre_lat_deg, 3)
             ));
             ui.end_row();
         });
 }
 
 impl CraterSheet {
-    fn smaa_ui(&mut self, ui: &mut egui::Ui, session: &Session, index: usize) {
+    fn smaa_ui(&mut self, ui: &mut egui::Ui, session: &mut Session, index: usize) {
         let current = session
             .smaa
             .as_ref()
@@ -304,7 +296,7 @@ impl CraterSheet {
                     ));
                 }
             },
-            None if self.smaa_run.is_some() => {
+            None if session.robustness.is_running() => {
                 ui.horizontal(|ui| {
                     ui.spinner();
                     ui.label("Drawing weights…");
@@ -313,19 +305,11 @@ impl CraterSheet {
             None => {
                 ui.label(RichText::new("How often this candidate stays on top when the weights are drawn around the chosen ones.").small());
                 if ui.button("Estimate rank probabilities").clicked() {
-                    if let Some(table) = &session.prepared {
-                        self.smaa_run = Some(SmaaRun::start(
-                            table.clone(),
-                            session.criteria.clone(),
-                            session.ranking.generation,
-                            ui.ctx(),
-                        ));
-                        self.smaa_error = None;
-                    }
+                    session.start_robustness(ui.ctx());
                 }
             }
         }
-        if let Some(e) = &self.smaa_error {
+        if let Some(e) = session.robustness.error() {
             ui.colored_label(Color32::from_rgb(240, 140, 120), e);
         }
     }

@@ -232,6 +232,56 @@ impl SmaaRun {
     }
 }
 
+/// The one robustness run of the window, started from the candidate list or the crater sheet;
+/// its result goes to `Session::smaa` with the ranking generation it belongs to.
+#[derive(Default)]
+pub struct RobustnessJob {
+    run: Option<SmaaRun>,
+    error: Option<String>,
+}
+
+impl RobustnessJob {
+    /// Start a run on the session's current ranking (nothing happens without one).
+    pub fn start(
+        &mut self,
+        table: Option<&Arc<PreparedTable>>,
+        criteria: &Criteria,
+        generation: u64,
+        ctx: &egui::Context,
+    ) {
+        if let Some(table) = table {
+            self.run = Some(SmaaRun::start(
+                table.clone(),
+                criteria.clone(),
+                generation,
+                ctx,
+            ));
+            self.error = None;
+        }
+    }
+
+    /// Take in a finished run: the result with its generation, or keep the error to show.
+    pub fn poll(&mut self) -> Option<(u64, SmaaResult)> {
+        let done = self.run.as_ref().and_then(SmaaRun::try_finish)?;
+        let generation = self.run.take().map_or(0, |r| r.generation);
+        match done {
+            Ok(r) => Some((generation, r)),
+            Err(e) => {
+                self.error = Some(e);
+                None
+            }
+        }
+    }
+
+    pub fn is_running(&self) -> bool {
+        self.run.is_some()
+    }
+
+    pub fn error(&self) -> Option<&str> {
+        self.error.as_deref()
+    }
+}
+
 /// Write the shortlist through `siting`'s exporters.
 pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<String, String> {
     let (Some(survey), Some(table), Some(full)) =

@@ -36,21 +36,10 @@ pub struct FitView {
     pub close_up: bool,
 }
 
-/// A one-line description of the structure spec.
+/// A one-line description of the structure spec (the one `siting` writes under the
+/// criteria's title, so the sheet and the panel name the dish alike).
 pub fn describe_spec(s: &StructureSpec) -> String {
-    let shape = match s.shape {
-        structure::Shape::Paraboloid { focal_length_m } => {
-            format!("paraboloid, focal length {focal_length_m:.0} m")
-        }
-        structure::Shape::ParaboloidRatio { f_over_d } => format!("paraboloid, f/D {f_over_d:.2}"),
-        structure::Shape::SphericalCap { radius_m } => {
-            format!("spherical cap, radius {radius_m:.0} m")
-        }
-    };
-    format!(
-        "{:.0} m aperture, {shape}, {} anchors; clearance at least {:.0} m; anchors within {:.0} m of each other in height",
-        s.aperture_m, s.anchors, s.min_clearance_m, s.max_anchor_height_difference_m
-    )
+    siting::structure_summary(s)
 }
 
 fn compass(az_deg: f64) -> &'static str {

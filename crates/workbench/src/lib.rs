@@ -65,6 +65,8 @@ pub struct WorkbenchOptions {
     pub sheet_tab: Option<crater_sheet::SheetTab>,
     /// Open the comparison on the candidates of these ranks (screenshots, demos).
     pub compare_ranks: Vec<u32>,
+    /// Start the robustness analysis once the survey is ranked (screenshots, demos).
+    pub robustness: bool,
     /// Runs a survey on a DEM opened without one (the binary passes the survey library's run).
     pub survey_runner: Option<job::SurveyRunner>,
     /// The map's layer and toggles at start (screenshots); default otherwise.
@@ -103,9 +105,12 @@ pub fn run(options: WorkbenchOptions) -> Result<(), WorkbenchError> {
             }
             app.select_rank_on_load = options.select_rank;
             app.compare_ranks_on_load = options.compare_ranks.clone();
+            app.robustness_on_load = options.robustness;
             app.sheet.tab = options.sheet_tab.unwrap_or_default();
             app.map.settings = options.map_settings.clone().unwrap_or_default();
-            app.session.lon_convention = options.lon_convention.unwrap_or_default();
+            if let Some(lon) = options.lon_convention {
+                app.session.lon_convention = lon;
+            }
             app.survey_runner = Some(
                 options
                     .survey_runner
@@ -142,8 +147,9 @@ struct Launcher {
 impl eframe::App for Launcher {
     fn ui(&mut self, ui: &mut egui::Ui, frame: &mut eframe::Frame) {
         eframe::App::ui(&mut self.app, ui, frame);
-        let busy =
-            self.app.job.is_some() || self.app.terrain.as_ref().is_some_and(|t| t.is_loading());
+        let busy = self.app.job.is_some()
+            || self.app.session.robustness.is_running()
+            || self.app.terrain.as_ref().is_some_and(|t| t.is_loading());
         if !self.first_frame_reported {
             self.first_frame_reported = true;
             eprintln!(

@@ -23,6 +23,8 @@ pub struct Session {
     pub ranking: Ranking,
     /// Robustness analysis and the ranking generation it belongs to.
     pub smaa: Option<(u64, SmaaResult)>,
+    /// The robustness run in the background, if one is going.
+    pub robustness: crate::engine::RobustnessJob,
     /// Index into `survey.candidates`.
     pub selected: Option<usize>,
     /// Set when the selection came from outside the map, so the map centres on it once.
@@ -128,6 +130,7 @@ impl Default for Session {
             prepared: None,
             ranking: Ranking::default(),
             smaa: None,
+            robustness: Default::default(),
             selected: None,
             centre_map_on_selection: false,
             scroll_table_to_selection: false,
@@ -146,6 +149,20 @@ impl Default for Session {
 }
 
 impl Session {
+    /// Start the robustness analysis (SMAA) of the current ranking in the background.
+    pub fn start_robustness(&mut self, ctx: &egui::Context) {
+        let generation = self.ranking.generation;
+        self.robustness
+            .start(self.prepared.as_ref(), &self.criteria, generation, ctx);
+    }
+
+    /// Take in a finished robustness run, if one has just ended.
+    pub fn poll_robustness(&mut self) {
+        if let Some(done) = self.robustness.poll() {
+            self.smaa = Some(done);
+        }
+    }
+
     pub fn with_survey(survey: SurveyFile) -> Self {
         let mut s = Session::default();
         s.set_survey(survey, None);

@@ -3,7 +3,6 @@
 //! sortable by any column, filtered by text and by verdict, virtually scrolled so only visible
 //! rows are built. Metric ids appear only in header tooltips ("id in files").
 
-use crate::engine::SmaaRun;
 use crate::session::{candidate_label, Session};
 use egui::{Align, Color32, RichText};
 use egui_extras::{Column, TableBuilder};
@@ -47,10 +46,6 @@ pub struct CandidateTable {
     /// weights move): rows are read from the ranking's own order, place by place.
     rows_are_ranking: bool,
     rows_key: Option<ViewKey>,
-    /// A robustness run started from the list (the crater sheet can start one too; both
-    /// leave the result in `Session::smaa`).
-    smaa_run: Option<SmaaRun>,
-    smaa_error: Option<String>,
 }
 
 impl Default for CandidateTable {
@@ -63,8 +58,6 @@ impl Default for CandidateTable {
             rows: Vec::new(),
             rows_are_ranking: false,
             rows_key: None,
-            smaa_run: None,
-            smaa_error: None,
         }
     }
 }
@@ -276,14 +269,8 @@ impl CandidateTable {
 
     /// Start a robustness run of the current ranking, or take in a finished one.
     fn robustness_controls(&mut self, ui: &mut egui::Ui, session: &mut Session) {
-        if let Some(done) = self.smaa_run.as_ref().and_then(SmaaRun::try_finish) {
-            let generation = self.smaa_run.take().map_or(0, |r| r.generation);
-            match done {
-                Ok(r) => session.smaa = Some((generation, r)),
-                Err(e) => self.smaa_error = Some(e),
-            }
-        }
-        if self.smaa_run.is_some() {
+        session.poll_robustness();
+        if session.robustness.is_running() {
             ui.spinner();
             ui.label("Drawing weights…");
         } else if current_smaa(session).is_none() {
@@ -294,18 +281,10 @@ impl CandidateTable {
                 .on_hover_text(hint)
                 .clicked()
             {
-                if let Some(table) = &session.prepared {
-                    self.smaa_run = Some(SmaaRun::start(
-                        table.clone(),
-                        session.criteria.clone(),
-                        session.ranking.generation,
-                        ui.ctx(),
-                    ));
-                    self.smaa_error = None;
-                }
+                session.start_robustness(ui.ctx());
             }
         }
-        if let Some(e) = &self.smaa_error {
+        if let Some(e) = session.robustness.error() {
             ui.colored_label(FAILS_COLOUR, e);
         }
     }
@@ -461,7 +440,9 @@ impl CandidateTable {
                             }
                             for m in METRICS {
                                 row.col(|ui| {
-                                    ui.label(m.format_number((m.get)(c)));
+                                    ui.label(
+                                        m.format_number_in((m.get)(c), session.lon_convention),
+                                    );
                                 });
                             }
                             if (clicked || row.response().clicked())

@@ -28,7 +28,7 @@ fn reflector_page_shows_the_verdict_and_each_failure_reason() {
     let h = harness_on(2, common::survey_with_fits());
     h.get_by_label("Does not fit the stated envelope on this DEM");
     h.get_by_label_contains(common::FIT_FAILURE_REASON);
-    h.get_by_label_contains("Structure: 350 m aperture, paraboloid, f/D 0.50, 6 anchors");
+    h.get_by_label_contains("Structure: 350 m paraboloid at f/D 0.50, 6 anchors");
     h.get_by_label("Reflector plan");
 }
 

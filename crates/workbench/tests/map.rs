@@ -93,3 +93,30 @@ fn failing_rims_toggle_is_on_by_default_and_turns_off() {
     h.run_steps(4);
     assert!(!h.state().map.settings.show_failing);
 }
+
+/// The list and the crater sheet write longitudes in the chosen convention too: a crater at
+/// 185 E reads -175 in -180..180 and 185 E in 0..360.
+#[test]
+fn the_list_and_the_sheet_follow_the_longitude_convention() {
+    let survey = common::survey_of(vec![common::candidate(
+        7, 1500.0, 0.15, 0.95, 2.0, 185.0, -5.0,
+    )]);
+    let mut app = WorkbenchApp::new(Session::with_survey_and_criteria(
+        survey,
+        common::test_criteria(),
+    ));
+    app.session.select(Some(0), false);
+    let mut h = Harness::builder()
+        .with_size(egui::vec2(1600.0, 1000.0))
+        .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
+    h.run_steps(4);
+    h.get_by_label("lon -175.000°, lat -5.000°");
+    h.get_by_label("-175.000");
+    assert!(h.query_by_label("185.000").is_none());
+
+    h.get_by_label("0..360° E").click();
+    h.run_steps(4);
+    h.get_by_label("lon 185.000° E, lat -5.000°");
+    h.get_by_label("185.000");
+    assert!(h.query_by_label("-175.000").is_none());
+}

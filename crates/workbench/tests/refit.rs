@@ -56,7 +56,7 @@ fn applying_a_wider_aperture_refits_the_survey_in_the_background() {
         .with_size(egui::vec2(1600.0, 1000.0))
         .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
     h.run_steps(4);
-    h.get_by_label_contains("Fits shown: 350 m aperture");
+    h.get_by_label_contains("Fits shown: 350 m paraboloid");
     assert!(h.query_by_label("Apply and refit").is_some());
 
     h.get_by_role_and_label(egui::Role::SpinButton, "Aperture diameter")
@@ -112,7 +112,7 @@ fn applying_a_wider_aperture_refits_the_survey_in_the_background() {
     h.get_by_label_contains(&format!("Refitted: the reflector fits {n_after} of"));
     // The editor and the selected crater's Reflector page both describe the new dish.
     assert!(
-        h.query_all_by_label_contains("700 m aperture, paraboloid, f/D 0.50, 6 anchors")
+        h.query_all_by_label_contains("700 m paraboloid at f/D 0.50, 6 anchors")
             .count()
             >= 2
     );

@@ -70,9 +70,7 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     if grid.is_none() {
         eprintln!("note: the site lies outside the DEM; the horizon is the bare sphere's");
     }
-    let mut report = visibility::site_report(lon, lat, grid.as_ref(), &opts)?;
-    // The tool has one caution, worded in `siting`, on every figure it presents.
-    report.caution = siting::SCREENING_CAUTION.to_string();
+    let report = visibility::site_report(lon, lat, grid.as_ref(), &opts)?;
     if a.json {
         println!("{}", serde_json::to_string_pretty(&report)?);
     } else {
