@@ -1,5 +1,5 @@
 # The two commands of the README: `make demo` and `make test`. Everything else is a helper.
-.PHONY: setup build demo test bench screenshot demo-terrain fuzz
+.PHONY: setup build demo test bench screenshot demo-terrain fuzz cluster-check
 
 CARGO ?= cargo
 DEMO_DEM := demo-terrain/farside-patch.tif
@@ -28,6 +28,11 @@ bench: setup
 # Workbench screenshots under Xvfb into docs/screenshots/.
 screenshot: build
 	@scripts/screenshot.sh
+
+# The Slurm path of docs/cluster.md run for real on this machine (needs root: it starts a
+# single-node slurmctld, slurmd and munged of its own, and installs slurm-wlm and munge if missing).
+cluster-check: build
+	@scripts/cluster-check.sh
 
 demo-terrain: build
 	$(QB) make-demo-terrain --out demo-terrain
