@@ -37,6 +37,16 @@ scratch=$(mktemp -d)
 trap 'kill "$xvfb" 2>/dev/null || true; rm -rf "$scratch"' EXIT
 sleep 1
 
+# A DEM is surveyed once here rather than by every window.
+case "$file" in
+  *.json|*.toml) ;;
+  *)
+    (cd "$root" && cargo build --release -q -p quietbowl)
+    "$CARGO_TARGET_DIR/release/quietbowl" survey "$file" --no-checkpoint --out "$scratch/survey.json" >/dev/null
+    file=$scratch/survey.json
+    ;;
+esac
+
 want() {
   [[ ${#wanted[@]} -eq 0 ]] && return 0
   local w
@@ -101,8 +111,10 @@ if want map-south-polar; then
   lola_dir=${QUIETBOWL_LOLA_DIR:-$root/../shared/data/lola-ldem4}
   lola=$(ls "$lola_dir"/*.LBL 2>/dev/null | head -1 || true)
   if [[ -n "$lola" ]] && command -v gdalwarp >/dev/null; then
+    # PROJ complains of the northern points it cannot project; only a failed warp matters.
     gdalwarp -q -t_srs IAU_2015:30135 -te -900000 -900000 900000 900000 -tr 7500 7500 \
-      -r bilinear "$lola" "$scratch/south-polar.tif"
+      -r bilinear "$lola" "$scratch/south-polar.tif" 2>"$scratch/warp.log" || {
+      cat "$scratch/warp.log" >&2; exit 1; }
     shot map-south-polar "$scratch/south-polar.tif" --map-layer relief
   else
     echo "map-south-polar: no LOLA product in $lola_dir or no gdalwarp; picture not retaken"

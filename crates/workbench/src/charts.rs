@@ -63,6 +63,27 @@ pub fn key_row(ui: &mut egui::Ui, entries: &[KeyEntry<'_>]) {
 }
 
 /// Grid marks every 15 degrees of azimuth, stronger every 45 and 90.
+/// Elevation marks every 10 degrees with the 30-degree ones stronger, so a skyline plot of
+/// -90..+30 degrees labels -90, -60, -30, 0 and 30 rather than the level line alone.
+pub fn elevation_grid(input: GridInput) -> Vec<GridMark> {
+    let (lo, hi) = input.bounds;
+    let mut marks = Vec::new();
+    let mut e = (lo / 10.0).floor() * 10.0;
+    while e <= hi {
+        let step_size = if e.rem_euclid(30.0) == 0.0 {
+            30.0
+        } else {
+            10.0
+        };
+        marks.push(GridMark {
+            value: e,
+            step_size,
+        });
+        e += 10.0;
+    }
+    marks
+}
+
 pub fn azimuth_grid(input: GridInput) -> Vec<GridMark> {
     let (lo, hi) = input.bounds;
     let mut marks = Vec::new();

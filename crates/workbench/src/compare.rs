@@ -7,9 +7,9 @@ use crate::charts::{key_row, KeyEntry, KeyMark, COMPARE_COLOURS};
 use crate::fit_plan::{backdrop, plan, plan_half_width_m};
 use crate::profiles::{radial_profiles, RadialProfiles};
 use crate::session::{candidate_label, Session};
-use crate::sky_view::{zone_band, SkyFigures, SkyView};
+use crate::sky_view::{SkyFigures, SkyView};
 use egui::{Color32, RichText};
-use egui_plot::{FilledArea, HLine, Line, LineStyle, Plot, PlotPoints, VLine};
+use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoints, VLine};
 use std::collections::HashMap;
 use std::sync::Arc;
 use terrain::{Dem, LocalFrame};
@@ -107,7 +107,7 @@ impl CompareView {
         let mut open = true;
         egui::Window::new("Compare candidates")
             .open(&mut open)
-            .default_size([980.0, 720.0])
+            .default_size([1240.0, 820.0])
             .vscroll(true)
             .show(ctx, |ui| self.body(ui, session, dem));
         if !open {
@@ -135,15 +135,20 @@ impl CompareView {
         );
         self.header(ui, session, &chosen);
         ui.separator();
-        egui::CollapsingHeader::new("Numbers")
-            .default_open(true)
-            .show(ui, |ui| numbers(ui, session, &chosen));
-        egui::CollapsingHeader::new("Radial profiles")
-            .default_open(true)
-            .show(ui, |ui| self.profiles_plot(ui, session, &chosen, dem));
-        egui::CollapsingHeader::new("Skylines and the Earth")
-            .default_open(true)
-            .show(ui, |ui| self.skylines(ui, session, &chosen, dem));
+        // Numbers beside the plots, so one look takes in both.
+        ui.columns(2, |cols| {
+            egui::CollapsingHeader::new("Numbers")
+                .default_open(true)
+                .show(&mut cols[0], |ui| numbers(ui, session, &chosen));
+            egui::CollapsingHeader::new("Radial profiles")
+                .default_open(true)
+                .show(&mut cols[1], |ui| {
+                    self.profiles_plot(ui, session, &chosen, dem)
+                });
+            egui::CollapsingHeader::new("Skylines and the Earth")
+                .default_open(true)
+                .show(&mut cols[1], |ui| self.skylines(ui, session, &chosen, dem));
+        });
         egui::CollapsingHeader::new("Reflector fits")
             .default_open(true)
             .show(ui, |ui| self.fits(ui, session, &chosen, dem));
@@ -280,15 +285,18 @@ impl CompareView {
         }
         let top = figures
             .iter()
-            .flat_map(|(_, f)| f.horizon.iter().map(|p| p.1))
+            .map(|(_, f)| crate::sky_view::elevation_bounds(f).1)
             .fold(0.0_f64, f64::max);
-        Plot::new("compare-skylines")
+        // The bounds follow the traced skylines: a plot keeps its bounds in memory, so its id
+        // changes as skylines arrive.
+        Plot::new(("compare-skylines", chosen, figures.len()))
             .height(240.0)
             .x_axis_label("azimuth from north, clockwise [°]")
             .y_axis_label("elevation [°]")
             .default_x_bounds(0.0, 360.0)
-            .default_y_bounds(-90.0, (top + 10.0).min(90.0))
+            .default_y_bounds(-90.0, top)
             .x_grid_spacer(crate::charts::azimuth_grid)
+            .y_grid_spacer(crate::charts::elevation_grid)
             .x_axis_formatter(crate::charts::azimuth_tick)
             .allow_scroll(false)
             .show(ui, |plot| {
@@ -299,21 +307,8 @@ impl CompareView {
                 );
                 for &(k, f) in &figures {
                     let colour = COMPARE_COLOURS[k % 4];
-                    for run in zone_band(&f.earth_zone) {
-                        let xs: Vec<f64> = run.iter().map(|r| r.0).collect();
-                        let lo: Vec<f64> = run.iter().map(|r| r.1).collect();
-                        let hi: Vec<f64> = run.iter().map(|r| r.2).collect();
-                        plot.add(
-                            FilledArea::new("", &xs, &lo, &hi)
-                                .fill_color(colour.gamma_multiply(0.25))
-                                .stroke(egui::Stroke::new(1.0, colour))
-                                .allow_hover(false),
-                        );
-                    }
-                    let mut pts: Vec<[f64; 2]> = f.horizon.iter().map(|&(a, e)| [a, e]).collect();
-                    if let Some(first) = f.horizon.first() {
-                        pts.push([first.0 + 360.0, first.1]);
-                    }
+                    crate::sky_view::draw_zone(plot, f, colour.gamma_multiply(0.25), colour);
+                    let pts = crate::sky_view::skyline_points(f);
                     plot.line(
                         Line::new("", PlotPoints::from(pts))
                             .color(colour)

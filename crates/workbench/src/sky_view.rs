@@ -307,7 +307,7 @@ pub fn zone_band(outline: &[(f64, f64)]) -> Vec<Vec<(f64, f64, f64)>> {
 
 /// Lowest and highest elevation a skyline plot shows: the whole lower sky (the Earth zone
 /// of a far-side site lies far below the horizon) up to a little above the skyline.
-fn elevation_bounds(f: &SkyFigures) -> (f64, f64) {
+pub(crate) fn elevation_bounds(f: &SkyFigures) -> (f64, f64) {
     let top = f
         .horizon
         .iter()
@@ -319,7 +319,7 @@ fn elevation_bounds(f: &SkyFigures) -> (f64, f64) {
 }
 
 /// A skyline line, its ends joined across north (0 and 360 degrees).
-fn skyline_points(f: &SkyFigures) -> Vec<[f64; 2]> {
+pub(crate) fn skyline_points(f: &SkyFigures) -> Vec<[f64; 2]> {
     let mut pts: Vec<[f64; 2]> = f.horizon.iter().map(|&(a, e)| [a, e]).collect();
     if let Some(first) = f.horizon.first() {
         pts.push([first.0 + 360.0, first.1]);
@@ -327,7 +327,13 @@ fn skyline_points(f: &SkyFigures) -> Vec<[f64; 2]> {
     pts
 }
 
-fn draw_zone(plot: &mut egui_plot::PlotUi<'_>, f: &SkyFigures, fill: Color32, edge: Color32) {
+/// The area the Earth's centre covers over all librations, filled, with its outline.
+pub(crate) fn draw_zone(
+    plot: &mut egui_plot::PlotUi<'_>,
+    f: &SkyFigures,
+    fill: Color32,
+    edge: Color32,
+) {
     for run in zone_band(&f.earth_zone) {
         let xs: Vec<f64> = run.iter().map(|r| r.0).collect();
         let lo: Vec<f64> = run.iter().map(|r| r.1).collect();
@@ -358,6 +364,7 @@ pub fn skyline_plot(
         .default_x_bounds(0.0, 360.0)
         .default_y_bounds(lo, hi)
         .x_grid_spacer(azimuth_grid)
+        .y_grid_spacer(crate::charts::elevation_grid)
         .x_axis_formatter(azimuth_tick)
         .allow_scroll(false)
         .show(ui, |plot| {
