@@ -59,7 +59,10 @@ shot() {
   local name=$1 input=$2
   shift 2
   want "$name" || return 0
-  XDG_DATA_HOME=$scratch DISPLAY=$display LIBGL_ALWAYS_SOFTWARE=1 timeout 300 "$bin" "$input" \
+  # Settings of its own, so nothing one picture chose (a longitude convention) carries over.
+  local settings
+  settings=$(mktemp -d "$scratch/settings.XXXXXX")
+  XDG_DATA_HOME=$settings DISPLAY=$display LIBGL_ALWAYS_SOFTWARE=1 timeout 300 "$bin" "$input" \
     --size 1600x1000 "$@" --screenshot "$out/$name.png"
   echo "wrote $out/$name.png"
 }
