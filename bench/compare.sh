@@ -4,7 +4,9 @@
 # whole command, Mpx/s, recall and precision (both scored by bench/baseline/score.py, the rule
 # of crates/craters/tests/demo_accuracy.rs) and the speed ratio. The survey runs with its
 # defaults (diameter range 3 px up to a third of a tile, 90 m - 20 km on 30 m posts; the
-# visibility and structure-fit columns on); the baseline with the same range.
+# visibility and structure-fit columns on); the baseline with the same range. The survey is
+# also timed with --no-visibility --no-structure (detection and measurement only, the part of
+# its work the baseline does too).
 #
 #   bench/compare.sh [SEED ...]                    default: 1 2
 #
@@ -51,22 +53,27 @@ for g in "${grids[@]}"; do
   dem=$dir/farside-patch.tif truth=$dir/truth.json
   tag=${label// /}
   timed "$work/$tag.qb.time" "$bin" survey "$dem" --no-checkpoint --out "$work/$tag.survey.json"
+  timed "$work/$tag.qbd.time" "$bin" survey "$dem" --no-visibility --no-structure --no-checkpoint \
+    --out "$work/$tag.detect.json"
   timed "$work/$tag.py.time" "$py" bench/baseline/detect.py "$dem" "$work/$tag.baseline.csv" \
     --min-diameter-m 90 --max-diameter-m 20000
   qs=$("$py" bench/baseline/score.py "$dem" "$truth" --survey "$work/$tag.survey.json" --json)
   ps=$("$py" bench/baseline/score.py "$dem" "$truth" --csv "$work/$tag.baseline.csv" --json)
   rows+=("$(
-    "$py" - "$label" "$truth" "$(cat "$work/$tag.qb.time")" "$(cat "$work/$tag.py.time")" "$qs" "$ps" <<'PY'
+    "$py" - "$label" "$truth" "$(cat "$work/$tag.qb.time")" "$(cat "$work/$tag.qbd.time")" \
+      "$(cat "$work/$tag.py.time")" "$qs" "$ps" <<'PY'
 import json, sys
-label, truth, qt, pt, qs, ps = sys.argv[1:]
+label, truth, qt, dt, pt, qs, ps = sys.argv[1:]
 r = json.load(open(truth))["raster"]
 mpx = r["width_px"] * r["height_px"] / 1e6
-(qw, qu), (pw, pu) = map(float, qt.split()), map(float, pt.split())
+(qw, qu), (dw, du), (pw, pu) = (map(float, t.split()) for t in (qt, dt, pt))
 qs, ps = json.loads(qs), json.loads(ps)
 print(
     f"| {label} ({r['width_px']} x {r['height_px']} px) | {qw:.2f} s / {qu:.2f} s | {mpx / qw:.2f} | "
-    f"{qs['recall']:.3f} / {qs['precision']:.3f} | {pw:.2f} s / {pu:.2f} s | {mpx / pw:.2f} | "
-    f"{ps['recall']:.3f} / {ps['precision']:.3f} | {pw / qw:.2f}x ({pu / qu:.2f}x) |"
+    f"{qs['recall']:.3f} / {qs['precision']:.3f} | {dw:.2f} s / {du:.2f} s | {mpx / dw:.2f} | "
+    f"{pw:.2f} s / {pu:.2f} s | {mpx / pw:.2f} | "
+    f"{ps['recall']:.3f} / {ps['precision']:.3f} | {pw / qw:.2f}x ({pu / qu:.2f}x) | "
+    f"{pw / dw:.2f}x ({pu / du:.2f}x) |"
 )
 PY
   )")
@@ -74,6 +81,8 @@ done
 echo "load average after: $(cut -d' ' -f1-3 /proc/loadavg)"
 echo "survey columns: visibility and structure fit on (the defaults); $("$bin" --version 2>/dev/null || echo "$bin")"
 echo
-echo "| grid | quietbowl wall / user CPU | Mpx/s | recall / precision | Python wall / user CPU | Mpx/s | recall / precision | speed ratio, wall (CPU) |"
-echo "|---|---|---|---|---|---|---|---|"
+echo "speed ratio = the baseline's time / quietbowl's time (above 1: quietbowl is faster)"
+echo
+echo "| grid | quietbowl survey, wall / user CPU | Mpx/s | recall / precision | survey without visibility and structure, wall / user CPU | Mpx/s | Python baseline, wall / user CPU | Mpx/s | recall / precision | speed ratio, wall (CPU) | speed ratio without visibility and structure, wall (CPU) |"
+echo "|---|---|---|---|---|---|---|---|---|---|---|"
 printf '%s\n' "${rows[@]}"
