@@ -62,8 +62,8 @@ pub struct OperationsInputs {
     /// rotating frame over one period, equally spaced in time; replaces the circle.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub relay_orbit_csv: Option<String>,
-    /// Terrain out to this many crater diameters from each point shapes the skyline (at
-    /// least 5 km). Default 3: the wall and the plain round the rim; farther ground is not
+    /// Terrain out to this many crater diameters from each point shapes the skyline (from
+    /// 500 m to 8 km). Default 3: the wall and the plain round the rim; farther ground is not
     /// read, which can only lower the skyline (common practice, no source).
     pub skyline_reach_diameters: f64,
 }

@@ -56,12 +56,6 @@ pub struct LandingReport {
     pub safe_fraction: f64,
     /// Lattice spacing (the DEM's post), m: no hazard smaller than this is seen.
     pub post_m: f64,
-    /// The safe mask, for pictures: `n` x `n` nodes from the south-west corner, `cell_m` apart,
-    /// centred on the crater centre (1 safe, 0 hazard, 2 no data).
-    #[serde(skip)]
-    pub mask: Vec<u8>,
-    #[serde(skip)]
-    pub mask_n: usize,
 }
 
 /// The safe mask of a lattice: 1 safe, 0 hazard, 2 no data near the node.
@@ -151,11 +145,35 @@ pub fn landing(
     limits: &LandingLimits,
     post_m: f64,
 ) -> Option<LandingReport> {
+    let patch = Patch::build(
+        grid,
+        site.crater_lon_deg,
+        site.crater_lat_deg,
+        lattice_half_m(site, limits, post_m),
+        post_m,
+    )?;
+    landing_on(&patch, site, limits)
+}
+
+/// Half-side of the lattice the landing needs round the crater centre, m: the floor, four
+/// sigma of dispersion and two posts.
+pub fn lattice_half_m(site: &LandingSite, limits: &LandingLimits, post_m: f64) -> f64 {
+    site.floor_radius_m + 4.0 * limits.dispersion_3sigma_m / 3.0 + 2.0 * post_m
+}
+
+/// [`landing`] on a lattice already built round the crater centre, at least
+/// [`lattice_half_m`] each way.
+pub fn landing_on(
+    patch: &Patch,
+    site: &LandingSite,
+    limits: &LandingLimits,
+) -> Option<LandingReport> {
+    let post_m = patch.cell_m;
+    let inner = centre_square(patch, lattice_half_m(site, limits, post_m));
+    let patch = inner.as_ref().unwrap_or(patch);
     let sigma = limits.dispersion_3sigma_m / 3.0;
-    let half = site.floor_radius_m + 4.0 * sigma + 2.0 * post_m;
-    let patch = Patch::build(grid, site.crater_lon_deg, site.crater_lat_deg, half, post_m)?;
     let n = patch.n;
-    let mask = safe_mask(&patch, limits);
+    let mask = safe_mask(patch, limits);
     let p = landing_probability(&mask, n, sigma / post_m);
     let (ax, ay) = patch.frame.to_local(site.aim_lon_deg, site.aim_lat_deg);
     let node_of = |x: f64, y: f64| -> Option<usize> {
@@ -195,7 +213,27 @@ pub fn landing(
         best_to_aim_m: best_d,
         safe_fraction: safe as f64 / floor.max(1) as f64,
         post_m,
-        mask,
-        mask_n: n,
+    })
+}
+
+/// The nodes of `patch` within `half_m` of its centre each way, as a lattice of their own
+/// (the same heights); `None` when that is the whole patch.
+fn centre_square(patch: &Patch, half_m: f64) -> Option<Patch> {
+    let steps = ((half_m / patch.cell_m).ceil() as usize).min(patch.n / 2);
+    let skip = patch.n / 2 - steps;
+    if skip == 0 {
+        return None;
+    }
+    let n = 2 * steps + 1;
+    let mut heights_m = Vec::with_capacity(n * n);
+    for j in skip..skip + n {
+        heights_m.extend_from_slice(&patch.heights_m[j * patch.n + skip..j * patch.n + skip + n]);
+    }
+    Some(Patch {
+        frame: patch.frame.clone(),
+        cell_m: patch.cell_m,
+        half_m: steps as f64 * patch.cell_m,
+        n,
+        heights_m,
     })
 }

@@ -13,6 +13,7 @@ pub mod night;
 pub mod relay;
 pub mod shots;
 pub mod sky;
+pub mod skyline;
 pub mod sun;
 mod text;
 
@@ -25,10 +26,10 @@ pub use sky::{AboveSkyline, SkyTracks};
 use craters::CraterMeasurement;
 use serde::{Deserialize, Serialize};
 use std::path::Path;
+use structure::patch::Patch;
 use structure::StructureFit;
 use terrain::ElevationGrid;
 use thiserror::Error;
-use visibility::{Horizon, HorizonSpec, HorizonTerrain, NodataRule};
 
 #[derive(Debug, Error, Clone, PartialEq)]
 pub enum OperationsError {
@@ -40,8 +41,12 @@ pub enum OperationsError {
 
 /// Sectors of every skyline the operations read (0.5 deg, as the Earth margin).
 pub const SKYLINE_SECTORS: usize = 720;
-/// The skyline reads terrain at least this far from each point, m.
-pub const SKYLINE_REACH_MIN_M: f64 = 5_000.0;
+/// The skylines read terrain at least this far from each point, and at most, m (the reach
+/// is `skyline_reach_diameters` crater diameters between the two).
+pub const SKYLINE_REACH_MIN_M: f64 = 500.0;
+pub const SKYLINE_REACH_MAX_M: f64 = 8_000.0;
+/// Reach of the skyline at a point with no crater (the `site` command), m.
+pub const SKYLINE_REACH_POINT_M: f64 = 5_000.0;
 
 /// The relay link from one place and from the rim.
 #[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
@@ -126,31 +131,13 @@ impl Operations {
         })
     }
 
-    /// The skyline of a point `mast_height_m` above the ground, terrain read out to `reach_m`.
-    pub fn skyline(
-        &self,
-        terrain: &HorizonTerrain,
-        lon: f64,
-        lat: f64,
-        reach_m: f64,
-        nodata: NodataRule,
-    ) -> Horizon {
-        let spec = HorizonSpec {
-            observer_height_m: self.inputs.mast_height_m,
-            max_distance_m: reach_m.max(SKYLINE_REACH_MIN_M),
-            sectors: SKYLINE_SECTORS,
-            nodata,
-        };
-        Horizon::compute_sectors(lon, lat, Some(terrain), &spec, None)
-    }
-
     /// Every figure for one candidate with a fit. `None` when the lander's place has no data.
     pub fn for_candidate(
         &self,
-        terrain: &HorizonTerrain,
+        grid: &ElevationGrid,
+        post_m: f64,
         crater: &CraterMeasurement,
         fit: &StructureFit,
-        nodata: NodataRule,
     ) -> Option<OperationsReport> {
         let (aim_lon, aim_lat) = match self.inputs.aim {
             AimRule::Structure => (fit.centre_lon_deg, fit.centre_lat_deg),
@@ -175,7 +162,7 @@ impl Operations {
             })
             .collect();
         let reach = self.inputs.skyline_reach_diameters * crater.diameter_m;
-        self.report(terrain, &site, &anchors, reach, nodata)
+        self.report(grid, post_m, &site, &anchors, reach)
     }
 
     /// The figures for a lander aimed at a point with no crater or structure (the `site`
@@ -183,10 +170,10 @@ impl Operations {
     /// the point has no data.
     pub fn for_point(
         &self,
-        terrain: &HorizonTerrain,
+        grid: &ElevationGrid,
+        post_m: f64,
         lon: f64,
         lat: f64,
-        nodata: NodataRule,
     ) -> Option<OperationsReport> {
         let site = landing::LandingSite {
             crater_lon_deg: lon,
@@ -195,7 +182,7 @@ impl Operations {
             aim_lon_deg: lon,
             aim_lat_deg: lat,
         };
-        self.report(terrain, &site, &[], SKYLINE_REACH_MIN_M, nodata)
+        self.report(grid, post_m, &site, &[], SKYLINE_REACH_POINT_M)
     }
 
     fn limits(&self) -> (landing::LandingLimits, shots::ShotLimits) {
@@ -214,37 +201,60 @@ impl Operations {
         )
     }
 
-    /// Relay and night at one point, its skyline read out to `reach_m`.
+    /// Relay and night at local (x, y) of `patch`, `mast_height_m` above the ground, the
+    /// skyline read out to `reach_m`. `None` without ground there.
     fn sky_at(
         &self,
-        terrain: &HorizonTerrain,
-        lon: f64,
-        lat: f64,
+        patch: &Patch,
+        (x, y): (f64, f64),
         reach_m: f64,
-        nodata: NodataRule,
-    ) -> (AboveSkyline, NightFigures) {
-        let skyline = self.skyline(terrain, lon, lat, reach_m, nodata);
-        let site = sky::Site::new(lon, lat, skyline.site_height_m, terrain.radius_m);
+    ) -> Option<(AboveSkyline, NightFigures)> {
+        let skyline = skyline::sweep(
+            patch,
+            (x, y),
+            self.inputs.mast_height_m,
+            reach_m,
+            SKYLINE_SECTORS,
+        )?;
+        let (lon, lat) = patch.frame.to_lonlat(x, y);
+        let site = sky::Site::new(lon, lat, skyline.site_height_m, patch.frame.radius_m);
         let relay =
             sky::relay_above_skyline(&self.tracks, &site, &skyline, self.inputs.relay_margin_deg);
         let sun = sky::above_skyline(&self.tracks.sun, &site, &skyline, 0.0);
-        (relay, NightFigures::from_sun(&sun))
+        Some((relay, NightFigures::from_sun(&sun)))
     }
 
     /// Landing on the site's floor, the lander at the best aim point, shots to the anchors,
     /// relay and night at the lander and at every anchor.
     fn report(
         &self,
-        terrain: &HorizonTerrain,
+        grid: &ElevationGrid,
+        post_m: f64,
         site: &landing::LandingSite,
         anchors: &[shots::Point],
         reach_m: f64,
-        nodata: NodataRule,
     ) -> Option<OperationsReport> {
-        let grid: &ElevationGrid = terrain.grid;
-        let post_m = terrain.pixel_m;
         let (landing_limits, shot_limits) = self.limits();
-        let landing = landing::landing(grid, site, &landing_limits, post_m);
+        // One lattice round the crater centre serves the landing and every skyline: it holds
+        // the landing's floor and dispersion, and the reach round the aim point and anchors.
+        let frame = terrain::LocalFrame::new(
+            grid.geometry.body_radius_m,
+            site.crater_lon_deg,
+            site.crater_lat_deg,
+        );
+        let spread_m = anchors
+            .iter()
+            .map(|a| (a.lon_deg, a.lat_deg))
+            .chain([(site.aim_lon_deg, site.aim_lat_deg)])
+            .map(|(lon, lat)| {
+                let (x, y) = frame.to_local(lon, lat);
+                x.hypot(y)
+            })
+            .fold(site.floor_radius_m, f64::max);
+        let reach_m = reach_m.clamp(SKYLINE_REACH_MIN_M, SKYLINE_REACH_MAX_M);
+        let half = landing::lattice_half_m(site, &landing_limits, post_m).max(spread_m + reach_m);
+        let patch = Patch::build(grid, site.crater_lon_deg, site.crater_lat_deg, half, post_m)?;
+        let landing = landing::landing_on(&patch, site, &landing_limits);
         let (lon, lat) = match &landing {
             Some(l) if l.p_best > 0.0 => (l.best_lon_deg, l.best_lat_deg),
             _ => (site.aim_lon_deg, site.aim_lat_deg),
@@ -255,11 +265,15 @@ impl Operations {
             height_m: grid.sample_lonlat(lon, lat)? + self.inputs.mast_height_m,
         };
         let shots = shots::shots(grid, &lander, anchors, &shot_limits, post_m);
-        let (relay_l, night_l) = self.sky_at(terrain, lon, lat, reach_m, nodata);
-        let (relay_a, night_a): (Vec<_>, Vec<_>) = anchors
-            .iter()
-            .map(|a| self.sky_at(terrain, a.lon_deg, a.lat_deg, reach_m, nodata))
-            .unzip();
+        let (relay_l, night_l) = self.sky_at(&patch, patch.frame.to_local(lon, lat), reach_m)?;
+        let mut relay_a = Vec::with_capacity(anchors.len());
+        let mut night_a = Vec::with_capacity(anchors.len());
+        for a in anchors {
+            let (r, n) =
+                self.sky_at(&patch, patch.frame.to_local(a.lon_deg, a.lat_deg), reach_m)?;
+            relay_a.push(r);
+            night_a.push(n);
+        }
         // 1-based index of the anchor `better` prefers to every other (0: none).
         let pick = |better: &dyn Fn(usize, usize) -> bool| -> usize {
             (0..relay_a.len())

@@ -34,7 +34,7 @@ pub struct Shot {
     /// all known).
     pub clearance_m: Option<f64>,
     /// Ground distance from the launcher to where that lowest point is, m.
-    pub clearance_at_m: f64,
+    pub clearance_at_m: Option<f64>,
     pub reachable: bool,
 }
 
@@ -98,7 +98,7 @@ pub fn shot(
         range_m,
         elevation_deg,
         clearance_m,
-        clearance_at_m: lowest.map_or(f64::NAN, |(_, d)| d),
+        clearance_at_m: lowest.map(|(_, d)| d),
         reachable: range_m <= limits.range_m
             && clearance_m.is_some_and(|c| c >= limits.min_clearance_m),
     }

@@ -74,6 +74,20 @@ fn paraboloid_bowl_by_hand() {
         "{lowest}..{highest} vs {e0}"
     );
 
+    // The operations' own skyline (the highest node in each sector, swept over the crater's
+    // lattice) sees the same 15 deg all round, from above.
+    let patch = structure::patch::Patch::build(&grid, 180.0, 0.0, 6000.0, PX_M).unwrap();
+    let swept = operations::skyline::sweep(&patch, (0.0, 0.0), MAST, 5000.0, 720).unwrap();
+    for (k, e) in swept.elevation_deg.iter().enumerate() {
+        assert!((e - e0).abs() < 0.05, "sector {k}: {e} vs {e0}");
+    }
+    // The ground at the centre from the bilinear grid: the paraboloid 15 m out, 0.04 m.
+    assert!(
+        (swept.site_height_m - MAST).abs() < 0.1,
+        "{}",
+        swept.site_height_m
+    );
+
     // Night on the floor: on the equator the Sun crosses the sky through the zenith (its
     // declination stays within 1.6 deg), so its upper limb (0.267 deg) stays below a skyline
     // at e0 for 2 (e0 - 0.267) / 360 of the time more than on open ground:
@@ -257,7 +271,10 @@ fn a_bench_on_the_wall_blocks_the_shot_that_crosses_it() {
     let east = &rep.shots[1];
     let c = east.clearance_m.unwrap();
     assert!(c < -125.0 && c > -136.0, "east clearance {c}");
-    assert!((east.clearance_at_m - 800.0).abs() < 35.0, "{east:?}");
+    assert!(
+        (east.clearance_at_m.unwrap() - 800.0).abs() < 35.0,
+        "{east:?}"
+    );
     assert!(!east.reachable);
     for i in [0, 2, 3] {
         assert!(rep.shots[i].reachable, "{:?}", rep.shots[i]);

@@ -8,6 +8,10 @@
 //! `structure::patch`), so on those heights it gives the survey's own numbers to the last bit:
 //! refitting with the survey's spec returns the same file.
 //!
+//! The operations figures (landing, shots, relay, night) of a candidate whose fit changes are
+//! dropped: they depend on the fit, and their skylines need more terrain than a refit reads.
+//! Survey again to have them for another structure.
+//!
 //! One exception: a catalogue-seeded crater belongs to the tile holding its catalogue position,
 //! which the survey file does not keep; it is refitted in the tile holding its measured centre.
 //! The two differ only for a crater whose measured centre moved across a tile edge, and then
@@ -81,6 +85,11 @@ pub fn refit(
     out.tool_version = env!("CARGO_PKG_VERSION").to_string();
     out.parameters.structure = Some(spec.clone());
     for (c, f) in out.candidates.iter_mut().zip(fits) {
+        // The operations figures hang on the fit (aim point, anchors): a changed fit leaves
+        // them without a basis, and a refit reads too little terrain to redo their skylines.
+        if c.fit != f {
+            c.operations = None;
+        }
         c.fit = f;
     }
     Ok(out)
