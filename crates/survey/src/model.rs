@@ -57,8 +57,8 @@ pub struct SurveyParameters {
     /// The structure fitted into every candidate, if any.
     #[serde(default)]
     pub structure: Option<structure::StructureSpec>,
-    /// The operations inputs every candidate's operations figures were computed with; `None`
-    /// when they were not computed.
+    /// The operations inputs every candidate's operations figures were computed with (a refit
+    /// computes them again with these); `None` when they are turned off.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub operations: Option<operations::OperationsInputs>,
 }

@@ -249,8 +249,8 @@ fn resolve(
         catalogue: opts.catalogue.as_ref().map(|p| p.display().to_string()),
         detect: opts.detect,
         structure: opts.structure.clone(),
-        // Operations need a fit (anchors, aim point): without a structure there are none.
-        operations: opts.operations.clone().filter(|_| opts.structure.is_some()),
+        // Recorded even without a structure: a refit that adds one computes them with these.
+        operations: opts.operations.clone(),
     };
     if let Some(spec) = &params.structure {
         spec.validate()

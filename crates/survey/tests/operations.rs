@@ -33,7 +33,15 @@ fn every_fitted_candidate_has_operations_and_the_inputs_are_recorded() {
             .operations
             .as_ref()
             .unwrap_or_else(|| panic!("candidate {} has none", c.id));
-        let anchors = c.fit.as_ref().unwrap().anchors.len();
+        // Anchors on ground without data have no height: no shot, skyline or night there.
+        let anchors = c
+            .fit
+            .as_ref()
+            .unwrap()
+            .anchors
+            .iter()
+            .filter(|a| a.height_m.is_finite())
+            .count();
         assert_eq!(o.shots.as_ref().map_or(0, |s| s.shots.len()), anchors);
         assert_eq!(o.relay.anchors.len(), anchors);
         for v in [o.relay.lander.fraction, o.night.lander.dark_fraction] {
@@ -52,9 +60,10 @@ fn every_fitted_candidate_has_operations_and_the_inputs_are_recorded() {
         .iter()
         .filter(|c| c.fit.is_none())
         .all(|c| c.operations.is_none()));
-    // The file reads back with them.
+    // The file reads back with them (compared as text: the crater profiles hold NaN).
     let back = SurveyFile::from_json(&s.to_json()).unwrap();
-    assert_eq!(back, s);
+    assert_eq!(back.to_json(), s.to_json());
+    assert_eq!(back.candidates[0].operations, s.candidates[0].operations);
 
     let off = run(None);
     assert!(off.parameters.operations.is_none());
