@@ -49,6 +49,21 @@ fn skyline(t: &HorizonTerrain, lon: f64, lat: f64, mast: f64) -> Horizon {
     Horizon::compute_sectors(lon, lat, Some(t), &spec, None)
 }
 
+/// Anchors north, east, south and west, `d_m` from 180 E 0 N, `height_m` above the sphere.
+fn four_anchors(d_m: f64, height_m: f64) -> Vec<Point> {
+    [0.0, 90.0, 180.0, 270.0]
+        .iter()
+        .map(|&az| {
+            let (lon, lat) = terrain::geodesy::destination(R, (180.0, 0.0), az, d_m);
+            Point {
+                lon_deg: lon,
+                lat_deg: lat,
+                height_m,
+            }
+        })
+        .collect()
+}
+
 #[test]
 fn paraboloid_bowl_by_hand() {
     // Bowl centred at 180 E 0 N, 3 km across, its skyline seen from the centre at
@@ -132,17 +147,7 @@ fn paraboloid_bowl_by_hand() {
         lat_deg: 0.0,
         height_m: MAST,
     };
-    let anchors: Vec<Point> = [0.0, 90.0, 180.0, 270.0]
-        .iter()
-        .map(|&az| {
-            let (lon, lat) = terrain::geodesy::destination(R, (180.0, 0.0), az, A);
-            Point {
-                lon_deg: lon,
-                lat_deg: lat,
-                height_m: rim_m(),
-            }
-        })
-        .collect();
+    let anchors = four_anchors(A, rim_m());
     let limits = ShotLimits {
         range_m: 2000.0,
         min_clearance_m: 1.0,
@@ -249,17 +254,7 @@ fn a_bench_on_the_wall_blocks_the_shot_that_crosses_it() {
         lat_deg: 0.0,
         height_m: 2.0,
     };
-    let anchors: Vec<Point> = [0.0, 90.0, 180.0, 270.0]
-        .iter()
-        .map(|&az| {
-            let (lon, lat) = terrain::geodesy::destination(R, (180.0, 0.0), az, 1500.0);
-            Point {
-                lon_deg: lon,
-                lat_deg: lat,
-                height_m: 400.0,
-            }
-        })
-        .collect();
+    let anchors = four_anchors(1500.0, 400.0);
     let limits = ShotLimits {
         range_m: 3000.0,
         min_clearance_m: 5.0,

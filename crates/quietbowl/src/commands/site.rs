@@ -95,7 +95,6 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         print!("{}", report.to_text());
         if let Some((inputs, o)) = &ops {
             print!("{}", o.to_text(inputs));
-            println!("{}", siting::SCREENING_CAUTION);
         }
     }
     Ok(())
