@@ -41,7 +41,8 @@ pub struct OperationsInputs {
     pub aim: AimRule,
     /// Longest shot the anchor launcher can make, m. Default 3000: invented for the demo.
     pub launcher_range_m: f64,
-    /// Clearance a shot line needs above the terrain, m. Default 5: invented for the demo.
+    /// Clearance a shot line needs above the terrain, m. Default 1: invented for the demo, and
+    /// below the launcher's own height (`mast_height_m`), since the line starts that high.
     pub shot_min_clearance_m: f64,
     /// Ground distance before an anchor left out of a shot's clearance, m. Default 60 (two
     /// 30 m posts of the demo: the anchor's own ground): invented for the demo.
@@ -76,7 +77,7 @@ impl Default for OperationsInputs {
             landing_max_roughness_m: 3.0,
             aim: AimRule::Structure,
             launcher_range_m: 3000.0,
-            shot_min_clearance_m: 5.0,
+            shot_min_clearance_m: 1.0,
             shot_end_exclusion_m: 60.0,
             mast_height_m: 2.0,
             relay_margin_deg: 5.0,
