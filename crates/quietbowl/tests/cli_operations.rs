@@ -8,6 +8,14 @@ fn qb() -> Command {
     Command::new(env!("CARGO_BIN_EXE_quietbowl"))
 }
 
+/// Run `cmd`, which must succeed; its standard output.
+fn stdout_of(cmd: &mut Command) -> Vec<u8> {
+    let out = cmd.output().unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(out.status.success(), "{err}");
+    out.stdout
+}
+
 fn dem() -> PathBuf {
     Path::new(env!("CARGO_MANIFEST_DIR")).join("../../demo-terrain/farside-patch.tif")
 }
@@ -15,24 +23,18 @@ fn dem() -> PathBuf {
 fn survey(dir: &Path, name: &str, extra: &[&str]) -> serde_json::Value {
     let out_path = dir.join(name);
     // Large craters only, so the debug-build test stays quick.
-    let out = qb()
-        .arg("survey")
-        .arg(dem())
-        .args([
-            "--diameter",
-            "1500..4000",
-            "--no-visibility",
-            "--no-checkpoint",
-        ])
-        .args(extra)
-        .arg("--out")
-        .arg(&out_path)
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
+    stdout_of(
+        qb().arg("survey")
+            .arg(dem())
+            .args([
+                "--diameter",
+                "1500..4000",
+                "--no-visibility",
+                "--no-checkpoint",
+            ])
+            .args(extra)
+            .arg("--out")
+            .arg(&out_path),
     );
     serde_json::from_str(&std::fs::read_to_string(out_path).unwrap()).unwrap()
 }
@@ -85,18 +87,10 @@ fn survey_reads_the_operations_table_or_leaves_the_figures_out() {
 
 #[test]
 fn site_prints_the_operations_in_text_and_json() {
-    let out = qb()
-        .arg("site")
-        .arg(dem())
-        .args(["--at", "180,16"])
-        .output()
-        .unwrap();
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let text = String::from_utf8(out.stdout).unwrap();
+    let text = String::from_utf8(stdout_of(
+        qb().arg("site").arg(dem()).args(["--at", "180,16"]),
+    ))
+    .unwrap();
     for needle in [
         "landing:",
         "relay near L2",
@@ -105,13 +99,12 @@ fn site_prints_the_operations_in_text_and_json() {
     ] {
         assert!(text.contains(needle), "{needle}: {text}");
     }
-    let out = qb()
-        .arg("site")
-        .arg(dem())
-        .args(["--at", "180,16", "--json"])
-        .output()
-        .unwrap();
-    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let json = stdout_of(
+        qb().arg("site")
+            .arg(dem())
+            .args(["--at", "180,16", "--json"]),
+    );
+    let v: serde_json::Value = serde_json::from_slice(&json).unwrap();
     let f = v["operations"]["relay"]["lander"]["fraction"]
         .as_f64()
         .unwrap();
