@@ -55,6 +55,7 @@ pub fn merge(parts: Vec<SurveyFile>) -> Result<SurveyFile, SurveyError> {
                 crater: c.crater,
                 visibility: c.visibility,
                 fit: c.fit,
+                operations: c.operations,
             })
             .collect(),
     );

@@ -29,6 +29,8 @@ pub enum MetricKind {
     Fraction,
     /// Yes (1) or no (0).
     Flag,
+    /// A span of time in hours.
+    Duration,
 }
 
 /// A metric: its id (as used in criteria files and exports), what a person reads for it,
@@ -72,6 +74,7 @@ impl MetricInfo {
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0} %", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
+            MetricKind::Duration => format!("{v:.0} h"),
         }
     }
 
@@ -98,6 +101,7 @@ impl MetricInfo {
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0}", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
+            MetricKind::Duration => format!("{v:.0}"),
         }
     }
 
@@ -108,6 +112,7 @@ impl MetricInfo {
             MetricKind::Volume => " [m³]",
             MetricKind::Angle | MetricKind::Coordinate | MetricKind::Longitude => " [°]",
             MetricKind::Fraction => " [%]",
+            MetricKind::Duration => " [h]",
             MetricKind::Ratio | MetricKind::Flag => "",
         }
     }
@@ -139,8 +144,9 @@ impl MetricInfo {
     }
 }
 
-macro_rules! crater {
-    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $field:ident) => {
+/// A metric whose value comes from `$get`, a `fn(&Candidate) -> Option<f64>`.
+macro_rules! info {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $get:expr) => {
         MetricInfo {
             name: $name,
             label: $label,
@@ -148,36 +154,48 @@ macro_rules! crater {
             kind: MetricKind::$kind,
             unit: $unit,
             description: $desc,
-            get: |c| Some(c.crater.$field as f64),
+            get: $get,
         }
+    };
+}
+macro_rules! crater {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $field:ident) => {
+        info!($name, $label, $short, $kind, $unit, $desc, |c| Some(
+            c.crater.$field as f64
+        ))
     };
 }
 macro_rules! vis {
     ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $e:expr) => {
-        MetricInfo {
-            name: $name,
-            label: $label,
-            short: $short,
-            kind: MetricKind::$kind,
-            unit: $unit,
-            description: $desc,
-            get: |c| c.visibility.as_ref().map($e),
-        }
+        info!($name, $label, $short, $kind, $unit, $desc, |c| c
+            .visibility
+            .as_ref()
+            .map($e))
+    };
+}
+macro_rules! fit {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal) => {
+        info!($name, $label, $short, $kind, $unit, $desc, |c| c
+            .fit
+            .as_ref()
+            .and_then(|f| f.metric($name)))
+    };
+}
+macro_rules! ops {
+    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal, $e:expr) => {
+        info!($name, $label, $short, $kind, $unit, $desc, |c| c
+            .operations
+            .as_ref()
+            .and_then($e))
     };
 }
 
-macro_rules! fit {
-    ($name:literal, $label:literal, $short:literal, $kind:ident, $unit:literal, $desc:literal) => {
-        MetricInfo {
-            name: $name,
-            label: $label,
-            short: $short,
-            kind: MetricKind::$kind,
-            unit: $unit,
-            description: $desc,
-            get: |c| c.fit.as_ref().and_then(|f| f.metric($name)),
-        }
-    };
+fn flag(b: bool) -> f64 {
+    if b {
+        1.0
+    } else {
+        0.0
+    }
 }
 
 /// Every metric a candidate carries, in table order.
@@ -426,6 +444,141 @@ pub static METRICS: &[MetricInfo] = &[
         Length,
         "m",
         "distance of the structure's axis from the crater centre"
+    ),
+    ops!(
+        "landing_probability",
+        "Safe landing chance at the aim point",
+        "Landing",
+        Fraction,
+        "",
+        "chance that a lander aimed where the structure wants it touches down on ground the DEM shows as safe, for the set dispersion",
+        |o| o.landing.as_ref().map(|l| l.p_aim)
+    ),
+    ops!(
+        "landing_best_probability",
+        "Safe landing chance at the best aim point",
+        "Best landing",
+        Fraction,
+        "",
+        "the highest safe-touchdown chance over aim points on the floor",
+        |o| o.landing.as_ref().map(|l| l.p_best)
+    ),
+    ops!(
+        "landing_safe_fraction",
+        "Safe share of the floor",
+        "Safe floor",
+        Fraction,
+        "",
+        "share of the floor's DEM posts within the slope and roughness limits (rocks smaller than a post are not seen)",
+        |o| o.landing.as_ref().map(|l| l.safe_fraction)
+    ),
+    ops!(
+        "landing_best_offset_m",
+        "Best aim point's distance from the structure's aim",
+        "Aim offset",
+        Length,
+        "m",
+        "ground distance from the best aim point to where the structure wants the lander",
+        |o| o.landing.as_ref().map(|l| l.best_to_aim_m)
+    ),
+    ops!(
+        "shot_longest_range_m",
+        "Longest anchor shot",
+        "Shot range",
+        Length,
+        "m",
+        "longest straight line from the lander's launcher to a rim anchor",
+        |o| o.shots.as_ref().map(|s| s.longest_range_m)
+    ),
+    ops!(
+        "shot_lowest_clearance_m",
+        "Lowest anchor-shot clearance",
+        "Shot clear.",
+        Length,
+        "m",
+        "lowest height of any shot line above the terrain, leaving out the last metres at the anchor",
+        |o| o.shots.as_ref().and_then(|s| s.lowest_clearance_m)
+    ),
+    ops!(
+        "shots_all_reachable",
+        "Every anchor reachable",
+        "Shots ok",
+        Flag,
+        "",
+        "whether every anchor is within the launcher's range with the clearance the line needs",
+        |o| o.shots.as_ref().map(|s| flag(s.all_reachable))
+    ),
+    ops!(
+        "relay_visible_fraction",
+        "Relay in view from the lander",
+        "Relay",
+        Fraction,
+        "",
+        "share of the time the relay near Earth-Moon L2 stands the margin above the lander's skyline",
+        |o| Some(o.relay.lander.fraction)
+    ),
+    ops!(
+        "relay_longest_outage_h",
+        "Longest relay outage at the lander",
+        "Relay gap",
+        Duration,
+        "h",
+        "longest continuous time the relay is below the lander's skyline plus the margin",
+        |o| Some(o.relay.lander.longest_gap_h)
+    ),
+    ops!(
+        "relay_margin_deg",
+        "Relay's lowest height above the skyline",
+        "Relay margin",
+        Angle,
+        "deg",
+        "smallest elevation of the relay above the lander's skyline plus the margin (negative when blocked)",
+        |o| Some(o.relay.lander.worst_margin_deg)
+    ),
+    ops!(
+        "relay_rim_worst_fraction",
+        "Relay in view from the worst anchor",
+        "Relay rim",
+        Fraction,
+        "",
+        "share of the time the relay is in view from the rim anchor that sees it least",
+        |o| o.rim_relay_worst().map(|a| a.fraction)
+    ),
+    ops!(
+        "dark_fraction",
+        "Share of time in darkness at the lander",
+        "Dark",
+        Fraction,
+        "",
+        "share of the time the Sun's upper limb is below the lander's skyline",
+        |o| Some(o.night.lander.dark_fraction)
+    ),
+    ops!(
+        "longest_dark_h",
+        "Longest darkness at the lander",
+        "Night",
+        Duration,
+        "h",
+        "longest continuous time the Sun's upper limb stays below the lander's skyline",
+        |o| Some(o.night.lander.longest_dark_h)
+    ),
+    ops!(
+        "sunlit_h_per_month",
+        "Sunlit hours per month at the lander",
+        "Sun h",
+        Duration,
+        "h",
+        "hours of sunlight at the lander in a mean synodic month",
+        |o| Some(o.night.lander.sunlit_h_per_month)
+    ),
+    ops!(
+        "rim_sunlit_h_per_month",
+        "Sunlit hours per month on the best-lit anchor",
+        "Rim sun h",
+        Duration,
+        "h",
+        "hours of sunlight in a mean synodic month at the rim anchor that gets the most, where power would be",
+        |o| o.rim_night().map(|n| n.sunlit_h_per_month)
     ),
 ];
 

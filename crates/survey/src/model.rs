@@ -29,6 +29,10 @@ pub struct Candidate {
     /// or the crater could not be fitted (no usable rim).
     #[serde(default)]
     pub fit: Option<structure::StructureFit>,
+    /// Landing, anchor shots, relay link and night from the floor (docs/operations.md); `None`
+    /// without a fit, with operations turned off, or in a survey made before they existed.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub operations: Option<operations::OperationsReport>,
 }
 
 /// The input DEM, identified so a result can be audited.
@@ -53,6 +57,10 @@ pub struct SurveyParameters {
     /// The structure fitted into every candidate, if any.
     #[serde(default)]
     pub structure: Option<structure::StructureSpec>,
+    /// The operations inputs every candidate's operations figures were computed with (a refit
+    /// computes them again with these); `None` when they are turned off.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub operations: Option<operations::OperationsInputs>,
 }
 
 /// A share of a survey's tiles: shard `index` of `count` (1-based) takes the tiles whose

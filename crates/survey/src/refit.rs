@@ -8,6 +8,10 @@
 //! `structure::patch`), so on those heights it gives the survey's own numbers to the last bit:
 //! refitting with the survey's spec returns the same file.
 //!
+//! The operations figures (landing, shots, relay, night) hang on the fit, so they are computed
+//! again with the survey's recorded operations inputs, on a window that also holds their
+//! lattice (cut to the tile's window as the run's was): the same numbers as a survey run.
+//!
 //! One exception: a catalogue-seeded crater belongs to the tile holding its catalogue position,
 //! which the survey file does not keep; it is refitted in the tile holding its measured centre.
 //! The two differ only for a crater whose measured centre moved across a tile edge, and then
@@ -60,15 +64,23 @@ pub fn refit(
         },
     )?;
     let layout = TileLayout::of(&dem, file)?;
+    // The relay's and the Sun's tracks, once for the whole refit.
+    let ops = match &file.parameters.operations {
+        Some(inputs) => Some(
+            operations::Operations::new(inputs, None)
+                .map_err(|e| SurveyError::Parameters(e.to_string()))?,
+        ),
+        None => None,
+    };
     let done = AtomicUsize::new(0);
     let fits = file
         .candidates
         .par_iter()
-        .map(|c| -> Result<Option<StructureFit>, SurveyError> {
+        .map(|c| -> Result<Fitted, SurveyError> {
             if cancel.load(Ordering::Relaxed) {
                 return Err(SurveyError::RefitCancelled);
             }
-            let fit = fit_one(&dem, &layout, &c.crater, spec)?;
+            let fit = fit_one(&dem, &layout, &c.crater, spec, ops.as_ref())?;
             let d = done.fetch_add(1, Ordering::Relaxed) + 1;
             progress(RefitProgress {
                 candidates_done: d,
@@ -80,8 +92,9 @@ pub fn refit(
     let mut out = file.clone();
     out.tool_version = env!("CARGO_PKG_VERSION").to_string();
     out.parameters.structure = Some(spec.clone());
-    for (c, f) in out.candidates.iter_mut().zip(fits) {
-        c.fit = f;
+    for (c, (fit, operations)) in out.candidates.iter_mut().zip(fits) {
+        c.fit = fit;
+        c.operations = operations;
     }
     Ok(out)
 }
@@ -220,28 +233,45 @@ fn fit_reach_m(c: &CraterMeasurement, spec: &StructureSpec, pixel_m: f64) -> f64
     1.25 * (half + 0.25 * a) + 4.0 * pixel_m
 }
 
+/// A candidate's fit and the operations figures that hang on it.
+type Fitted = (Option<StructureFit>, Option<operations::OperationsReport>);
+
+/// Ground reach of the operations round the crater centre, m: the anchors and the aim point
+/// (within a diameter), the skylines' reach beyond them and the landing's dispersion.
+fn operations_reach_m(c: &CraterMeasurement, ops: &operations::Operations, pixel_m: f64) -> f64 {
+    let inputs = &ops.inputs;
+    let reach = (inputs.skyline_reach_diameters * c.diameter_m).clamp(
+        operations::SKYLINE_REACH_MIN_M,
+        operations::SKYLINE_REACH_MAX_M,
+    );
+    c.diameter_m + reach.max(4.0 * inputs.landing_dispersion_3sigma_m / 3.0) + 4.0 * pixel_m
+}
+
 fn fit_one(
     dem: &Dem,
     layout: &TileLayout,
     c: &CraterMeasurement,
     spec: &StructureSpec,
-) -> Result<Option<StructureFit>, SurveyError> {
+    ops: Option<&operations::Operations>,
+) -> Result<Fitted, SurveyError> {
     let geom = &layout.geometry;
     let Some((col, row)) = geom.lonlat_to_pixel(c.centre_lon_deg, c.centre_lat_deg) else {
-        return Ok(None);
+        return Ok((None, None));
     };
     let Some((px_ew, px_ns)) = geom
         .pixel_size_m_at(col, row)
         .filter(|(a, b)| a.is_finite() && b.is_finite() && *a > 0.0 && *b > 0.0)
     else {
-        return Ok(None);
+        return Ok((None, None));
     };
     if !(c.diameter_m.is_finite() && c.diameter_m > 0.0) {
-        return Ok(None);
+        return Ok((None, None));
     }
     // The patch is a square in the crater's local frame; its corners are sqrt(2) half-sides
     // out in any direction the grid's axes may point.
-    let reach_px = (std::f64::consts::SQRT_2 * fit_reach_m(c, spec, px_ew.max(px_ns))
+    let pixel_m = px_ew.max(px_ns);
+    let reach_m = ops.map_or(0.0, |o| operations_reach_m(c, o, pixel_m));
+    let reach_px = (std::f64::consts::SQRT_2 * fit_reach_m(c, spec, pixel_m).max(reach_m)
         / px_ew.min(px_ns))
     .ceil() as isize
         + 3;
@@ -258,13 +288,24 @@ fn fit_one(
     let (c0, c1) = span(col, layout.width);
     let (r0, r1) = span(row, layout.height);
     if c1 <= c0 || r1 <= r0 {
-        return Ok(None);
+        return Ok((None, None));
     }
     let window = match dem.read_window(c0, r0, (c1 - c0) as usize, (r1 - r0) as usize) {
         Ok(w) => w,
-        Err(TerrainError::WindowOutside { .. }) => return Ok(None),
+        Err(TerrainError::WindowOutside { .. }) => return Ok((None, None)),
         Err(e) => return Err(e.into()),
     };
-    // As in the survey run: a crater the fit cannot take (no traced rim, no data) has no fit.
-    Ok(structure::fit(&window, c, spec).ok())
+    // As in the survey run: a crater the fit cannot take (no traced rim, no data) has no fit,
+    // and the operations are computed for every fit, with the run's post spacing.
+    let fit = structure::fit(&window, c, spec).ok();
+    let post_m = window
+        .geometry
+        .pixel_size_m()
+        .map(|(a, b)| a.min(b))
+        .filter(|p| p.is_finite() && *p > 0.0);
+    let report = match (ops, &fit, post_m) {
+        (Some(o), Some(f), Some(p)) => o.for_candidate(&window, p, c, f),
+        _ => None,
+    };
+    Ok((fit, report))
 }

@@ -55,6 +55,10 @@ pub struct RunOptions {
     pub checkpoint: Option<PathBuf>,
     /// Fit this structure into every candidate.
     pub structure: Option<structure::StructureSpec>,
+    /// Compute the operations figures (landing, shots, relay, night) for every candidate with
+    /// a fit, with these inputs; `None` turns them off. A relative relay-orbit CSV path is
+    /// read from the working folder.
+    pub operations: Option<operations::OperationsInputs>,
 }
 
 impl Default for RunOptions {
@@ -73,6 +77,7 @@ impl Default for RunOptions {
             shard: None,
             checkpoint: None,
             structure: Some(structure::StructureSpec::default()),
+            operations: Some(operations::OperationsInputs::default()),
         }
     }
 }
@@ -107,6 +112,8 @@ pub struct Found {
     pub visibility: Option<SiteVisibility>,
     #[serde(default)]
     pub fit: Option<structure::StructureFit>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub operations: Option<operations::OperationsReport>,
 }
 
 pub(crate) struct Tile {
@@ -180,6 +187,7 @@ pub fn into_candidates(mut found: Vec<Found>) -> Vec<Candidate> {
             crater: f.crater,
             visibility: f.visibility,
             fit: f.fit,
+            operations: f.operations,
         })
         .collect()
 }
@@ -241,12 +249,37 @@ fn resolve(
         catalogue: opts.catalogue.as_ref().map(|p| p.display().to_string()),
         detect: opts.detect,
         structure: opts.structure.clone(),
+        // Recorded even without a structure: a refit that adds one computes them with these.
+        operations: opts.operations.clone(),
     };
     if let Some(spec) = &params.structure {
         spec.validate()
             .map_err(|e| SurveyError::Parameters(format!("structure: {e}")))?;
     }
     Ok((params, halo_px))
+}
+
+/// The operations figures of a tile's candidates (those with a fit), in their order.
+fn tile_operations(
+    ops: Option<&operations::Operations>,
+    window: &terrain::ElevationGrid,
+    here: &[(CandidateSource, CraterMeasurement)],
+    fits: &[Option<structure::StructureFit>],
+) -> Vec<Option<operations::OperationsReport>> {
+    // The skylines' and the landing lattice's spacing: the DEM's post (the smaller side).
+    let post_m = window
+        .geometry
+        .pixel_size_m()
+        .map(|(a, b)| a.min(b))
+        .filter(|p| p.is_finite() && *p > 0.0);
+    match (ops, post_m) {
+        (Some(ops), Some(post_m)) => here
+            .par_iter()
+            .zip(fits)
+            .map(|((_, m), fit)| ops.for_candidate(window, post_m, m, fit.as_ref()?))
+            .collect(),
+        _ => vec![None; here.len()],
+    }
 }
 
 /// Survey a DEM. `progress` is called after each tile; setting `cancel` stops the run between
@@ -261,6 +294,14 @@ pub fn run(
     let dem = Dem::open(dem_path, &opts.open)?;
     let info = dem.info().clone();
     let (parameters, halo_px) = resolve(&info, opts)?;
+    // The relay's and the Sun's positions are sampled once for the whole survey.
+    let ops = match &parameters.operations {
+        Some(inputs) => Some(
+            operations::Operations::new(inputs, None)
+                .map_err(|e| SurveyError::Parameters(e.to_string()))?,
+        ),
+        None => None,
+    };
     if let Some(s) = opts.shard {
         s.validate()?;
     }
@@ -390,16 +431,21 @@ pub fn run(
                     .collect(),
                 None => vec![None; here.len()],
             };
+            let reports = tile_operations(ops.as_ref(), &window, &here, &fits);
             let found: Vec<Found> = here
                 .into_iter()
                 .zip(vis)
                 .zip(fits)
-                .map(|(((source, crater), visibility), fit)| Found {
-                    source,
-                    crater,
-                    visibility,
-                    fit,
-                })
+                .zip(reports)
+                .map(
+                    |((((source, crater), visibility), fit), operations)| Found {
+                        source,
+                        crater,
+                        visibility,
+                        fit,
+                        operations,
+                    },
+                )
                 .collect();
             if let Some(cp) = checkpoint_lock
                 .lock()

@@ -223,7 +223,7 @@ fn cross(o: (f64, f64), a: (f64, f64), b: (f64, f64)) -> f64 {
 }
 
 /// Andrew's monotone chain (Andrew 1979, Inf. Process. Lett. 9:216); counter-clockwise.
-fn convex_hull(mut pts: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
+pub fn convex_hull(mut pts: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
     pts.retain(|p| p.0.is_finite() && p.1.is_finite());
     pts.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.total_cmp(&b.1)));
     pts.dedup();
@@ -251,7 +251,8 @@ fn convex_hull(mut pts: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
     hull
 }
 
-fn densify(ring: &[(f64, f64)], step_deg: f64) -> Vec<(f64, f64)> {
+/// A closed ring with points added so that none lies more than `step_deg` from the next.
+pub fn densify(ring: &[(f64, f64)], step_deg: f64) -> Vec<(f64, f64)> {
     let n = ring.len();
     let mut out = Vec::new();
     for i in 0..n {

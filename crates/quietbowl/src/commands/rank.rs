@@ -72,6 +72,17 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         }
         _ => survey,
     };
+    // The operations figures are the survey's; they cannot be recomputed here.
+    if let Some(o) = &criteria.operations {
+        if survey.parameters.operations.as_ref() != Some(o) {
+            eprintln!(
+                "note: the criteria's [operations] differ from the inputs the survey's operations figures were computed with ({}); \
+                 the ranking reads the survey's figures. Survey again with --operations {} to use the criteria's",
+                if survey.parameters.operations.is_some() { "see its parameters" } else { "none: it has no operations figures" },
+                a.criteria.as_ref().map_or("FILE".to_string(), |p| p.display().to_string())
+            );
+        }
+    }
     let table = PreparedTable::new(&survey, &criteria).context("preparing the ranking")?;
     let ranking = siting::rank(&table, &criteria).context("ranking")?;
     let smaa = if a.no_robustness {

@@ -19,6 +19,13 @@ pub struct Args {
     /// (by default a hole shields nothing, as if it were a notch).
     #[arg(long)]
     horizon_nodata_skip: bool,
+    /// Operations inputs for the figures at the point (a TOML file with an [operations]
+    /// table, such as a criteria file). Default: the built-in values.
+    #[arg(long, value_name = "FILE", conflicts_with = "no_operations")]
+    operations: Option<PathBuf>,
+    /// Leave out the operations figures (landing round the point, relay, night).
+    #[arg(long)]
+    no_operations: bool,
 }
 
 fn parse_at(s: &str) -> anyhow::Result<(f64, f64)> {
@@ -71,10 +78,50 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         eprintln!("note: the site lies outside the DEM; the horizon is the bare sphere's");
     }
     let report = visibility::site_report(lon, lat, grid.as_ref(), &opts)?;
+    let ops = if a.no_operations {
+        None
+    } else {
+        operations_at(&a, grid.as_ref(), lon, lat)?
+    };
     if a.json {
-        println!("{}", serde_json::to_string_pretty(&report)?);
+        let mut v = serde_json::to_value(&report)?;
+        if let (Some(map), Some((_, o))) = (v.as_object_mut(), &ops) {
+            map.insert("operations".into(), serde_json::to_value(o)?);
+        }
+        println!("{}", serde_json::to_string_pretty(&v)?);
     } else {
         print!("{}", report.to_text());
+        if let Some((inputs, o)) = &ops {
+            print!("{}", o.to_text(inputs));
+        }
     }
     Ok(())
+}
+
+/// Landing round the point (the point as the aim), relay and night there; `None` (with a note)
+/// when the point has no terrain.
+fn operations_at(
+    a: &Args,
+    grid: Option<&terrain::ElevationGrid>,
+    lon: f64,
+    lat: f64,
+) -> anyhow::Result<Option<(operations::OperationsInputs, operations::OperationsReport)>> {
+    let inputs = match &a.operations {
+        Some(path) => super::survey::read_operations(path)?,
+        None => operations::OperationsInputs::default(),
+    };
+    let post_m = grid
+        .and_then(|g| g.geometry.pixel_size_m())
+        .map(|(a, b)| a.min(b))
+        .filter(|p| p.is_finite() && *p > 0.0);
+    let (Some(grid), Some(post_m)) = (grid, post_m) else {
+        eprintln!("note: no terrain at the site; the operations figures need it and are left out");
+        return Ok(None);
+    };
+    let ops = operations::Operations::new(&inputs, None)?;
+    let report = ops.for_point(grid, post_m, lon, lat);
+    if report.is_none() {
+        eprintln!("note: the DEM has no height at the site; the operations figures are left out");
+    }
+    Ok(report.map(|r| (inputs, r)))
 }

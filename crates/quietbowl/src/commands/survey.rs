@@ -56,6 +56,14 @@ pub struct Args {
     /// Do not fit a structure.
     #[arg(long)]
     no_structure: bool,
+    /// Operations inputs (landing limits, launcher, relay orbit and margin): a TOML file with
+    /// an [operations] table, such as a criteria file. Default: the built-in values, those of
+    /// assets/criteria/reflector-1km.toml.
+    #[arg(long, value_name = "FILE", conflicts_with = "no_operations")]
+    operations: Option<PathBuf>,
+    /// Do not compute the operations figures (landing, anchor shots, relay, night).
+    #[arg(long)]
+    no_operations: bool,
     /// Do not keep a checkpoint of finished tiles beside the output.
     #[arg(long)]
     no_checkpoint: bool,
@@ -81,6 +89,38 @@ fn parse_memory(s: &str) -> Result<usize, String> {
     Ok((v * mult as f64) as usize)
 }
 
+/// The `[operations]` table of a TOML file (missing keys take their defaults), with a
+/// relative relay-orbit CSV path made relative to the file's folder.
+pub fn read_operations(path: &std::path::Path) -> anyhow::Result<operations::OperationsInputs> {
+    #[derive(serde::Deserialize)]
+    struct WithTable {
+        operations: Option<operations::OperationsInputs>,
+    }
+    let text =
+        std::fs::read_to_string(path).with_context(|| format!("reading {}", path.display()))?;
+    let mut doc: toml::Table =
+        toml::from_str(&text).with_context(|| format!("{} is not a TOML file", path.display()))?;
+    // Only the one table matters here; the rest (a criteria file's) is not ours to judge.
+    doc.retain(|k, _| k == "operations");
+    let table: WithTable = doc
+        .try_into()
+        .with_context(|| format!("{}: the [operations] table", path.display()))?;
+    let mut inputs = table
+        .operations
+        .with_context(|| format!("{} has no [operations] table", path.display()))?;
+    inputs
+        .validate()
+        .map_err(|e| anyhow::anyhow!("{}: operations: {e}", path.display()))?;
+    if let Some(csv) = &inputs.relay_orbit_csv {
+        let p = std::path::Path::new(csv);
+        if p.is_relative() {
+            let base = path.parent().unwrap_or(std::path::Path::new(""));
+            inputs.relay_orbit_csv = Some(base.join(p).display().to_string());
+        }
+    }
+    Ok(inputs)
+}
+
 pub fn run(a: Args) -> anyhow::Result<()> {
     super::ensure_writable(&a.out).context("writing the survey")?;
     let (dmin, dmax) = a.diameter.unwrap_or((None, None));
@@ -94,6 +134,14 @@ pub fn run(a: Args) -> anyhow::Result<()> {
             Some(spec)
         }
         (None, false) => Some(structure::StructureSpec::default()),
+    };
+    let operations = if a.no_operations {
+        None
+    } else {
+        Some(match &a.operations {
+            Some(path) => read_operations(path)?,
+            None => operations::OperationsInputs::default(),
+        })
     };
     let opts = RunOptions {
         diameter_min_m: dmin,
@@ -122,6 +170,7 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         shard: a.shard,
         checkpoint: (!a.no_checkpoint).then(|| survey::checkpoint::path_beside(&a.out)),
         structure,
+        operations,
     };
     let cancel = Arc::new(AtomicBool::new(false));
     {

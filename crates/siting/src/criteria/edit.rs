@@ -32,14 +32,26 @@ pub enum PointRole {
     Free,
 }
 
+/// The next `f64` above (`up`) or below a finite `x` (`f64::next_up`/`next_down` need Rust
+/// 1.86; the workspace builds with 1.85).
+fn next_float(x: f64, up: bool) -> f64 {
+    if x == 0.0 {
+        let tiny = f64::from_bits(1);
+        return if up { tiny } else { -tiny };
+    }
+    let bits = x.to_bits();
+    let away_from_zero = (x > 0.0) == up;
+    f64::from_bits(if away_from_zero { bits + 1 } else { bits - 1 })
+}
+
 /// `x` held strictly between the values of the neighbours of point `k`.
 fn between_neighbours(points: &[[f64; 2]], k: usize, x: f64) -> f64 {
     let mut x = x;
     if let Some(next) = points.get(k + 1) {
-        x = x.min(next[0].next_down());
+        x = x.min(next_float(next[0], false));
     }
     if let Some(prev) = k.checked_sub(1).and_then(|j| points.get(j)) {
-        x = x.max(prev[0].next_up());
+        x = x.max(next_float(prev[0], true));
     }
     x
 }
@@ -188,6 +200,17 @@ mod tests {
     use super::*;
     use crate::criteria::Criteria;
     use crate::utility::utility;
+
+    #[test]
+    fn next_float_steps_one_unit_in_the_last_place() {
+        // IEEE 754 neighbours, written out: 1 + 2^-52 above 1, 1 - 2^-53 below it.
+        assert_eq!(next_float(1.0, true), 1.0 + f64::EPSILON);
+        assert_eq!(next_float(1.0, false), 1.0 - f64::EPSILON / 2.0);
+        assert_eq!(next_float(-1.0, false), -1.0 - f64::EPSILON);
+        assert_eq!(next_float(-1.0, true), -1.0 + f64::EPSILON / 2.0);
+        assert_eq!(next_float(0.0, true), f64::from_bits(1));
+        assert!(next_float(0.0, false) < 0.0);
+    }
 
     fn shipped(metric: &str) -> SoftCriterion {
         Criteria::default_reflector()

@@ -8,6 +8,7 @@ mod parse;
 mod validate;
 mod write;
 
+pub use operations::OperationsInputs;
 use serde::{Deserialize, Serialize};
 pub use structure::{Shape, StructureSpec};
 
@@ -134,6 +135,12 @@ pub struct Criteria {
     /// command line and the workbench refit the survey (`survey::refit`) before ranking.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub structure: Option<StructureSpec>,
+    /// The operations inputs (the `[operations]` table: landing dispersion and limits,
+    /// launcher, relay orbit and margin). `None`: the survey's own, or the defaults. The
+    /// survey computes the operations figures; a file whose table differs from the inputs the
+    /// survey recorded is reported by `rank`, which cannot recompute them.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub operations: Option<operations::OperationsInputs>,
 }
 
 impl Criteria {

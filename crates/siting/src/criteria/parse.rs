@@ -25,6 +25,7 @@ struct RawFile {
     #[serde(default)]
     criterion: Vec<Spanned<RawCriterion>>,
     structure: Option<Spanned<RawStructure>>,
+    operations: Option<Spanned<operations::OperationsInputs>>,
 }
 
 #[derive(Deserialize)]
@@ -140,6 +141,7 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         requirements: Vec::new(),
         criteria: Vec::new(),
         structure: StructureLines::default(),
+        operations: None,
     };
     let mut requirements = Vec::with_capacity(raw.requirement.len());
     for r in &raw.requirement {
@@ -240,6 +242,7 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         }
     };
 
+    lines.operations = raw.operations.as_ref().map(|t| at(t.span()));
     let out = Criteria {
         title: raw.title,
         scoring,
@@ -247,6 +250,7 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         criteria,
         robustness,
         structure,
+        operations: raw.operations.map(Spanned::into_inner),
     };
     super::validate::validate(&out, &lines)?;
     Ok(out)

@@ -63,6 +63,8 @@ pub enum CriteriaProblem {
     BadRobustness(String),
     #[error("structure: {0}")]
     BadStructure(String),
+    #[error("operations: {0}")]
+    BadOperations(String),
 }
 
 /// Source lines of one requirement or criterion and its keys (None when built in code).
@@ -97,6 +99,8 @@ pub(crate) struct Lines {
     pub requirements: Vec<ItemLines>,
     pub criteria: Vec<ItemLines>,
     pub structure: StructureLines,
+    /// Line of the `[operations]` table.
+    pub operations: Option<usize>,
 }
 
 impl Lines {
@@ -107,6 +111,7 @@ impl Lines {
             requirements: vec![ItemLines::default(); c.requirements.len()],
             criteria: vec![ItemLines::default(); c.criteria.len()],
             structure: StructureLines::default(),
+            operations: None,
         }
     }
 }
@@ -278,6 +283,10 @@ pub(crate) fn validate(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError>
     }
     if let Some(spec) = &c.structure {
         check_structure(spec, &lines.structure)?;
+    }
+    if let Some(o) = &c.operations {
+        o.validate()
+            .map_err(|m| err(lines.operations, CriteriaProblem::BadOperations(m)))?;
     }
     Ok(())
 }

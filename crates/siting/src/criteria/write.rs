@@ -88,6 +88,11 @@ pub(crate) fn to_toml(c: &Criteria) -> String {
             float(s.max_anchor_height_difference_m)
         );
     }
+    if let Some(o) = &c.operations {
+        // Plain keys and numbers: the serializer's text is canonical already.
+        let body = toml::to_string(o).unwrap_or_default();
+        let _ = write!(t, "\n[operations]\n{body}");
+    }
     for q in &c.requirements {
         let _ = writeln!(t, "\n[[requirement]]\nmetric = {}", quoted(&q.metric));
         if let Some(v) = q.min {

@@ -79,6 +79,13 @@ impl Provenance {
             ("survey_catalogue", p.catalogue.clone().unwrap_or_default()),
             ("survey_detect", p.detect.to_string()),
             (
+                "survey_operations",
+                p.operations.as_ref().map_or_else(
+                    || "not computed".to_string(),
+                    |o| serde_json::to_string(o).unwrap_or_default(),
+                ),
+            ),
+            (
                 "survey_shard",
                 self.survey_shard
                     .map(|s| format!("{}/{}", s.index, s.count))

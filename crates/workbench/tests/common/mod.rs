@@ -161,6 +161,7 @@ pub fn test_criteria() -> siting::Criteria {
         ],
         robustness: Default::default(),
         structure: None,
+        operations: None,
     }
 }
 
