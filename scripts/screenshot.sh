@@ -97,6 +97,7 @@ shot sheet-score "$file" --select-rank 1 --sheet score
 shot sheet-shape "$file" --select-rank 1 --sheet shape
 shot sheet-earth-and-sky "$file" --select-rank 1 --sheet sky
 shot sheet-reflector "$file" --select-rank 1 --sheet reflector
+shot sheet-operations "$file" --select-rank 1 --sheet operations
 shot sheet-robustness "$file" --select-rank 1 --sheet robustness --rank-probabilities
 shot sheet-all-numbers "$file" --select-rank 1 --sheet numbers
 shot sheet-notes "$file" --select-rank 1 --sheet notes

@@ -1,5 +1,5 @@
 //! Open the workbench without the main binary (screenshots, development):
-//! `workbench [FILE] [--select-rank N] [--sheet score|shape|sky|reflector|robustness|numbers|notes] [--compare R1,R2,..] [--rank-probabilities] [--screenshot OUT.png] [--size WxH] [--timing]`
+//! `workbench [FILE] [--select-rank N] [--sheet score|shape|sky|reflector|operations|robustness|numbers|notes] [--compare R1,R2,..] [--rank-probabilities] [--screenshot OUT.png] [--size WxH] [--timing]`
 //! `[--map-layer relief|tint|slope] [--hide-failing] [--no-grid] [--no-legend] [--lon360]`
 
 use quietbowl_workbench::{run, WorkbenchOptions};
@@ -26,6 +26,7 @@ fn main() {
                     Some("score") => Some(SheetTab::Score),
                     Some("sky") => Some(SheetTab::Sky),
                     Some("reflector") => Some(SheetTab::Fit),
+                    Some("operations") => Some(SheetTab::Operations),
                     Some("robustness") => Some(SheetTab::Robustness),
                     Some("numbers") => Some(SheetTab::Numbers),
                     Some("notes") => Some(SheetTab::Notes),

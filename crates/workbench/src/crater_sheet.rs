@@ -22,6 +22,7 @@ pub enum SheetTab {
     Shape,
     Sky,
     Fit,
+    Operations,
     Robustness,
     Numbers,
     Notes,
@@ -36,6 +37,7 @@ pub struct CraterSheet {
     profiles: Option<(usize, Option<RadialProfiles>)>,
     sky: crate::sky_view::SkyView,
     fit: crate::fit_view::FitView,
+    operations: crate::operations_view::OperationsView,
     /// The comparison window, drawn from here so it follows the same session.
     pub compare: CompareView,
 }
@@ -107,6 +109,11 @@ impl CraterSheet {
                 let key = survey.as_ref().map_or(0, |s| Arc::as_ptr(s) as usize);
                 self.fit.ui(ui, &c, spec, radius_m, key, dem);
             }
+            SheetTab::Operations => {
+                let survey = session.survey.clone();
+                let inputs = survey.as_ref().and_then(|s| s.parameters.operations.as_ref());
+                self.operations.ui(ui, index, &c, inputs, dem);
+            }
             SheetTab::Robustness => self.smaa_ui(ui, session, index),
             SheetTab::Numbers => {
                 egui::Grid::new("sheet-metrics").striped(true).num_columns(2).show(ui, |ui| {
@@ -150,6 +157,7 @@ impl CraterSheet {
                 (SheetTab::Shape, "Shape"),
                 (SheetTab::Sky, "Earth and sky"),
                 (SheetTab::Fit, "Reflector"),
+                (SheetTab::Operations, "Operations"),
                 (SheetTab::Robustness, "Robustness"),
                 (SheetTab::Numbers, "All numbers"),
                 (SheetTab::Notes, "Notes"),

@@ -22,6 +22,7 @@ pub mod map_grid;
 pub mod map_legend;
 pub mod marks;
 pub mod open_dialog;
+pub mod operations_view;
 pub mod persistence;
 pub mod profiles;
 pub mod pyramid;
