@@ -25,6 +25,19 @@ pub enum MetricKind {
     Fraction,
     /// Yes (1) or no (0).
     Flag,
+    /// A whole number of things.
+    Count,
+}
+
+/// What a metric's value depends on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Scope {
+    /// The candidate alone (read from the survey file).
+    Candidate,
+    /// The other candidates too: which of them meet every requirement (and area). Computed
+    /// by the ranking when requirements or areas change; `get` gives None. Usable as a
+    /// weighted criterion, never as a requirement (it depends on them).
+    Neighbourhood,
 }
 
 /// A metric: its id (as used in criteria files and exports), what a person reads for it,
@@ -41,6 +54,7 @@ pub struct MetricInfo {
     /// One sentence of meaning, for tooltips and the export documentation.
     pub description: &'static str,
     pub get: fn(&Candidate) -> Option<f64>,
+    pub scope: Scope,
 }
 
 impl MetricInfo {
@@ -62,6 +76,7 @@ impl MetricInfo {
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0} %", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
+            MetricKind::Count => format!("{v:.0}"),
         }
     }
 
@@ -81,6 +96,7 @@ impl MetricInfo {
             MetricKind::Ratio => format!("{v:.3}"),
             MetricKind::Fraction => format!("{:.0}", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
+            MetricKind::Count => format!("{v:.0}"),
         }
     }
 
@@ -91,7 +107,7 @@ impl MetricInfo {
             MetricKind::Volume => " [m³]",
             MetricKind::Angle | MetricKind::Coordinate => " [°]",
             MetricKind::Fraction => " [%]",
-            MetricKind::Ratio | MetricKind::Flag => "",
+            MetricKind::Ratio | MetricKind::Flag | MetricKind::Count => "",
         }
     }
 
@@ -114,6 +130,11 @@ impl MetricInfo {
         self.kind == MetricKind::Flag
     }
 
+    /// True for metrics computed from the other candidates ([`Scope::Neighbourhood`]).
+    pub fn is_neighbourhood(&self) -> bool {
+        self.scope == Scope::Neighbourhood
+    }
+
     /// Whether `needle` (lower case) names this metric: part of its label, short label or id.
     pub fn matches(&self, needle: &str) -> bool {
         [self.label, self.short, self.name]
@@ -132,6 +153,7 @@ macro_rules! crater {
             unit: $unit,
             description: $desc,
             get: |c| Some(c.crater.$field as f64),
+            scope: Scope::Candidate,
         }
     };
 }
@@ -145,6 +167,7 @@ macro_rules! vis {
             unit: $unit,
             description: $desc,
             get: |c| c.visibility.as_ref().map($e),
+            scope: Scope::Candidate,
         }
     };
 }
@@ -159,6 +182,7 @@ macro_rules! fit {
             unit: $unit,
             description: $desc,
             get: |c| c.fit.as_ref().and_then(|f| f.metric($name)),
+            scope: Scope::Candidate,
         }
     };
 }
@@ -410,7 +434,32 @@ pub static METRICS: &[MetricInfo] = &[
         "m",
         "distance of the structure's axis from the crater centre"
     ),
+    MetricInfo {
+        name: NEAREST_QUALIFYING_M,
+        label: "Nearest other qualifying site",
+        short: "Nearest alt.",
+        kind: MetricKind::Length,
+        unit: "m",
+        description: "great-circle distance to the nearest other candidate that meets every requirement and area",
+        get: |_| None,
+        scope: Scope::Neighbourhood,
+    },
+    MetricInfo {
+        name: BACKUP_SITES,
+        label: "Backup sites nearby",
+        short: "Backups",
+        kind: MetricKind::Count,
+        unit: "",
+        description: "other candidates meeting every requirement and area within the backup radius (10 km unless the criteria say otherwise)",
+        get: |_| None,
+        scope: Scope::Neighbourhood,
+    },
 ];
+
+/// Id of the neighbourhood metric "distance to the nearest other qualifying candidate".
+pub const NEAREST_QUALIFYING_M: &str = "nearest_qualifying_m";
+/// Id of the neighbourhood metric "qualifying candidates within the backup radius".
+pub const BACKUP_SITES: &str = "backup_sites";
 
 /// Look a metric up by name.
 pub fn metric(name: &str) -> Option<&'static MetricInfo> {

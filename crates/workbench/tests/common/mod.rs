@@ -161,6 +161,8 @@ pub fn test_criteria() -> siting::Criteria {
         ],
         robustness: Default::default(),
         structure: None,
+        areas: Vec::new(),
+        backup_radius_km: siting::criteria::DEFAULT_BACKUP_RADIUS_KM,
     }
 }
 
