@@ -31,6 +31,10 @@ pub struct AreaBreach {
     pub keep: crate::areas::Keep,
     /// The feature's name, or "file #index".
     pub feature: String,
+    /// The candidate lies so far outside that only a bound was kept: the distance is at least
+    /// the value's size (see `areas::EXACT_BEYOND_MARGIN_M`).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub at_least: bool,
 }
 
 impl FailedRequirement {
@@ -40,10 +44,11 @@ impl FailedRequirement {
         let g = |v: f64| crate::table::fmt_num(v);
         if let (Some(a), Some(v)) = (&self.area, self.value) {
             return format!(
-                "area \"{}\" keep {} by {} m: {} m",
+                "area \"{}\" keep {} by {} m: {}{} m",
                 a.feature,
                 a.keep.key(),
                 g(self.min.unwrap_or(0.0)),
+                if a.at_least { "beyond " } else { "" },
                 g(v)
             );
         }
@@ -138,7 +143,8 @@ fn area_in_words(a: &AreaBreach, clearance_m: f64, margin_m: f64) -> String {
         } else {
             format!("must be {right}")
         };
-        format!("{head}: {} {wrong} it ({need})", km(-clearance_m))
+        let more = if a.at_least { "more than " } else { "" };
+        format!("{head}: {more}{} {wrong} it ({need})", km(-clearance_m))
     } else {
         format!(
             "{head}: {} {right}, {} short of the {} margin",
@@ -168,7 +174,12 @@ pub fn check_area(
         margin: Some(margin_m - s.clearance_m),
         area: Some(AreaBreach {
             keep: area.spec.keep,
-            feature: area.feature_label(s.feature).to_string(),
+            feature: if s.exact {
+                area.feature_label(s.feature).to_string()
+            } else {
+                area.name()
+            },
+            at_least: !s.exact,
         }),
     })
 }

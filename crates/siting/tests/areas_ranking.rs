@@ -125,6 +125,26 @@ fn an_area_is_a_hard_requirement_named_in_the_reason() {
 }
 
 #[test]
+fn far_outside_a_study_area_reads_as_more_than_a_bound() {
+    let dir = tempfile::tempdir().unwrap();
+    let file = keep_out(dir.path());
+    let c = criteria(&format!(
+        "[[area]]\nfile = {file:?}\nkeep = \"inside\"\n\n\
+         [[criterion]]\nmetric = \"depth_to_diameter\"\nworst = 0.1\nideal = 0.2\nweight = 1.0\n"
+    ));
+    // 20° east of the square: about 585 km from it, beyond the 100 km of exact measurement.
+    let s = survey(vec![good(1, 30.0, 0.0), good(2, 10.0, 0.2)]);
+    let t = PreparedTable::new(&s, &c).unwrap();
+    assert!(!t.passed(0) && t.passed(1));
+    let words = t.failures(0)[0].in_words();
+    assert!(
+        words.starts_with("Study area “keep-out.geojson”: more than 5")
+            && words.ends_with(" km outside it (must be inside)"),
+        "{words}"
+    );
+}
+
+#[test]
 fn neighbourhood_metrics_follow_the_requirements_not_the_weights() {
     let text = "[[requirement]]\nmetric = \"diameter_m\"\nmin = 1000.0\n\n\
          [[criterion]]\nmetric = \"backup_sites\"\nworst = 0.0\nideal = 2.0\nweight = 1.0\n\n\

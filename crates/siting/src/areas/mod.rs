@@ -103,14 +103,23 @@ impl std::fmt::Debug for Area {
     }
 }
 
+/// How far beyond its margin a candidate's distance to an area is still measured exactly,
+/// metres. Farther out only a lower bound is kept (from a cap holding the whole area), which
+/// decides pass or fail all the same and spares the edge index; a reason then says "more
+/// than". Common practice, no source: a reviewer reads distances near a limit.
+pub const EXACT_BEYOND_MARGIN_M: f64 = 100_000.0;
+
 /// Where a candidate stands with one area.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct AreaStanding {
-    /// Index of the feature whose edge is nearest.
+    /// Index of the feature whose edge is nearest (any feature when not `exact`).
     pub feature: usize,
     /// Distance to the nearest edge on the side the area asks for, metres: positive inside a
     /// study area or outside a keep-out zone, negative on the wrong side.
     pub clearance_m: f64,
+    /// False when the candidate lies more than [`EXACT_BEYOND_MARGIN_M`] beyond the margin,
+    /// outside the area: then `clearance_m` is a bound (the distance is at least its size).
+    pub exact: bool,
 }
 
 impl Area {
@@ -119,9 +128,22 @@ impl Area {
         load::load(spec, base)
     }
 
-    /// Where the point (degrees) stands on a sphere of `radius_m`.
+    /// Where the point (degrees) stands on a sphere of `radius_m`: exact up to
+    /// [`EXACT_BEYOND_MARGIN_M`] beyond the margin.
     pub fn standing(&self, radius_m: f64, lon_deg: f64, lat_deg: f64) -> Option<AreaStanding> {
-        let n = self.index.nearest(radius_m, lon_deg, lat_deg)?;
+        let horizon_m = self.margin_m() + EXACT_BEYOND_MARGIN_M;
+        self.standing_within(radius_m, lon_deg, lat_deg, horizon_m)
+    }
+
+    /// [`Area::standing`], exact up to `horizon_m` from the area (`f64::INFINITY`: always).
+    pub fn standing_within(
+        &self,
+        radius_m: f64,
+        lon_deg: f64,
+        lat_deg: f64,
+        horizon_m: f64,
+    ) -> Option<AreaStanding> {
+        let n = self.index.nearest(radius_m, lon_deg, lat_deg, horizon_m)?;
         let signed = n.signed_m();
         Some(AreaStanding {
             feature: n.feature as usize,
@@ -129,6 +151,7 @@ impl Area {
                 Keep::Inside => signed,
                 Keep::Outside => -signed,
             },
+            exact: n.exact,
         })
     }
 
@@ -137,6 +160,14 @@ impl Area {
         self.features
             .get(feature)
             .map_or(self.spec.file.as_str(), |f| f.label.as_str())
+    }
+
+    /// The file's name, for a person.
+    pub fn name(&self) -> String {
+        self.path.file_name().map_or_else(
+            || self.spec.file.clone(),
+            |n| n.to_string_lossy().into_owned(),
+        )
     }
 
     /// The required clearance, metres.

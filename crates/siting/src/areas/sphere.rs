@@ -149,15 +149,21 @@ impl PointDistance for Edge {
 pub struct SphereIndex {
     rings: Vec<Ring>,
     tree: RTree<Edge>,
+    /// A cap holding every vertex (centre, angular radius), when it is smaller than a
+    /// hemisphere: then every edge lies in it too, and a point's angle to the centre minus the
+    /// radius is a lower bound of its distance to any edge.
+    cap: Option<(V3, f64)>,
 }
 
 /// A point's position relative to the polygons: which feature's edge is nearest, how far it
-/// is (metres) and whether the point is inside.
+/// is (metres) and whether the point is inside. When `exact` is false the point lies beyond
+/// the horizon asked for, outside every polygon, and `distance_m` is a lower bound.
 #[derive(Clone, Copy, Debug, PartialEq)]
 pub struct Nearest {
     pub feature: u32,
     pub distance_m: f64,
     pub inside: bool,
+    pub exact: bool,
 }
 
 impl Nearest {
@@ -191,9 +197,22 @@ impl SphereIndex {
             }
             kept.push(ring);
         }
+        let all: Vec<V3> = kept
+            .iter()
+            .flat_map(|r| r.vertices.iter().copied())
+            .collect();
+        let cap = (!all.is_empty())
+            .then(|| {
+                let (lon, lat) = centre_of(&all);
+                let c = unit(lon, lat);
+                let radius = all.iter().map(|&v| angle(c, v)).fold(0.0, f64::max);
+                (c, radius)
+            })
+            .filter(|(_, r)| *r < 89.0_f64.to_radians());
         SphereIndex {
             rings: kept,
             tree: RTree::bulk_load(edges),
+            cap,
         }
     }
 
@@ -202,9 +221,27 @@ impl SphereIndex {
     }
 
     /// Where the point (degrees) lies relative to the polygons on a sphere of `radius_m`;
-    /// None when there are no edges.
-    pub fn nearest(&self, radius_m: f64, lon_deg: f64, lat_deg: f64) -> Option<Nearest> {
+    /// None when there are no edges. Exact within `horizon_m` of the polygons' cap; beyond
+    /// it only a lower bound of the distance (the cap's), which spares the index.
+    pub fn nearest(
+        &self,
+        radius_m: f64,
+        lon_deg: f64,
+        lat_deg: f64,
+        horizon_m: f64,
+    ) -> Option<Nearest> {
         let p = unit(lon_deg, lat_deg);
+        if let Some((c, r)) = self.cap {
+            let beyond = angle(p, c) - r;
+            if beyond * radius_m > horizon_m {
+                return Some(Nearest {
+                    feature: self.tree.iter().next()?.feature,
+                    distance_m: beyond * radius_m,
+                    inside: false,
+                    exact: false,
+                });
+            }
+        }
         let mut near = self.tree.nearest_neighbor_iter_with_distance_2(&p);
         let (first, d2) = near.next()?;
         let limit = 2.0 * ((chord_angle(d2) + TIE_RAD) / 2.0).sin();
@@ -214,7 +251,10 @@ impl SphereIndex {
                 .map(|(e, _)| e),
         );
         let frame = LocalFrame::new(radius_m, lon_deg, lat_deg);
-        let pieces: Vec<Piece> = edges.iter().flat_map(|e| self.pieces(&frame, e)).collect();
+        let pieces: Vec<Piece> = edges
+            .iter()
+            .flat_map(|e| SphereIndex::pieces(&frame, e))
+            .collect();
         let origin = geo::Coord { x: 0.0, y: 0.0 };
         let dist = |p: &Piece| Euclidean.distance(origin, &geo::Line::new(p.a, p.b));
         let (best, distance_m) = pieces
@@ -233,15 +273,20 @@ impl SphereIndex {
             feature,
             distance_m,
             inside: side(origin, best, &close),
+            exact: true,
         })
     }
 
     /// An edge cut into pieces no longer than [`PIECE_RAD`], in the frame.
-    fn pieces(&self, frame: &LocalFrame, e: &Edge) -> Vec<Piece> {
+    fn pieces(frame: &LocalFrame, e: &Edge) -> Vec<Piece> {
         let n = (angle(e.a, e.b) / PIECE_RAD).ceil().max(1.0) as u32;
         let at = |k: u32| {
-            let (lon, lat) = lonlat(slerp(e.a, e.b, f64::from(k) / f64::from(n)));
-            let (x, y) = frame.to_local(lon, lat);
+            let v = match k {
+                0 => e.a,
+                k if k == n => e.b,
+                k => slerp(e.a, e.b, f64::from(k) / f64::from(n)),
+            };
+            let (x, y) = frame.to_local_unit(v);
             geo::Coord { x, y }
         };
         (0..n)
