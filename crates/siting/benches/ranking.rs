@@ -189,6 +189,22 @@ fn area_benches(c: &mut Criterion) {
     g.bench_function("prepare_table_500k_areas", |b| {
         b.iter(|| PreparedTable::with_areas(&survey, &criteria, &areas).expect("table"))
     });
+    // The areas' own share: every candidate judged against the 11 areas, nothing else (the
+    // table above also differs from the one without areas in its Pareto scan, since fewer
+    // candidates pass).
+    let places: Vec<siting::areas::Place> = survey
+        .candidates
+        .iter()
+        .map(|c| siting::areas::Place::new(c.crater.centre_lon_deg, c.crater.centre_lat_deg))
+        .collect();
+    g.bench_function("judge_500k_against_11_areas", |b| {
+        b.iter(|| {
+            areas
+                .iter()
+                .map(|a| a.standings(terrain::MOON_RADIUS_M, &places))
+                .collect::<Vec<_>>()
+        })
+    });
     g.finish();
 }
 

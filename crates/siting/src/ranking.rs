@@ -301,8 +301,16 @@ fn failures(
             }
         }
     }
+    let places: Vec<crate::areas::Place> = if areas.is_empty() {
+        Vec::new()
+    } else {
+        points
+            .par_iter()
+            .map(|&(lon, lat)| crate::areas::Place::new(lon, lat))
+            .collect()
+    };
     for area in areas {
-        for (f, s) in failures.iter_mut().zip(area.standings(radius_m, points)) {
+        for (f, s) in failures.iter_mut().zip(area.standings(radius_m, &places)) {
             if let Some(fail) = crate::requirements::check_area(area, s) {
                 f.push(fail);
             }

@@ -12,6 +12,7 @@ use rayon::prelude::*;
 use serde::{Deserialize, Serialize};
 
 pub use load::AreaError;
+pub use sphere::Place;
 use sphere::SphereIndex;
 
 /// Which side of an area's edge a candidate must be on.
@@ -143,7 +144,11 @@ impl Area {
         lat_deg: f64,
         horizon_m: f64,
     ) -> Option<AreaStanding> {
-        let n = self.index.nearest(radius_m, lon_deg, lat_deg, horizon_m)?;
+        self.standing_at(radius_m, &Place::new(lon_deg, lat_deg), horizon_m)
+    }
+
+    fn standing_at(&self, radius_m: f64, place: &Place, horizon_m: f64) -> Option<AreaStanding> {
+        let n = self.index.nearest(radius_m, place, horizon_m)?;
         let signed = n.signed_m();
         Some(AreaStanding {
             feature: n.feature as usize,
@@ -175,12 +180,13 @@ impl Area {
         self.spec.margin_km * 1000.0
     }
 
-    /// Standing of every (lon, lat) point, in parallel and in order.
-    pub fn standings(&self, radius_m: f64, points: &[(f64, f64)]) -> Vec<Option<AreaStanding>> {
-        points
+    /// [`Area::standing`] of every place, in parallel and in order.
+    pub fn standings(&self, radius_m: f64, places: &[Place]) -> Vec<Option<AreaStanding>> {
+        let horizon_m = self.margin_m() + EXACT_BEYOND_MARGIN_M;
+        places
             .par_iter()
             .with_min_len(1024)
-            .map(|&(lon, lat)| self.standing(radius_m, lon, lat))
+            .map(|p| self.standing_at(radius_m, p, horizon_m))
             .collect()
     }
 }

@@ -155,6 +155,24 @@ pub struct SphereIndex {
     cap: Option<(V3, f64)>,
 }
 
+/// A point to judge: its unit vector and its (lon, lat) degrees.
+#[derive(Clone, Copy, Debug)]
+pub struct Place {
+    pub unit: V3,
+    pub lon_deg: f64,
+    pub lat_deg: f64,
+}
+
+impl Place {
+    pub fn new(lon_deg: f64, lat_deg: f64) -> Place {
+        Place {
+            unit: unit(lon_deg, lat_deg),
+            lon_deg,
+            lat_deg,
+        }
+    }
+}
+
 /// A point's position relative to the polygons: which feature's edge is nearest, how far it
 /// is (metres) and whether the point is inside. When `exact` is false the point lies beyond
 /// the horizon asked for, outside every polygon, and `distance_m` is a lower bound.
@@ -223,19 +241,15 @@ impl SphereIndex {
     /// Where the point (degrees) lies relative to the polygons on a sphere of `radius_m`;
     /// None when there are no edges. Exact within `horizon_m` of the polygons' cap; beyond
     /// it only a lower bound of the distance (the cap's), which spares the index.
-    pub fn nearest(
-        &self,
-        radius_m: f64,
-        lon_deg: f64,
-        lat_deg: f64,
-        horizon_m: f64,
-    ) -> Option<Nearest> {
-        let p = unit(lon_deg, lat_deg);
+    pub fn nearest(&self, radius_m: f64, place: &Place, horizon_m: f64) -> Option<Nearest> {
+        let (p, lon_deg, lat_deg) = (place.unit, place.lon_deg, place.lat_deg);
         if let Some((c, r)) = self.cap {
-            let beyond = angle(p, c) - r;
-            if beyond * radius_m > horizon_m {
+            // Compared as cosines first: a dot product spares the angle for most points.
+            let reach = r + horizon_m / radius_m;
+            if reach < std::f64::consts::PI && dot(p, c) < reach.cos() {
+                let beyond = angle(p, c) - r;
                 return Some(Nearest {
-                    feature: self.tree.iter().next()?.feature,
+                    feature: 0,
                     distance_m: beyond * radius_m,
                     inside: false,
                     exact: false,
