@@ -2,6 +2,9 @@
 //! - re-ranking 500,000 candidates after a weight change: under 20 ms;
 //! - SMAA with 10,000 weight draws over the top 1,000 candidates: under 2 s.
 //!
+//! - areas (a 1,000-vertex study area and ten keep-out zones) add under 1 s to preparing the
+//!   500,000-row table (issue 20): `prepare_table_500k` against `prepare_table_500k_areas`.
+//!
 //! Also timed, for information: preparing the 500,000-row table (utilities, requirements,
 //! Pareto), which happens once per survey or criteria-shape change.
 //!
@@ -128,5 +131,82 @@ fn benches(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(siting_benches, benches);
+/// A polygon as GeoJSON text: `vertices` points `radius_m` from (lon, lat) on the Moon.
+fn polygon_geojson(name: &str, centre: (f64, f64), radius_m: f64, vertices: usize) -> String {
+    let mut ring: Vec<[f64; 2]> = (0..vertices)
+        .map(|k| {
+            let az = 360.0 * k as f64 / vertices as f64;
+            let p = terrain::geodesy::destination(terrain::MOON_RADIUS_M, centre, az, radius_m);
+            [p.0, p.1]
+        })
+        .collect();
+    ring.push(ring[0]);
+    serde_json::json!({"type": "FeatureCollection", "features": [{"type": "Feature",
+        "properties": {"name": name}, "geometry": {"type": "Polygon", "coordinates": [ring]}}]})
+    .to_string()
+}
+
+/// The same table with a 1,000-vertex study area (500 km around 180 E 0 N) and ten keep-out
+/// zones (40-vertex, 20 km across) inside it.
+fn area_benches(c: &mut Criterion) {
+    let survey = invented_survey(500_000);
+    let dir = tempfile::tempdir().expect("temporary folder");
+    let mut criteria = Criteria::default_reflector();
+    let mut add = |name: &str, text: String, keep| {
+        let path = dir.path().join(format!("{name}.geojson"));
+        std::fs::write(&path, text).expect("area file");
+        criteria.areas.push(siting::areas::AreaSpec {
+            file: path.to_string_lossy().into_owned(),
+            layer: None,
+            filter: None,
+            keep,
+            margin_km: 2.0,
+            why: String::new(),
+        });
+    };
+    let study = polygon_geojson("study", (180.0, 0.0), 500_000.0, 1000);
+    add("study", study, siting::areas::Keep::Inside);
+    for k in 0..10 {
+        let centre = (172.0 + 1.6 * k as f64, -5.0 + 1.1 * k as f64);
+        add(
+            &format!("zone{k}"),
+            polygon_geojson("zone", centre, 10_000.0, 40),
+            siting::areas::Keep::Outside,
+        );
+    }
+    let t0 = std::time::Instant::now();
+    let areas = siting::areas::load_all(&criteria.areas, None).expect("areas");
+    println!(
+        "reading and checking the 11 areas: {:.1} ms",
+        t0.elapsed().as_secs_f64() * 1e3
+    );
+    let table = PreparedTable::with_areas(&survey, &criteria, &areas).expect("table");
+    let passing = (0..table.len()).filter(|&i| table.passed(i)).count();
+    println!("500,000 candidates with areas: {passing} pass");
+    let mut g = c.benchmark_group("siting");
+    g.sample_size(10);
+    g.measurement_time(Duration::from_secs(30));
+    g.bench_function("prepare_table_500k_areas", |b| {
+        b.iter(|| PreparedTable::with_areas(&survey, &criteria, &areas).expect("table"))
+    });
+    // The areas' own share: every candidate judged against the 11 areas, nothing else (the
+    // table above also differs from the one without areas in its Pareto scan, since fewer
+    // candidates pass).
+    let places: Vec<siting::areas::Place> = survey
+        .candidates
+        .iter()
+        .map(|c| siting::areas::Place::new(c.crater.centre_lon_deg, c.crater.centre_lat_deg))
+        .collect();
+    g.bench_function("judge_500k_against_11_areas", |b| {
+        b.iter(|| {
+            areas
+                .iter()
+                .map(|a| a.standings(terrain::MOON_RADIUS_M, &places))
+                .collect::<Vec<_>>()
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(siting_benches, benches, area_benches);
 criterion_main!(siting_benches);

@@ -25,6 +25,8 @@ pub enum SitingError {
     Gdal { path: PathBuf, message: String },
     #[error("study file: {0}")]
     Study(#[from] crate::study::StudyError),
+    #[error("area: {0}")]
+    Area(#[from] crate::areas::AreaError),
     #[error("JSON: {0}")]
     Json(#[from] serde_json::Error),
 }

@@ -7,11 +7,13 @@
 //! weighted sum over contiguous columns and sorts, so it can run each time a weight moves.
 //! Methods and their sources: docs/siting.md.
 
+pub mod areas;
 pub mod atomic;
 pub mod breakdown;
 pub mod criteria;
 mod error;
 pub mod export;
+pub mod neighbourhood;
 mod order;
 pub mod pareto;
 pub mod ranking;

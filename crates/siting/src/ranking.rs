@@ -11,7 +11,9 @@ use std::sync::{Arc, OnceLock};
 use rayon::prelude::*;
 use survey::SurveyFile;
 
+use crate::areas::{Area, AreaSpec};
 use crate::criteria::{Criteria, Requirement, ScoreMethod, SoftCriterion};
+use crate::neighbourhood::NeighbourhoodColumns;
 pub use crate::requirements::FailedRequirement;
 use crate::SitingError;
 
@@ -39,6 +41,15 @@ pub struct PreparedTable {
     tie_passing: Vec<u32>,
     /// The same for the candidates that fail a requirement.
     tie_failing: Vec<u32>,
+    /// The areas the failures were judged against, and the backup radius of the
+    /// neighbourhood metrics: with the requirements, what makes the table stale.
+    areas: Vec<AreaSpec>,
+    backup_radius_km: f64,
+    /// Candidate centres (lon, lat) and the sphere, for the neighbourhood metrics.
+    points: Vec<(f64, f64)>,
+    radius_m: f64,
+    /// Built when a criterion or an export first asks for it.
+    neighbourhood: OnceLock<NeighbourhoodColumns>,
 }
 
 fn shape_only(c: &SoftCriterion) -> SoftCriterion {
@@ -57,48 +68,107 @@ fn metric_column(survey: &SurveyFile, name: &str) -> Vec<Option<f64>> {
 }
 
 impl PreparedTable {
-    /// Do the weight-independent work for `survey` under `criteria` (validated first).
+    /// Do the weight-independent work for `survey` under `criteria` (validated first). The
+    /// criteria's areas are read here, relative paths from the working folder; to read them
+    /// once, or from the criteria file's folder, use [`PreparedTable::with_areas`].
     pub fn new(survey: &SurveyFile, criteria: &Criteria) -> Result<PreparedTable, SitingError> {
         criteria.validate()?;
+        let areas = crate::areas::load_all(&criteria.areas, None)?;
+        PreparedTable::with_areas(survey, criteria, &areas)
+    }
+
+    /// [`PreparedTable::new`] with the criteria's areas already read (`areas[k]` for
+    /// `criteria.areas[k]`).
+    pub fn with_areas(
+        survey: &SurveyFile,
+        criteria: &Criteria,
+        areas: &[Area],
+    ) -> Result<PreparedTable, SitingError> {
+        criteria.validate()?;
+        if areas.len() != criteria.areas.len()
+            || areas.iter().zip(&criteria.areas).any(|(a, s)| a.spec != *s)
+        {
+            return Err(SitingError::StaleTable(
+                "the areas read are not the criteria's areas".into(),
+            ));
+        }
         let n = survey.candidates.len();
-        let utilities: Vec<Vec<f64>> = criteria
+        let points: Vec<(f64, f64)> = survey
+            .candidates
+            .iter()
+            .map(|c| (c.crater.centre_lon_deg, c.crater.centre_lat_deg))
+            .collect();
+        let radius_m = body_radius_m(survey);
+        let failures = failures(survey, criteria, areas, &points, radius_m);
+        let passed: Vec<bool> = failures.iter().map(|f| f.is_empty()).collect();
+        let neighbourhood = OnceLock::new();
+        let mut table = PreparedTable {
+            ids: survey.candidates.iter().map(|c| c.id).collect(),
+            tie_passing: Vec::new(),
+            tie_failing: Vec::new(),
+            requirements: criteria.requirements.clone(),
+            shapes: criteria.criteria.iter().map(shape_only).collect(),
+            utilities: Vec::new(),
+            log_utilities: OnceLock::new(),
+            failures,
+            passed,
+            pareto: Vec::new(),
+            areas: criteria.areas.clone(),
+            backup_radius_km: criteria.backup_radius_km,
+            points,
+            radius_m,
+            neighbourhood,
+        };
+        table.utilities = criteria
             .criteria
             .iter()
             .map(|c| {
-                metric_column(survey, &c.metric)
-                    .par_iter()
+                let col = match survey::metrics::metric(&c.metric) {
+                    Some(m) if m.is_neighbourhood() => table
+                        .neighbourhood()
+                        .column(m.name)
+                        .map_or_else(|| vec![None; n], <[_]>::to_vec),
+                    _ => metric_column(survey, &c.metric),
+                };
+                col.par_iter()
                     .map(|v| crate::utility::utility(c, *v))
                     .collect()
             })
             .collect();
-        let mut failures: Vec<Vec<FailedRequirement>> = vec![Vec::new(); n];
-        for req in &criteria.requirements {
-            let col = metric_column(survey, &req.metric);
-            for (f, v) in failures.iter_mut().zip(col) {
-                if let Some(fail) = crate::requirements::check(req, v) {
-                    f.push(fail);
-                }
-            }
-        }
-        let passed: Vec<bool> = failures.iter().map(|f| f.is_empty()).collect();
-        let passing: Vec<usize> = (0..n).filter(|&i| passed[i]).collect();
-        let pareto = crate::pareto::pareto_flags(&utilities, n, &passing);
-        let ids: Vec<u32> = survey.candidates.iter().map(|c| c.id).collect();
+        let passing: Vec<usize> = (0..n).filter(|&i| table.passed[i]).collect();
+        table.pareto = crate::pareto::pareto_flags(&table.utilities, n, &passing);
         let mut tie_order: Vec<u32> = (0..n as u32).collect();
-        tie_order.sort_by_key(|&i| (ids[i as usize], i));
-        let (tie_passing, tie_failing) = tie_order.iter().partition(|&&i| passed[i as usize]);
-        Ok(PreparedTable {
-            ids,
-            tie_passing,
-            tie_failing,
-            requirements: criteria.requirements.clone(),
-            shapes: criteria.criteria.iter().map(shape_only).collect(),
-            utilities,
-            log_utilities: OnceLock::new(),
-            failures,
-            passed,
-            pareto,
+        tie_order.sort_by_key(|&i| (table.ids[i as usize], i));
+        (table.tie_passing, table.tie_failing) =
+            tie_order.iter().partition(|&&i| table.passed[i as usize]);
+        Ok(table)
+    }
+
+    /// The neighbourhood metrics of every candidate (computed on first use; they depend on
+    /// the requirements and areas, never on the weights).
+    pub fn neighbourhood(&self) -> &NeighbourhoodColumns {
+        self.neighbourhood.get_or_init(|| {
+            NeighbourhoodColumns::new(
+                &self.points,
+                &self.passed,
+                self.radius_m,
+                self.backup_radius_km,
+            )
         })
+    }
+
+    /// The value of metric `m` for candidate `i`: from the survey, or the neighbourhood.
+    pub fn metric_value(
+        &self,
+        survey: &SurveyFile,
+        m: &survey::MetricInfo,
+        i: usize,
+    ) -> Option<f64> {
+        if m.is_neighbourhood() {
+            self.neighbourhood().column(m.name).and_then(|c| c[i])
+        } else {
+            (m.get)(&survey.candidates[i])
+        }
     }
 
     /// Bring the table up to date with edited criteria, recomputing only what changed.
@@ -134,6 +204,12 @@ impl PreparedTable {
     pub fn stale_reason(&self, criteria: &Criteria) -> Option<String> {
         if self.requirements != criteria.requirements {
             return Some("hard requirements changed".into());
+        }
+        if self.areas != criteria.areas {
+            return Some("areas changed".into());
+        }
+        if self.backup_radius_km != criteria.backup_radius_km {
+            return Some("the backup radius changed".into());
         }
         if self.shapes.len() != criteria.criteria.len() {
             return Some("number of soft criteria changed".into());
@@ -196,6 +272,51 @@ impl PreparedTable {
                 .collect()
         })
     }
+}
+
+/// The sphere the survey's places are on: its body radius, else the IAU Moon's.
+pub fn body_radius_m(survey: &SurveyFile) -> f64 {
+    let r = survey.input.body_radius_m;
+    if r.is_finite() && r > 0.0 {
+        r
+    } else {
+        terrain::MOON_RADIUS_M
+    }
+}
+
+/// Every candidate's broken requirements, then its broken areas.
+fn failures(
+    survey: &SurveyFile,
+    criteria: &Criteria,
+    areas: &[Area],
+    points: &[(f64, f64)],
+    radius_m: f64,
+) -> Vec<Vec<FailedRequirement>> {
+    let mut failures: Vec<Vec<FailedRequirement>> = vec![Vec::new(); points.len()];
+    for req in &criteria.requirements {
+        let col = metric_column(survey, &req.metric);
+        for (f, v) in failures.iter_mut().zip(col) {
+            if let Some(fail) = crate::requirements::check(req, v) {
+                f.push(fail);
+            }
+        }
+    }
+    let places: Vec<crate::areas::Place> = if areas.is_empty() {
+        Vec::new()
+    } else {
+        points
+            .par_iter()
+            .map(|&(lon, lat)| crate::areas::Place::new(lon, lat))
+            .collect()
+    };
+    for area in areas {
+        for (f, s) in failures.iter_mut().zip(area.standings(radius_m, &places)) {
+            if let Some(fail) = crate::requirements::check_area(area, s) {
+                f.push(fail);
+            }
+        }
+    }
+    failures
 }
 
 /// A ranking of every candidate under one set of weights.

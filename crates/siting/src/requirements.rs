@@ -15,6 +15,26 @@ pub struct FailedRequirement {
     /// How far outside the bound the value lies, in the metric's unit (always > 0); None when
     /// not measured.
     pub margin: Option<f64>,
+    /// Set when the requirement is an area's: then `metric` is [`AREA_METRIC`], `value` the
+    /// distance in metres from the edge on the side the area asks for (negative on the wrong
+    /// side) and `min` the margin in metres.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub area: Option<AreaBreach>,
+}
+
+/// The metric name an area's failed requirement carries (not one of `survey::METRICS`).
+pub const AREA_METRIC: &str = "area_clearance_m";
+
+/// Which area a candidate breaks.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct AreaBreach {
+    pub keep: crate::areas::Keep,
+    /// The feature's name, or "file #index".
+    pub feature: String,
+    /// The candidate lies so far outside that only a bound was kept: the distance is at least
+    /// the value's size (see `areas::EXACT_BEYOND_MARGIN_M`).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub at_least: bool,
 }
 
 impl FailedRequirement {
@@ -22,6 +42,16 @@ impl FailedRequirement {
     /// `diameter_m 2300 above max 2000 by 300`.
     pub fn describe(&self) -> String {
         let g = |v: f64| crate::table::fmt_num(v);
+        if let (Some(a), Some(v)) = (&self.area, self.value) {
+            return format!(
+                "area \"{}\" keep {} by {} m: {}{} m",
+                a.feature,
+                a.keep.key(),
+                g(self.min.unwrap_or(0.0)),
+                if a.at_least { "beyond " } else { "" },
+                g(v)
+            );
+        }
         match (self.value, self.min, self.max) {
             (None, _, _) => format!("{} not measured", self.metric),
             (Some(v), Some(min), _) if v < min => {
@@ -48,6 +78,9 @@ impl FailedRequirement {
     /// 71.3 km: 69.3 km over the 2.00 km maximum"; a yes/no limit as "Structure fits: no
     /// (required)"; "Earth shielding margin: not measured".
     pub fn in_words(&self) -> String {
+        if let Some(a) = &self.area {
+            return area_in_words(a, self.value.unwrap_or(f64::NAN), self.min.unwrap_or(0.0));
+        }
         let info = survey::metrics::metric(&self.metric);
         let label = survey::label_of(&self.metric);
         let f = |v: f64| info.map_or_else(|| crate::table::fmt_num(v), |m| m.format(v));
@@ -92,6 +125,65 @@ impl FailedRequirement {
     }
 }
 
+/// An area's breach for a person: "Keep-out zone “LZ-4”: 3.20 km inside it (at least 5.00 km
+/// outside required)"; "Study area “Basin floor”: 1.20 km inside, 3.80 km short of the 5.00 km
+/// margin".
+fn area_in_words(a: &AreaBreach, clearance_m: f64, margin_m: f64) -> String {
+    let km = |m: f64| {
+        survey::metrics::metric("diameter_m").map_or_else(|| format!("{m} m"), |d| d.format(m))
+    };
+    let (right, wrong) = match a.keep {
+        crate::areas::Keep::Inside => ("inside", "outside"),
+        crate::areas::Keep::Outside => ("outside", "inside"),
+    };
+    let head = format!("{} “{}”", a.keep.noun(), a.feature);
+    if clearance_m < 0.0 {
+        let need = if margin_m > 0.0 {
+            format!("at least {} {right} required", km(margin_m))
+        } else {
+            format!("must be {right}")
+        };
+        let more = if a.at_least { "more than " } else { "" };
+        format!("{head}: {more}{} {wrong} it ({need})", km(-clearance_m))
+    } else {
+        format!(
+            "{head}: {} {right}, {} short of the {} margin",
+            km(clearance_m),
+            km(margin_m - clearance_m),
+            km(margin_m)
+        )
+    }
+}
+
+/// Check an area's clearance (metres, on the side it asks for) against its margin; None when
+/// it passes (a loaded area always has edges, so always judges).
+pub fn check_area(
+    area: &crate::areas::Area,
+    standing: Option<crate::areas::AreaStanding>,
+) -> Option<FailedRequirement> {
+    let margin_m = area.margin_m();
+    let s = standing?;
+    if s.clearance_m >= margin_m && (margin_m > 0.0 || s.clearance_m > 0.0) {
+        return None;
+    }
+    Some(FailedRequirement {
+        metric: AREA_METRIC.to_string(),
+        min: Some(margin_m),
+        max: None,
+        value: Some(s.clearance_m),
+        margin: Some(margin_m - s.clearance_m),
+        area: Some(AreaBreach {
+            keep: area.spec.keep,
+            feature: if s.exact {
+                area.feature_label(s.feature).to_string()
+            } else {
+                area.name()
+            },
+            at_least: !s.exact,
+        }),
+    })
+}
+
 /// Check one value against one requirement; None when it passes. A missing or non-finite
 /// value fails as "not measured": a requirement is a promise the data must back.
 pub fn check(req: &Requirement, value: Option<f64>) -> Option<FailedRequirement> {
@@ -101,6 +193,7 @@ pub fn check(req: &Requirement, value: Option<f64>) -> Option<FailedRequirement>
         max: req.max,
         value,
         margin,
+        area: None,
     };
     let Some(v) = value.filter(|v| v.is_finite()) else {
         return Some(fail(None, None));

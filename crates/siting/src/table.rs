@@ -76,6 +76,24 @@ pub fn render_table(
     smaa: Option<&SmaaResult>,
     top_n: usize,
 ) -> String {
+    let first: Vec<usize> = ranking
+        .order
+        .iter()
+        .take(top_n)
+        .map(|&i| i as usize)
+        .collect();
+    render_rows(survey, table, ranking, smaa, &first)
+}
+
+/// [`render_table`] of the candidates `shown` (indices into the survey, e.g. a spread
+/// shortlist), in ranking order.
+pub fn render_rows(
+    survey: &SurveyFile,
+    table: &PreparedTable,
+    ranking: &Ranking,
+    smaa: Option<&SmaaResult>,
+    shown_rows: &[usize],
+) -> String {
     let mut out = String::new();
     if survey.candidates.len() != table.len() {
         let _ = writeln!(
@@ -99,7 +117,12 @@ pub fn render_table(
     }
     let mut rows = vec![head];
     let mut notes = Vec::new();
-    for e in ranking.entries(table).take(top_n) {
+    let listed: std::collections::HashSet<usize> = shown_rows.iter().copied().collect();
+    for e in ranking
+        .entries(table)
+        .filter(|e| listed.contains(&e.index))
+        .take(listed.len())
+    {
         let i = e.index;
         let mut row = vec![e.rank.to_string(), e.id().to_string()];
         row.extend(shown.iter().map(|m| metric_cell(survey, i, m.name)));

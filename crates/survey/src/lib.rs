@@ -15,7 +15,7 @@ pub mod run;
 
 pub use error::SurveyError;
 pub use merge::merge;
-pub use metrics::{label_of, metric, MetricInfo, MetricKind, METRICS};
+pub use metrics::{label_of, metric, MetricInfo, MetricKind, Scope, METRICS};
 pub use model::{
     Candidate, CandidateSource, InputFile, Shard, SurveyFile, SurveyParameters, SCHEMA_VERSION,
 };

@@ -31,6 +31,19 @@ pub enum MetricKind {
     Flag,
     /// A span of time in hours.
     Duration,
+    /// A whole number of things.
+    Count,
+}
+
+/// What a metric's value depends on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Scope {
+    /// The candidate alone (read from the survey file).
+    Candidate,
+    /// The other candidates too: which of them meet every requirement (and area). Computed
+    /// by the ranking when requirements or areas change; `get` gives None. Usable as a
+    /// weighted criterion, never as a requirement (it depends on them).
+    Neighbourhood,
 }
 
 /// A metric: its id (as used in criteria files and exports), what a person reads for it,
@@ -47,6 +60,7 @@ pub struct MetricInfo {
     /// One sentence of meaning, for tooltips and the export documentation.
     pub description: &'static str,
     pub get: fn(&Candidate) -> Option<f64>,
+    pub scope: Scope,
 }
 
 impl MetricInfo {
@@ -75,6 +89,7 @@ impl MetricInfo {
             MetricKind::Fraction => format!("{:.0} %", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
             MetricKind::Duration => format!("{v:.0} h"),
+            MetricKind::Count => format!("{v:.0}"),
         }
     }
 
@@ -102,6 +117,7 @@ impl MetricInfo {
             MetricKind::Fraction => format!("{:.0}", v * 100.0),
             MetricKind::Flag => (if v >= 0.5 { "yes" } else { "no" }).to_string(),
             MetricKind::Duration => format!("{v:.0}"),
+            MetricKind::Count => format!("{v:.0}"),
         }
     }
 
@@ -113,7 +129,7 @@ impl MetricInfo {
             MetricKind::Angle | MetricKind::Coordinate | MetricKind::Longitude => " [°]",
             MetricKind::Fraction => " [%]",
             MetricKind::Duration => " [h]",
-            MetricKind::Ratio | MetricKind::Flag => "",
+            MetricKind::Ratio | MetricKind::Flag | MetricKind::Count => "",
         }
     }
 
@@ -136,6 +152,11 @@ impl MetricInfo {
         self.kind == MetricKind::Flag
     }
 
+    /// True for metrics computed from the other candidates ([`Scope::Neighbourhood`]).
+    pub fn is_neighbourhood(&self) -> bool {
+        self.scope == Scope::Neighbourhood
+    }
+
     /// Whether `needle` (lower case) names this metric: part of its label, short label or id.
     pub fn matches(&self, needle: &str) -> bool {
         [self.label, self.short, self.name]
@@ -155,6 +176,7 @@ macro_rules! info {
             unit: $unit,
             description: $desc,
             get: $get,
+            scope: Scope::Candidate,
         }
     };
 }
@@ -580,7 +602,32 @@ pub static METRICS: &[MetricInfo] = &[
         "hours of sunlight in a mean synodic month at the rim anchor that gets the most, where power would be",
         |o| o.rim_night().map(|n| n.sunlit_h_per_month)
     ),
+    MetricInfo {
+        name: NEAREST_QUALIFYING_M,
+        label: "Nearest other qualifying site",
+        short: "Nearest alt.",
+        kind: MetricKind::Length,
+        unit: "m",
+        description: "great-circle distance to the nearest other candidate that meets every requirement and area",
+        get: |_| None,
+        scope: Scope::Neighbourhood,
+    },
+    MetricInfo {
+        name: BACKUP_SITES,
+        label: "Backup sites nearby",
+        short: "Backups",
+        kind: MetricKind::Count,
+        unit: "",
+        description: "other candidates meeting every requirement and area within the backup radius (10 km unless the criteria say otherwise)",
+        get: |_| None,
+        scope: Scope::Neighbourhood,
+    },
 ];
+
+/// Id of the neighbourhood metric "distance to the nearest other qualifying candidate".
+pub const NEAREST_QUALIFYING_M: &str = "nearest_qualifying_m";
+/// Id of the neighbourhood metric "qualifying candidates within the backup radius".
+pub const BACKUP_SITES: &str = "backup_sites";
 
 /// Look a metric up by name.
 pub fn metric(name: &str) -> Option<&'static MetricInfo> {

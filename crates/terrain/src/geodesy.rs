@@ -55,18 +55,40 @@ pub struct LocalFrame {
     pub radius_m: f64,
     sin_p0: f64,
     cos_p0: f64,
+    /// Unit vectors of the centre and of east and north there (body-fixed x, y, z).
+    centre: [f64; 3],
+    east: [f64; 3],
+    north: [f64; 3],
 }
 
 impl LocalFrame {
     pub fn new(radius_m: f64, centre_lon_deg: f64, centre_lat_deg: f64) -> Self {
         let p0 = centre_lat_deg.to_radians();
+        let (sin_p0, cos_p0) = p0.sin_cos();
+        let (sin_l0, cos_l0) = centre_lon_deg.to_radians().sin_cos();
         LocalFrame {
             centre_lon_deg,
             centre_lat_deg,
             radius_m,
-            sin_p0: p0.sin(),
-            cos_p0: p0.cos(),
+            sin_p0,
+            cos_p0,
+            centre: [cos_p0 * cos_l0, cos_p0 * sin_l0, sin_p0],
+            east: [-sin_l0, cos_l0, 0.0],
+            north: [-sin_p0 * cos_l0, -sin_p0 * sin_l0, cos_p0],
         }
+    }
+
+    /// A point given as a unit vector (x towards 0 E 0 N, y towards 90 E 0 N, z north) to
+    /// local x/y (metres): the same projection as [`LocalFrame::to_local`] in vector form
+    /// (x = R k cos(lat) sin(dlon), y = R k (cos(lat0) sin(lat) - sin(lat0) cos(lat) cos(dlon)),
+    /// k = c / sin c, Snyder 1987 eq. 25-2 to 25-4), without the trigonometry of lon/lat.
+    pub fn to_local_unit(&self, v: [f64; 3]) -> (f64, f64) {
+        let dot = |a: [f64; 3]| a[0] * v[0] + a[1] * v[1] + a[2] * v[2];
+        let (cosc, x, y) = (dot(self.centre), dot(self.east), dot(self.north));
+        let sinc = x.hypot(y);
+        let c = sinc.atan2(cosc);
+        let k = if sinc < 1e-12 { 1.0 } else { c / sinc };
+        (self.radius_m * k * x, self.radius_m * k * y)
     }
 
     /// Lon/lat (degrees) to local x/y (metres).
@@ -101,5 +123,31 @@ impl LocalFrame {
             crate::projection::wrap_deg_180(lon.to_degrees()),
             lat.to_degrees(),
         )
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::LocalFrame;
+
+    #[test]
+    fn the_vector_form_gives_the_lon_lat_form() {
+        for (lon0, lat0) in [(0.0, 0.0), (180.0, 16.0), (-120.0, -89.5), (33.0, 60.0)] {
+            let f = LocalFrame::new(1_737_400.0, lon0, lat0);
+            for (lon, lat) in [
+                (lon0 + 1.0, lat0),
+                (lon0 - 40.0, 10.0),
+                (179.9, -89.0),
+                (lon0, lat0),
+            ] {
+                let (l, p) = (f64::to_radians(lon), f64::to_radians(lat));
+                let v = [p.cos() * l.cos(), p.cos() * l.sin(), p.sin()];
+                let (a, b) = (f.to_local(lon, lat), f.to_local_unit(v));
+                assert!(
+                    (a.0 - b.0).abs() < 1e-6 && (a.1 - b.1).abs() < 1e-6,
+                    "{a:?} {b:?}"
+                );
+            }
+        }
     }
 }

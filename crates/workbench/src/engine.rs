@@ -313,6 +313,8 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
             reviews: &reviews,
             only_kept: req.only_kept,
         }),
+        areas: &[],
+        only: None,
     };
     let res = match req.format {
         ExportFormat::GeoJson => siting::export::geojson::write_geojson(&set, &req.path),

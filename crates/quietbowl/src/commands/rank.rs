@@ -1,6 +1,7 @@
 //! `quietbowl rank <survey.json>`: apply criteria, rank, print the shortlist, write exports.
 
 use anyhow::Context;
+use siting::areas::{AreaSpec, Keep};
 use siting::export::{
     csv::write_csv, geojson::write_geojson, gpkg::write_gpkg, ExportSet, Provenance,
 };
@@ -44,6 +45,43 @@ pub struct Args {
     /// survey's. Default: the DEM recorded in the survey (looked for beside the survey too).
     #[arg(long, value_name = "FILE")]
     dem: Option<PathBuf>,
+    /// A study area: candidates must lie inside its polygons (any vector dataset OGR reads,
+    /// lunar lon/lat or a lunar projection). Repeatable; added to the criteria's [[area]]s.
+    #[arg(long, value_name = "FILE")]
+    inside: Vec<String>,
+    /// A keep-out zone: candidates must lie outside its polygons. Repeatable.
+    #[arg(long, value_name = "FILE")]
+    outside: Vec<String>,
+    /// How far inside a --inside area, or outside an --outside one, a candidate must be (km).
+    #[arg(long, value_name = "KM", default_value_t = 0.0)]
+    margin: f64,
+    /// Make the shortlist greedy by rank with every pair at least KM apart (great circle on
+    /// the body's sphere): printed, and exported in place of the whole ranking.
+    #[arg(long, value_name = "KM")]
+    spread: Option<f64>,
+}
+
+/// The areas given on the command line, as criteria entries.
+fn command_line_areas(a: &Args) -> anyhow::Result<Vec<AreaSpec>> {
+    if !(a.margin.is_finite() && a.margin >= 0.0) {
+        anyhow::bail!(
+            "--margin must be a number of km, 0 or more (got {})",
+            a.margin
+        );
+    }
+    let spec = |file: &String, keep| AreaSpec {
+        file: file.clone(),
+        layer: None,
+        filter: None,
+        keep,
+        margin_km: a.margin,
+        why: "given on the command line".into(),
+    };
+    Ok(a.inside
+        .iter()
+        .map(|f| spec(f, Keep::Inside))
+        .chain(a.outside.iter().map(|f| spec(f, Keep::Outside)))
+        .collect())
 }
 
 pub fn run(a: Args) -> anyhow::Result<()> {
@@ -52,7 +90,7 @@ pub fn run(a: Args) -> anyhow::Result<()> {
     }
     let survey =
         SurveyFile::read(&a.survey).with_context(|| format!("reading {}", a.survey.display()))?;
-    let (criteria, criteria_text) = match &a.criteria {
+    let (mut criteria, mut criteria_text) = match &a.criteria {
         Some(path) => {
             let text = std::fs::read_to_string(path)
                 .with_context(|| format!("reading {}", path.display()))?;
@@ -83,22 +121,51 @@ pub fn run(a: Args) -> anyhow::Result<()> {
             );
         }
     }
-    let table = PreparedTable::new(&survey, &criteria).context("preparing the ranking")?;
+    // Areas of the criteria file are found from its folder; those of the command line from here.
+    let base = a.criteria.as_deref().and_then(Path::parent);
+    let mut areas =
+        siting::areas::load_all(&criteria.areas, base).context("reading the criteria's areas")?;
+    let extra = command_line_areas(&a)?;
+    if !extra.is_empty() {
+        areas.extend(
+            siting::areas::load_all(&extra, None)
+                .context("reading the areas given on the command line")?,
+        );
+        criteria.areas.extend(extra);
+        criteria_text = criteria.to_toml();
+    }
+    let table =
+        PreparedTable::with_areas(&survey, &criteria, &areas).context("preparing the ranking")?;
     let ranking = siting::rank(&table, &criteria).context("ranking")?;
+    let spread = match a.spread {
+        Some(km) if !(km.is_finite() && km > 0.0) => {
+            anyhow::bail!("--spread must be a distance in km above 0 (got {km})")
+        }
+        Some(km) => Some(spread_shortlist(&survey, &table, &ranking, a.top, km)),
+        None => None,
+    };
     let smaa = if a.no_robustness {
         None
     } else {
         Some(siting::smaa(&table, &criteria).context("robustness analysis")?)
     };
-    println!(
-        "{}",
-        siting::table::render_table(&survey, &table, &ranking, smaa.as_ref(), a.top).trim_end()
-    );
+    let text = match &spread {
+        Some(list) => siting::table::render_rows(&survey, &table, &ranking, smaa.as_ref(), list),
+        None => siting::table::render_table(&survey, &table, &ranking, smaa.as_ref(), a.top),
+    };
+    if let (Some(km), Some(list)) = (a.spread, &spread) {
+        println!(
+            "Spread shortlist: {} of the passing candidates, taken by rank, every pair at least {km} km apart",
+            list.len()
+        );
+    }
+    println!("{}", text.trim_end());
     let provenance = Provenance::new(
         &survey,
         criteria_text,
         a.date.unwrap_or_else(siting::export::date::today),
-    );
+    )
+    .with_areas(&areas);
     let set = ExportSet {
         survey: &survey,
         criteria: &criteria,
@@ -108,10 +175,18 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         provenance: &provenance,
         limit: a.export_top.then_some(a.top),
         decisions: None,
+        areas: &areas,
+        only: spread.as_deref(),
     };
     if let Some(p) = &a.geojson {
         write_geojson(&set, p).with_context(|| format!("writing {}", p.display()))?;
         eprintln!("wrote {}", p.display());
+        if !areas.is_empty() {
+            let beside = siting::export::areas::beside(p);
+            siting::export::areas::write_geojson(&areas, &beside)
+                .with_context(|| format!("writing {}", beside.display()))?;
+            eprintln!("wrote {}", beside.display());
+        }
     }
     if let Some(p) = &a.csv {
         write_csv(&set, p).with_context(|| format!("writing {}", p.display()))?;
@@ -122,6 +197,33 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         eprintln!("wrote {}", p.display());
     }
     Ok(())
+}
+
+/// The best `count` passing candidates taken by rank, each at least `km` from those before.
+fn spread_shortlist(
+    survey: &SurveyFile,
+    table: &PreparedTable,
+    ranking: &siting::Ranking,
+    count: usize,
+    km: f64,
+) -> Vec<usize> {
+    let points: Vec<(f64, f64)> = survey
+        .candidates
+        .iter()
+        .map(|c| (c.crater.centre_lon_deg, c.crater.centre_lat_deg))
+        .collect();
+    let passing = ranking
+        .order
+        .iter()
+        .map(|&i| i as usize)
+        .filter(|&i| table.passed(i));
+    siting::neighbourhood::spread_shortlist(
+        &points,
+        passing,
+        count,
+        km,
+        siting::ranking::body_radius_m(survey),
+    )
 }
 
 /// A structure for the terminal, or "no structure".

@@ -141,6 +141,20 @@ pub struct Criteria {
     /// survey recorded is reported by `rank`, which cannot recompute them.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub operations: Option<operations::OperationsInputs>,
+    /// Study areas and keep-out zones (`[[area]]`), each a hard requirement.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub areas: Vec<crate::areas::AreaSpec>,
+    /// Radius of the "backup sites within" neighbourhood metric, km (`[neighbourhood]`).
+    #[serde(default = "default_backup_radius_km")]
+    pub backup_radius_km: f64,
+}
+
+/// Default radius for counting backup sites, km: common practice, no source (a day's
+/// traverse for a crewed or robotic rover is of this order; invented for the demo scale).
+pub const DEFAULT_BACKUP_RADIUS_KM: f64 = 10.0;
+
+fn default_backup_radius_km() -> f64 {
+    DEFAULT_BACKUP_RADIUS_KM
 }
 
 impl Criteria {

@@ -9,6 +9,7 @@ use super::{
     Criteria, Requirement, RobustnessSettings, ScoreMethod, SoftCriterion, UtilityShape,
     WeightSampling, CRITERIA_FORMAT, CRITERIA_VERSION,
 };
+use crate::areas::{AreaSpec, Keep};
 use structure::{Shape, StructureSpec};
 
 #[derive(Deserialize)]
@@ -26,6 +27,27 @@ struct RawFile {
     criterion: Vec<Spanned<RawCriterion>>,
     structure: Option<Spanned<RawStructure>>,
     operations: Option<Spanned<operations::OperationsInputs>>,
+    #[serde(default)]
+    area: Vec<Spanned<RawArea>>,
+    neighbourhood: Option<Spanned<RawNeighbourhood>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawArea {
+    file: Spanned<String>,
+    layer: Option<String>,
+    filter: Option<String>,
+    keep: Spanned<String>,
+    margin_km: Option<Spanned<f64>>,
+    #[serde(default)]
+    why: String,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawNeighbourhood {
+    backup_radius_km: Spanned<f64>,
 }
 
 #[derive(Deserialize)]
@@ -142,6 +164,8 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         criteria: Vec::new(),
         structure: StructureLines::default(),
         operations: None,
+        areas: Vec::new(),
+        neighbourhood: None,
     };
     let mut requirements = Vec::with_capacity(raw.requirement.len());
     for r in &raw.requirement {
@@ -243,6 +267,44 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
     };
 
     lines.operations = raw.operations.as_ref().map(|t| at(t.span()));
+    let mut areas = Vec::with_capacity(raw.area.len());
+    for a in &raw.area {
+        let r = a.get_ref();
+        let keep = match r.keep.get_ref().as_str() {
+            "inside" => Keep::Inside,
+            "outside" => Keep::Outside,
+            other => {
+                return Err(bad(
+                    r.keep.span(),
+                    CriteriaProblem::UnknownChoice {
+                        key: "keep",
+                        found: other.to_string(),
+                        allowed: "inside, outside",
+                    },
+                ))
+            }
+        };
+        lines.areas.push(Some(at(r
+            .margin_km
+            .as_ref()
+            .map_or_else(|| a.span(), |m| m.span()))));
+        areas.push(AreaSpec {
+            file: r.file.get_ref().clone(),
+            layer: r.layer.clone(),
+            filter: r.filter.clone(),
+            keep,
+            margin_km: r.margin_km.as_ref().map_or(0.0, |m| *m.get_ref()),
+            why: r.why.clone(),
+        });
+    }
+    let backup_radius_km = match &raw.neighbourhood {
+        None => super::DEFAULT_BACKUP_RADIUS_KM,
+        Some(n) => {
+            lines.neighbourhood = Some(at(n.get_ref().backup_radius_km.span()));
+            *n.get_ref().backup_radius_km.get_ref()
+        }
+    };
+
     let out = Criteria {
         title: raw.title,
         scoring,
@@ -251,6 +313,8 @@ pub(super) fn parse(text: &str) -> Result<Criteria, CriteriaError> {
         robustness,
         structure,
         operations: raw.operations.map(Spanned::into_inner),
+        areas,
+        backup_radius_km,
     };
     super::validate::validate(&out, &lines)?;
     Ok(out)

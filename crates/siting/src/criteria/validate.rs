@@ -65,6 +65,12 @@ pub enum CriteriaProblem {
     BadStructure(String),
     #[error("operations: {0}")]
     BadOperations(String),
+    #[error("area {file}: {reason}")]
+    BadArea { file: String, reason: String },
+    #[error("{label} depends on which candidates meet the requirements, so it cannot be one; use it as a weighted criterion")]
+    NeighbourhoodRequirement { label: String },
+    #[error("neighbourhood: backup_radius_km must be a finite number above 0 (got {0})")]
+    BadBackupRadius(f64),
 }
 
 /// Source lines of one requirement or criterion and its keys (None when built in code).
@@ -101,6 +107,9 @@ pub(crate) struct Lines {
     pub structure: StructureLines,
     /// Line of the `[operations]` table.
     pub operations: Option<usize>,
+    /// Line of each area's margin (or of the entry when it has none).
+    pub areas: Vec<Option<usize>>,
+    pub neighbourhood: Option<usize>,
 }
 
 impl Lines {
@@ -112,6 +121,8 @@ impl Lines {
             criteria: vec![ItemLines::default(); c.criteria.len()],
             structure: StructureLines::default(),
             operations: None,
+            areas: vec![None; c.areas.len()],
+            neighbourhood: None,
         }
     }
 }
@@ -154,11 +165,52 @@ fn check_metric(name: &str, line: Option<usize>) -> Result<(), CriteriaError> {
     ))
 }
 
+fn check_areas(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError> {
+    for (i, a) in c.areas.iter().enumerate() {
+        let line = lines.areas.get(i).copied().flatten();
+        let reason = if a.file.trim().is_empty() {
+            Some("file is empty".to_string())
+        } else if !(a.margin_km.is_finite() && a.margin_km >= 0.0) {
+            Some(format!(
+                "margin_km must be a finite number of km, 0 or more (got {})",
+                a.margin_km
+            ))
+        } else {
+            None
+        };
+        if let Some(reason) = reason {
+            return Err(err(
+                line,
+                CriteriaProblem::BadArea {
+                    file: a.file.clone(),
+                    reason,
+                },
+            ));
+        }
+    }
+    if !(c.backup_radius_km.is_finite() && c.backup_radius_km > 0.0) {
+        return Err(err(
+            lines.neighbourhood,
+            CriteriaProblem::BadBackupRadius(c.backup_radius_km),
+        ));
+    }
+    Ok(())
+}
+
 pub(crate) fn validate(c: &Criteria, lines: &Lines) -> Result<(), CriteriaError> {
     let blank = ItemLines::default();
+    check_areas(c, lines)?;
     for (i, r) in c.requirements.iter().enumerate() {
         let l = lines.requirements.get(i).unwrap_or(&blank);
         check_metric(&r.metric, l.metric.or(l.item))?;
+        if let Some(m) = survey::metrics::metric(&r.metric).filter(|m| m.is_neighbourhood()) {
+            return Err(err(
+                l.metric.or(l.item),
+                CriteriaProblem::NeighbourhoodRequirement {
+                    label: m.label.to_string(),
+                },
+            ));
+        }
         for (v, field, line) in [(r.min, "min", l.min), (r.max, "max", l.max)] {
             if v.is_some_and(|v| !v.is_finite()) {
                 return Err(err(

@@ -93,6 +93,29 @@ pub(crate) fn to_toml(c: &Criteria) -> String {
         let body = toml::to_string(o).unwrap_or_default();
         let _ = write!(t, "\n[operations]\n{body}");
     }
+    if c.backup_radius_km != super::DEFAULT_BACKUP_RADIUS_KM {
+        let _ = writeln!(
+            t,
+            "\n[neighbourhood]\nbackup_radius_km = {}",
+            float(c.backup_radius_km)
+        );
+    }
+    for a in &c.areas {
+        let _ = writeln!(t, "\n[[area]]\nfile = {}", quoted(&a.file));
+        if let Some(l) = &a.layer {
+            let _ = writeln!(t, "layer = {}", quoted(l));
+        }
+        if let Some(f) = &a.filter {
+            let _ = writeln!(t, "filter = {}", quoted(f));
+        }
+        let _ = writeln!(
+            t,
+            "keep = {}\nmargin_km = {}\nwhy = {}",
+            quoted(a.keep.key()),
+            float(a.margin_km),
+            quoted(&a.why)
+        );
+    }
     for q in &c.requirements {
         let _ = writeln!(t, "\n[[requirement]]\nmetric = {}", quoted(&q.metric));
         if let Some(v) = q.min {

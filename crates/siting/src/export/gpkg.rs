@@ -91,5 +91,54 @@ fn fill_inner(set: &ExportSet<'_>, tmp: &Path) -> gdal::errors::Result<()> {
         }
     }
     txn.commit()?;
+    if !set.areas.is_empty() {
+        add_areas(&mut ds, set.areas, &srs)?;
+    }
     ds.close()
+}
+
+/// The areas as a second layer, one feature per area feature.
+fn add_areas(
+    ds: &mut gdal::Dataset,
+    areas: &[crate::areas::Area],
+    srs: &SpatialRef,
+) -> gdal::errors::Result<()> {
+    let rows = super::areas::rows(areas);
+    {
+        let layer = ds.create_layer(LayerOptions {
+            name: super::areas::LAYER_NAME,
+            srs: Some(srs),
+            ty: gdal::vector::OGRwkbGeometryType::wkbMultiPolygon,
+            options: None,
+        })?;
+        if let Some((props, _)) = rows.first() {
+            for (name, v) in props {
+                let ty = if v.is_number() {
+                    OGRFieldType::OFTReal
+                } else {
+                    OGRFieldType::OFTString
+                };
+                gdal::vector::FieldDefn::new(name, ty)?.add_to_layer(&layer)?;
+            }
+        }
+    }
+    let txn = ds.start_transaction()?;
+    {
+        let layer = txn.layer_by_name(super::areas::LAYER_NAME)?;
+        for (props, feature) in &rows {
+            let mut f = gdal::vector::Feature::new(layer.defn())?;
+            for (i, (_, v)) in props.iter().enumerate() {
+                match v {
+                    serde_json::Value::Number(n) => {
+                        f.set_field_double(i, n.as_f64().unwrap_or(f64::NAN))?
+                    }
+                    serde_json::Value::String(t) => f.set_field_string(i, t)?,
+                    _ => f.set_field_null(i)?,
+                }
+            }
+            f.set_geometry(Geometry::from_wkt(&super::areas::wkt(feature))?)?;
+            f.create(&layer)?;
+        }
+    }
+    txn.commit()
 }

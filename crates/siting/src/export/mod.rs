@@ -2,6 +2,7 @@
 //! Each carries the same columns (see [`columns`]) and the same [`Provenance`], and each is
 //! written atomically; the same inputs give byte-identical files.
 
+pub mod areas;
 pub mod csv;
 pub mod date;
 pub mod geojson;
@@ -38,6 +39,18 @@ pub struct Provenance {
     pub criteria_toml: String,
     /// Supplied by the caller (ISO 8601), so reruns can be byte-identical.
     pub date: String,
+    /// The area files the ranking was judged against, with their SHA-256.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub areas: Vec<AreaRecord>,
+}
+
+/// An area file as the provenance records it.
+#[derive(Clone, Debug, PartialEq, Serialize, Deserialize)]
+pub struct AreaRecord {
+    pub file: String,
+    pub sha256: String,
+    pub keep: crate::areas::Keep,
+    pub margin_km: f64,
 }
 
 impl Provenance {
@@ -59,13 +72,28 @@ impl Provenance {
             survey_shard: survey.shard,
             criteria_toml: criteria_toml.into(),
             date: date.into(),
+            areas: Vec::new(),
         }
+    }
+
+    /// The same, recording the area files read.
+    pub fn with_areas(mut self, areas: &[crate::areas::Area]) -> Provenance {
+        self.areas = areas
+            .iter()
+            .map(|a| AreaRecord {
+                file: a.spec.file.clone(),
+                sha256: a.sha256.clone(),
+                keep: a.spec.keep,
+                margin_km: a.spec.margin_km,
+            })
+            .collect();
+        self
     }
 
     /// (key, value) pairs in a fixed order, for formats that hold flat text.
     pub fn pairs(&self) -> Vec<(&'static str, String)> {
         let p = &self.survey_parameters;
-        vec![
+        let mut pairs = vec![
             ("tool_version", self.tool_version.clone()),
             ("survey_tool_version", self.survey_tool_version.clone()),
             ("date", self.date.clone()),
@@ -93,7 +121,28 @@ impl Provenance {
             ),
             ("crs", MOON_CRS.to_string()),
             ("screening_caution", crate::SCREENING_CAUTION.to_string()),
-        ]
+        ];
+        if !self.areas.is_empty() {
+            pairs.push(("areas", self.areas_text()));
+        }
+        pairs
+    }
+
+    /// The area files in one line: "keep outside by 5 km: zones.geojson (sha256 ab12...); ...".
+    pub fn areas_text(&self) -> String {
+        self.areas
+            .iter()
+            .map(|a| {
+                format!(
+                    "keep {} by {} km: {} (sha256 {})",
+                    a.keep.key(),
+                    a.margin_km,
+                    a.file,
+                    a.sha256
+                )
+            })
+            .collect::<Vec<_>>()
+            .join("; ")
     }
 }
 
@@ -110,6 +159,11 @@ pub struct ExportSet<'a> {
     pub limit: Option<usize>,
     /// Reviewers' decisions and notes, exported as two more columns (None: no such columns).
     pub decisions: Option<Decisions<'a>>,
+    /// The areas the ranking was judged against (exported beside the shortlist).
+    pub areas: &'a [crate::areas::Area],
+    /// Export only these candidates (indices into the survey, e.g. a spread shortlist),
+    /// in ranking order; None: all (subject to `limit`).
+    pub only: Option<&'a [usize]>,
 }
 
 /// Decisions and notes by candidate id (as the study file keeps them), for export.
@@ -151,8 +205,10 @@ impl<'a> ExportSet<'a> {
 
     pub(crate) fn entries(&self) -> impl Iterator<Item = RankedEntry<'a>> + 'a {
         let only = self.decisions.filter(|d| d.only_kept);
+        let listed = self.only;
         self.ranking
             .entries(self.table)
+            .filter(move |e| listed.is_none_or(|l| l.contains(&e.index)))
             .filter(move |e| only.is_none_or(|d| d.kept(e.id())))
             .take(self.limit.unwrap_or(usize::MAX))
     }
@@ -179,12 +235,7 @@ impl<'a> ExportSet<'a> {
 
     /// Sphere radius for drawing rims: the survey's, else the IAU Moon radius.
     pub(crate) fn radius_m(&self) -> f64 {
-        let r = self.survey.input.body_radius_m;
-        if r.is_finite() && r > 0.0 {
-            r
-        } else {
-            terrain::MOON_RADIUS_M
-        }
+        crate::ranking::body_radius_m(self.survey)
     }
 }
 
@@ -259,7 +310,8 @@ pub(crate) fn row(set: &ExportSet<'_>, e: &RankedEntry<'_>) -> Vec<Cell> {
         Cell::Text(fails.join("; ")),
     ];
     for m in survey::METRICS {
-        cells.push(Cell::Real((m.get)(cand).filter(|v| v.is_finite())));
+        let v = set.table.metric_value(set.survey, m, e.index);
+        cells.push(Cell::Real(v.filter(|v| v.is_finite())));
     }
     cells.push(Cell::Bool(cand.crater.edge_cut));
     cells.extend(e.utilities().into_iter().map(|u| Cell::Real(Some(u))));

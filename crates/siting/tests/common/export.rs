@@ -76,6 +76,8 @@ impl Fixture {
             provenance: &self.provenance,
             limit: None,
             decisions: None,
+            areas: &[],
+            only: None,
         }
     }
 }

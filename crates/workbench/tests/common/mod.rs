@@ -162,6 +162,8 @@ pub fn test_criteria() -> siting::Criteria {
         robustness: Default::default(),
         structure: None,
         operations: None,
+        areas: Vec::new(),
+        backup_radius_km: siting::criteria::DEFAULT_BACKUP_RADIUS_KM,
     }
 }
 
