@@ -107,7 +107,7 @@ impl CompareView {
         let mut open = true;
         egui::Window::new("Compare candidates")
             .open(&mut open)
-            .default_size([1240.0, 820.0])
+            .default_size([1240.0, 640.0])
             .vscroll(true)
             .show(ctx, |ui| self.body(ui, session, dem));
         if !open {
