@@ -30,7 +30,7 @@ export CARGO_TARGET_DIR=${CARGO_TARGET_DIR:-$root/target}
 bin=$CARGO_TARGET_DIR/release/examples/workbench
 
 display=:${SCREENSHOT_DISPLAY:-97}
-Xvfb "$display" -screen 0 1600x1000x24 -nolisten tcp >/dev/null 2>&1 &
+Xvfb "$display" -screen 0 1600x2000x24 -nolisten tcp >/dev/null 2>&1 &
 xvfb=$!
 # A fresh settings folder, so a remembered window layout does not change the pictures.
 scratch=$(mktemp -d)
@@ -73,7 +73,7 @@ if want workbench; then
     --select-rank 1 --size 1600x1000 --screenshot "$out/workbench.png" &
   app=$!
   sleep "${SCREENSHOT_GRAB_AFTER_S:-8}"
-  import -display "$display" -window root "$out/workbench-display.png" || true
+  import -display "$display" -window root -crop 1600x1000+0+0 +repage "$out/workbench-display.png" || true
   wait "$app"
   echo "wrote $out/workbench.png and workbench-display.png"
 fi
@@ -97,7 +97,8 @@ shot sheet-score "$file" --select-rank 1 --sheet score
 shot sheet-shape "$file" --select-rank 1 --sheet shape
 shot sheet-earth-and-sky "$file" --select-rank 1 --sheet sky
 shot sheet-reflector "$file" --select-rank 1 --sheet reflector
-shot sheet-operations "$file" --select-rank 1 --sheet operations
+# A tall window, so the page's three pictures show below its figures.
+shot sheet-operations "$file" --select-rank 1 --sheet operations --size 1600x1900
 shot sheet-robustness "$file" --select-rank 1 --sheet robustness --rank-probabilities
 shot sheet-all-numbers "$file" --select-rank 1 --sheet numbers
 shot sheet-notes "$file" --select-rank 1 --sheet notes
