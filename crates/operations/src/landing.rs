@@ -230,7 +230,7 @@ fn centre_square(patch: &Patch, half_m: f64) -> Option<Patch> {
         heights_m.extend_from_slice(&patch.heights_m[j * patch.n + skip..j * patch.n + skip + n]);
     }
     Some(Patch {
-        frame: patch.frame.clone(),
+        frame: patch.frame,
         cell_m: patch.cell_m,
         half_m: steps as f64 * patch.cell_m,
         n,

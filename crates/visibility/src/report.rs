@@ -109,8 +109,9 @@ pub struct SiteReport {
 pub const CAUTION: &str = "Screening estimates from orbital data; real site decisions rest on mission-grade analysis and the responsible engineering authority's review.";
 
 impl SiteReport {
-    /// A fixed-format text rendering for the terminal.
-    pub fn to_text(&self) -> String {
+    /// A fixed-format text rendering for the terminal, without the caution (a caller that
+    /// prints more after it puts the caution last).
+    pub fn to_text_body(&self) -> String {
         let mut s = String::new();
         let e = &self.earth;
         let _ = writeln!(
@@ -233,7 +234,11 @@ impl SiteReport {
             "  one month's track: galactic b {:.2}..{:.2} deg, closest to centre {:.3} deg",
             k.month_track_b_min_deg, k.month_track_b_max_deg, k.month_gc_separation_deg
         );
-        let _ = writeln!(s, "\n{}", self.caution);
         s
+    }
+
+    /// [`SiteReport::to_text_body`] followed by the caution.
+    pub fn to_text(&self) -> String {
+        format!("{}\n{}\n", self.to_text_body(), self.caution)
     }
 }

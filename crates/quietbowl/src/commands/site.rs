@@ -90,10 +90,11 @@ pub fn run(a: Args) -> anyhow::Result<()> {
         }
         println!("{}", serde_json::to_string_pretty(&v)?);
     } else {
-        print!("{}", report.to_text());
+        print!("{}", report.to_text_body());
         if let Some((inputs, o)) = &ops {
             print!("{}", o.to_text(inputs));
         }
+        println!("\n{}", report.caution);
     }
     Ok(())
 }
