@@ -7,6 +7,7 @@
 //! in tests without a window.
 
 pub mod app;
+pub mod areas_panel;
 pub mod charts;
 pub mod compare;
 pub mod crater_sheet;
@@ -18,6 +19,7 @@ pub mod fit_view;
 pub mod job;
 pub mod keys;
 pub mod map;
+pub mod map_draw;
 pub mod map_grid;
 pub mod map_legend;
 pub mod marks;
