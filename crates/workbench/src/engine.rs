@@ -231,7 +231,7 @@ impl Spread {
         self.list = siting::neighbourhood::spread_by_rank(
             survey,
             passing.iter().map(|&i| i as usize),
-            usize::MAX,
+            passing.len(),
             self.km,
         );
     }

@@ -105,15 +105,17 @@ const SPREAD_SLIDER_MAX_KM: f64 = 200.0;
 /// "Spread": the least distance between any two candidates of the shortlist ("Meeting
 /// limits" and exports), km; 0 is off. The shortlist is worked out again only on a change.
 fn spread_slider(ui: &mut egui::Ui, session: &mut Session) {
-    let label = ui.label("Spread");
+    ui.label("Spread");
     let mut km = session.spread.km;
-    ui.add(
+    let r = ui.add(
         egui::Slider::new(&mut km, 0.0..=SPREAD_SLIDER_MAX_KM)
             .suffix(" km")
             .clamping(egui::SliderClamping::Never),
-    )
-    .labelled_by(label.id)
-    .on_hover_text(
+    );
+    ui.ctx().accesskit_node_builder(r.id, |node| {
+        node.set_label("Spread of the shortlist [km]");
+    });
+    r.on_hover_text(
         "Shortlist (\"Meeting limits\" and exports) taken by rank with every pair at least this \
          far apart (great circle); 0 is off",
     );
