@@ -189,7 +189,13 @@ impl Drawing {
     }
 
     /// The vertices so far, joined, with a line to the pointer.
-    pub fn draw(&self, painter: &Painter, view: &Viewport, geom: &GridGeometry, pointer: Option<Pos2>) {
+    pub fn draw(
+        &self,
+        painter: &Painter,
+        view: &Viewport,
+        geom: &GridGeometry,
+        pointer: Option<Pos2>,
+    ) {
         let mut pts: Vec<Pos2> = self
             .vertices
             .iter()

@@ -326,7 +326,13 @@ fn draw_icon(painter: &Painter, icon: &Icon, c: Pos2) {
         Icon::Area(keep) => {
             let r = Rect::from_center_size(c, Vec2::splat(11.0));
             let stroke = Stroke::new(2.0, crate::map_draw::colour_of(keep));
-            let corners = [r.left_top(), r.right_top(), r.right_bottom(), r.left_bottom(), r.left_top()];
+            let corners = [
+                r.left_top(),
+                r.right_top(),
+                r.right_bottom(),
+                r.left_bottom(),
+                r.left_top(),
+            ];
             match keep {
                 siting::areas::Keep::Inside => {
                     painter.add(Shape::line(corners.to_vec(), stroke));

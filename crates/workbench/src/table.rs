@@ -34,7 +34,16 @@ pub enum StatusFilter {
 /// What the listed rows depend on: ranking generation, sort, direction, find text, verdict
 /// filter, candidate count, which robustness run (if any) the probabilities come from, and
 /// the shortlist's spread (km, bits).
-type ViewKey = (u64, SortKey, bool, String, StatusFilter, usize, Option<u64>, u64);
+type ViewKey = (
+    u64,
+    SortKey,
+    bool,
+    String,
+    StatusFilter,
+    usize,
+    Option<u64>,
+    u64,
+);
 
 pub struct CandidateTable {
     pub sort: SortKey,
@@ -99,18 +108,18 @@ fn finds(session: &Session, i: usize, needle: &str) -> bool {
     })
 }
 
-/// Largest spread the slider offers, km (typed entry may go beyond).
-const SPREAD_SLIDER_MAX_KM: f64 = 200.0;
-
 /// "Spread": the least distance between any two candidates of the shortlist ("Meeting
 /// limits" and exports), km; 0 is off. The shortlist is worked out again only on a change.
-fn spread_slider(ui: &mut egui::Ui, session: &mut Session) {
+fn spread_control(ui: &mut egui::Ui, session: &mut Session) {
     ui.label("Spread");
     let mut km = session.spread.km;
+    // A drag value (drag sideways or type): a slider would not fit the bar on one line.
     let r = ui.add(
-        egui::Slider::new(&mut km, 0.0..=SPREAD_SLIDER_MAX_KM)
-            .suffix(" km")
-            .clamping(egui::SliderClamping::Never),
+        egui::DragValue::new(&mut km)
+            .range(0.0..=f64::INFINITY)
+            .speed(0.5)
+            .max_decimals(1)
+            .suffix(" km"),
     );
     ui.ctx().accesskit_node_builder(r.id, |node| {
         node.set_label("Spread of the shortlist [km]");
@@ -347,7 +356,7 @@ impl CandidateTable {
             ui.selectable_value(&mut self.status, StatusFilter::Passing, "Meeting limits");
             ui.selectable_value(&mut self.status, StatusFilter::Failing, "Failing");
             ui.separator();
-            spread_slider(ui, session);
+            spread_control(ui, session);
             self.rebuild(session);
             ui.separator();
             ui.label(format!(
@@ -481,9 +490,10 @@ impl CandidateTable {
                             }
                             for m in METRICS {
                                 row.col(|ui| {
-                                    ui.label(
-                                        m.format_number_in(session.metric_value(m, i), session.lon_convention),
-                                    );
+                                    ui.label(m.format_number_in(
+                                        session.metric_value(m, i),
+                                        session.lon_convention,
+                                    ));
                                 });
                             }
                             if (clicked || row.response().clicked())

@@ -16,7 +16,12 @@ use std::path::{Path, PathBuf};
 /// A keep-out square of half-side `half_deg` around (lon, lat), named `name`, as GeoJSON
 /// in lunar lon/lat.
 fn write_square(dir: &Path, name: &str, lon: f64, lat: f64, half_deg: f64) -> PathBuf {
-    let (w, e, s, n) = (lon - half_deg, lon + half_deg, lat - half_deg, lat + half_deg);
+    let (w, e, s, n) = (
+        lon - half_deg,
+        lon + half_deg,
+        lat - half_deg,
+        lat + half_deg,
+    );
     let text = format!(
         r#"{{"type":"FeatureCollection",
 "crs":{{"type":"name","properties":{{"name":"IAU_2015:30100"}}}},
@@ -31,7 +36,10 @@ fn write_square(dir: &Path, name: &str, lon: f64, lat: f64, half_deg: f64) -> Pa
 fn harness(session: Session) -> Harness<'static, WorkbenchApp> {
     let mut h = Harness::builder()
         .with_size(egui::vec2(1800.0, 1400.0))
-        .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), WorkbenchApp::new(session));
+        .build_ui_state(
+            |ui, app: &mut WorkbenchApp| app.ui(ui),
+            WorkbenchApp::new(session),
+        );
     h.run_steps(3);
     h
 }
@@ -62,7 +70,10 @@ fn a_keep_out_around_the_best_candidate_fails_it_by_name() {
     let mut h = harness(Session::with_survey_and_criteria(survey, criteria));
     let s = &h.state().session;
     assert_eq!(s.criteria_error, None);
-    assert!(!s.ranking.passed(best), "the candidate inside the keep-out passes");
+    assert!(
+        !s.ranking.passed(best),
+        "the candidate inside the keep-out passes"
+    );
     assert_ne!(s.index_of_rank(1), Some(best));
     h.state_mut().table.status = StatusFilter::Failing;
     h.run_steps(3);
@@ -86,7 +97,10 @@ fn an_unreadable_area_is_not_applied_and_the_ranking_stays() {
     areas_panel::add_area(&mut h.state_mut().session, &missing, Keep::Outside, 0.0);
     h.run_steps(3);
     let s = &h.state().session;
-    assert!(s.criteria_error.is_some(), "a missing area file was applied");
+    assert!(
+        s.criteria_error.is_some(),
+        "a missing area file was applied"
+    );
     assert_eq!(s.ranking.generation, generation);
     assert!(h.query_by_label_contains("Not applied").is_some());
 }
@@ -147,7 +161,11 @@ fn the_spread_slider_keeps_listed_candidates_apart() {
         .set_value_accesskit(spread_km);
     h.run_steps(3);
     let rows = listed(&h);
-    assert!(rows.len() > 5 && rows.len() < passing, "{} listed", rows.len());
+    assert!(
+        rows.len() > 5 && rows.len() < passing,
+        "{} listed",
+        rows.len()
+    );
     let place = |i: u32| {
         let c = &survey.candidates[i as usize].crater;
         (c.centre_lon_deg, c.centre_lat_deg)
