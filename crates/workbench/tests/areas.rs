@@ -1,7 +1,7 @@
 //! Study areas, keep-out zones and the spread shortlist in the workbench, driven as a user
 //! would (egui_kittest): a keep-out around the best candidate makes it fail with the area's
 //! name in "Why it fails"; adding and removing an area are one undo step each; the spread
-//! slider leaves no two candidates listed under "Meeting limits" closer than the spread.
+//! control leaves no two candidates listed under "Meeting limits" closer than the spread.
 //! The areas are small GeoJSON files written here.
 
 mod common;
@@ -179,4 +179,65 @@ fn the_spread_slider_keeps_listed_candidates_apart() {
     // The best candidate always heads the spread list.
     let s = &h.state().session;
     assert_eq!(rows.first().copied(), s.ranking.at(0));
+}
+
+/// A press and release of the primary button at `p`.
+fn click_at(h: &mut Harness<'static, WorkbenchApp>, p: egui::Pos2) {
+    h.event(egui::Event::PointerMoved(p));
+    for pressed in [true, false] {
+        h.event(egui::Event::PointerButton {
+            pos: p,
+            button: egui::PointerButton::Primary,
+            pressed,
+            modifiers: egui::Modifiers::NONE,
+        });
+    }
+    h.run_steps(2);
+}
+
+#[test]
+fn a_polygon_drawn_on_the_map_is_saved_as_geojson_and_added() {
+    let mut h = harness(Session::with_survey_and_criteria(
+        common::small_survey(),
+        common::test_criteria(),
+    ));
+    let centre = h.state().map.last_rect.expect("the map was drawn").center();
+    // Esc cancels a polygon begun.
+    h.get_by_label("Draw area").click();
+    h.run_steps(2);
+    assert!(h.state().map.drawing.on);
+    click_at(&mut h, centre);
+    assert_eq!(h.state().map.drawing.vertices.len(), 1);
+    h.key_press(egui::Key::Escape);
+    h.run_steps(2);
+    assert!(!h.state().map.drawing.on && h.state().map.drawing.vertices.is_empty());
+    // Three clicks and Enter close a triangle and ask where to save it.
+    h.get_by_label("Draw area").click();
+    h.run_steps(2);
+    let selected = h.state().session.selected;
+    for d in [egui::vec2(-80.0, 60.0), egui::vec2(80.0, 60.0), egui::vec2(0.0, -80.0)] {
+        click_at(&mut h, centre + d);
+    }
+    assert_eq!(h.state().map.drawing.vertices.len(), 3);
+    assert_eq!(h.state().session.selected, selected, "a click while drawing selected");
+    h.key_press(egui::Key::Enter);
+    h.run_steps(3);
+    assert!(!h.state().map.drawing.on);
+    h.get_by_label("Save the drawn area (GeoJSON)");
+    // What the save writes, read back by OGR through siting, as an area of the criteria.
+    let ring = h.state_mut().map.drawing.take_ring().expect("a closed polygon");
+    let dir = tempfile::tempdir().expect("temp dir");
+    let file = dir.path().join("drawn.geojson");
+    quietbowl_workbench::map_draw::write_area(&file, &ring).expect("written");
+    areas_panel::add_area(&mut h.state_mut().session, &file, Keep::Outside, 0.0);
+    h.run_steps(3);
+    let s = &h.state().session;
+    assert_eq!(s.criteria_error, None);
+    let areas = s.areas.areas();
+    assert_eq!(areas.len(), 1);
+    let read = &areas[0].features[0].polygons[0][0];
+    assert_eq!(read.len(), 4, "three vertices and the closing one");
+    for (a, b) in ring.iter().zip(read) {
+        assert!((a.0 - b.0).abs() < 1e-9 && (a.1 - b.1).abs() < 1e-9, "{a:?} read as {b:?}");
+    }
 }
