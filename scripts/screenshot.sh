@@ -109,6 +109,8 @@ shot map-legend-height-tint "$file" --select-rank 1 --map-layer tint
 shot map-shaded-relief "$file" --select-rank 1 --map-layer relief
 shot map-slope "$file" --select-rank 1 --map-layer slope
 shot map-failing-hidden "$file" --select-rank 1 --hide-failing --lon360
+# An invented keep-out square near the demo's centre (assets/areas), outlined and in the key.
+shot map-areas "$file" --select-rank 1 --keep-out "$root/assets/areas/demo-keep-out.geojson"
 
 # A polar grid: the LOLA product south of 60 S, warped to the south polar stereographic
 # projection (IAU_2015:30135) at 7.5 km posts; the north arrow turns with the meridians.

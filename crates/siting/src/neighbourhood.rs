@@ -114,6 +114,29 @@ pub fn spread_shortlist(
     out
 }
 
+/// [`spread_shortlist`] of a survey's candidates: the first `count` of `passing_order`
+/// (indices into `survey.candidates`, best first), each at least `min_separation_km` from
+/// those taken before, on the survey body's sphere.
+pub fn spread_by_rank(
+    survey: &survey::SurveyFile,
+    passing_order: impl IntoIterator<Item = usize>,
+    count: usize,
+    min_separation_km: f64,
+) -> Vec<usize> {
+    let points: Vec<(f64, f64)> = survey
+        .candidates
+        .iter()
+        .map(|c| (c.crater.centre_lon_deg, c.crater.centre_lat_deg))
+        .collect();
+    spread_shortlist(
+        &points,
+        passing_order,
+        count,
+        min_separation_km,
+        crate::ranking::body_radius_m(survey),
+    )
+}
+
 /// Great-circle distance in metres between two (lon, lat) points on a sphere of `radius_m`.
 pub fn distance_m(radius_m: f64, a: (f64, f64), b: (f64, f64)) -> f64 {
     terrain::geodesy::distance_m(radius_m, a, b)

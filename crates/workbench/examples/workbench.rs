@@ -1,6 +1,7 @@
 //! Open the workbench without the main binary (screenshots, development):
 //! `workbench [FILE] [--select-rank N] [--sheet score|shape|sky|reflector|operations|robustness|numbers|notes] [--compare R1,R2,..] [--rank-probabilities] [--screenshot OUT.png] [--size WxH] [--timing]`
 //! `[--map-layer relief|tint|slope] [--hide-failing] [--no-grid] [--no-legend] [--lon360]`
+//! `[--study-area FILE] [--keep-out FILE]` (areas added to the criteria at start, margin 0)
 
 use quietbowl_workbench::{run, WorkbenchOptions};
 use std::path::PathBuf;
@@ -47,6 +48,17 @@ fn main() {
                     "--hide-failing" => m.show_failing = false,
                     "--no-grid" => m.show_grid = false,
                     _ => m.show_legend = false,
+                }
+            }
+            "--study-area" | "--keep-out" => {
+                use siting::areas::Keep;
+                let keep = if a == "--keep-out" {
+                    Keep::Outside
+                } else {
+                    Keep::Inside
+                };
+                if let Some(f) = args.next() {
+                    options.areas.push((PathBuf::from(f), keep));
                 }
             }
             "--lon360" => options.lon_convention = Some(survey::LonConvention::East360),

@@ -335,12 +335,22 @@ impl WorkbenchApp {
         }
     }
 
+    /// Add an area file to the criteria (one undo step) and say how it went.
+    fn add_area(&mut self, path: &Path, keep: siting::areas::Keep, margin_km: f64) {
+        crate::areas_panel::add_area(&mut self.session, path, keep, margin_km);
+        self.status = match &self.session.criteria_error {
+            Some(e) => format!("Added {}, not applied: {e}", path.display()),
+            None => format!("{} added: {}", keep.noun(), path.display()),
+        };
+    }
+
     fn load_criteria(&mut self, path: &Path) {
         match std::fs::read_to_string(path)
             .map_err(|e| e.to_string())
             .and_then(|t| crate::engine::Criteria::parse(&t).map_err(|e| e.to_string()))
         {
             Ok(c) => {
+                self.session.criteria_dir = path.parent().map(Path::to_path_buf);
                 self.session.criteria_baseline = c.clone();
                 crate::criteria_panel::apply(&mut self.session, c);
                 self.status = format!("Criteria read from {}", path.display());
@@ -436,11 +446,23 @@ impl WorkbenchApp {
         };
         let Some(answer) = prompt.ui(ctx) else { return };
         let purpose = prompt.purpose;
+        let margin_km = prompt.margin_km;
         self.prompt = None;
         let Some(path) = answer else { return };
         match purpose {
             PromptPurpose::Open => self.guard_then(ctx, Guarded::Open(path)),
             PromptPurpose::LoadCriteria => self.load_criteria(&path),
+            PromptPurpose::AddArea(keep) => self.add_area(&path, keep, margin_km),
+            PromptPurpose::SaveDrawnArea(keep) => {
+                let written = self.map.drawing.take_ring().map_or_else(
+                    || Err("no polygon was drawn".to_string()),
+                    |ring| crate::map_draw::write_area(&path, &ring),
+                );
+                match written {
+                    Ok(()) => self.add_area(&path, keep, margin_km),
+                    Err(e) => self.status = format!("Could not save the drawn area: {e}"),
+                }
+            }
             PromptPurpose::SaveCriteria => {
                 self.status = match crate::write_atomically(
                     &path,
@@ -598,6 +620,11 @@ impl WorkbenchApp {
             self.map
                 .ui(ui, &mut self.session, self.terrain.as_mut(), frame);
         });
+        if self.map.drawing.wants_saving() {
+            let keep = self.map.drawing.keep;
+            let start = self.start_dir().join("drawn-area.geojson");
+            self.set_prompt(PathPrompt::new(PromptPurpose::SaveDrawnArea(keep), &start));
+        }
         self.handle_prompt(&ctx);
         if let Some(req) = self.export.ui(&ctx) {
             self.handle_export(&ctx, req);

@@ -452,7 +452,7 @@ fn numbers(ui: &mut egui::Ui, session: &Session, chosen: &[usize]) {
                 ui.label(info.label)
                     .on_hover_text(format!("{}\nid: {}", info.description, info.name));
                 for &i in chosen {
-                    let v = session.candidate(i).and_then(|c| (info.get)(c));
+                    let v = session.metric_value(info, i);
                     ui.label(v.map_or("not measured".into(), |v| {
                         info.format_in(v, session.lon_convention)
                     }));

@@ -124,7 +124,7 @@ impl CraterSheet {
                     };
                     for info in METRICS {
                         ui.label(info.label).on_hover_text(info.hint());
-                        let text = match ((info.get)(&c), sd(info.name)) {
+                        let text = match (session.metric_value(info, index), sd(info.name)) {
                             (Some(v), Some(s)) => format!("{} ± {}", info.format(v), info.format(s)),
                             (Some(v), None) => info.format_in(v, session.lon_convention),
                             (None, _) => "not measured".into(),

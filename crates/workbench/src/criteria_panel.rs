@@ -179,6 +179,8 @@ impl CriteriaPanel {
             .show(ui, |ui| {
                 self.limits_ui(ui, &mut edited);
                 ui.add_space(8.0);
+                crate::areas_panel::areas_ui(ui, &mut edited);
+                ui.add_space(8.0);
                 self.weights_ui(ui, session, &mut edited);
                 ui.add_space(8.0);
                 egui::CollapsingHeader::new(RichText::new("Reflector to fit").strong())

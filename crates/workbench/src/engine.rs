@@ -141,10 +141,12 @@ impl Ranking {
 }
 
 /// The weight-independent table for the current survey and criteria, rebuilt only when a
-/// requirement or a criterion's shape changes (weights alone reuse it).
+/// requirement, an area or a criterion's shape changes (weights alone reuse it). `areas` are
+/// the criteria's areas as read ([`LoadedAreas`]).
 pub fn prepare(
     survey: &SurveyFile,
     criteria: &Criteria,
+    areas: &[siting::areas::Area],
     current: Option<&Arc<PreparedTable>>,
 ) -> Result<Arc<PreparedTable>, String> {
     if let Some(t) = current {
@@ -152,9 +154,87 @@ pub fn prepare(
             return Ok(t.clone());
         }
     }
-    PreparedTable::new(survey, criteria)
+    PreparedTable::with_areas(survey, criteria, areas)
         .map(Arc::new)
         .map_err(|e| e.to_string())
+}
+
+/// The criteria's areas as last read, with the specs and folder they were read for: read
+/// again only when `criteria.areas` (or the folder relative paths start from) changes, never
+/// per frame or on a weight change.
+#[derive(Clone, Debug, Default)]
+pub struct LoadedAreas {
+    specs: Vec<siting::areas::AreaSpec>,
+    base: Option<std::path::PathBuf>,
+    areas: Arc<Vec<siting::areas::Area>>,
+}
+
+impl LoadedAreas {
+    /// The areas for `specs` (relative paths from `base`), read unless already held.
+    pub fn get(
+        &mut self,
+        specs: &[siting::areas::AreaSpec],
+        base: Option<&std::path::Path>,
+    ) -> Result<Arc<Vec<siting::areas::Area>>, String> {
+        if self.specs != specs || self.base.as_deref() != base {
+            let areas = siting::areas::load_all(specs, base).map_err(|e| e.to_string())?;
+            *self = LoadedAreas {
+                specs: specs.to_vec(),
+                base: base.map(std::path::Path::to_path_buf),
+                areas: Arc::new(areas),
+            };
+        }
+        Ok(self.areas.clone())
+    }
+
+    /// The areas held (those of the last criteria read without error).
+    pub fn areas(&self) -> &Arc<Vec<siting::areas::Area>> {
+        &self.areas
+    }
+}
+
+/// The shortlist spread apart: passing candidates taken by rank, every pair at least `km`
+/// apart (`siting`'s greedy spread), worked out again only when the ranking or the distance
+/// changes, never per frame.
+#[derive(Clone, Debug, Default)]
+pub struct Spread {
+    /// Least distance between any two listed candidates, km (0: off).
+    pub km: f64,
+    /// The ranking generation and distance `list` was made for.
+    made_for: Option<(u64, u64)>,
+    /// Indices into `survey.candidates`, best first (empty when off).
+    list: Vec<usize>,
+}
+
+impl Spread {
+    pub fn is_on(&self) -> bool {
+        self.km > 0.0
+    }
+
+    /// The spread shortlist (None when the spread is off).
+    pub fn list(&self) -> Option<&[usize]> {
+        self.is_on().then_some(self.list.as_slice())
+    }
+
+    /// Work the list out again if the ranking or the distance changed since.
+    pub fn update(&mut self, survey: &SurveyFile, ranking: &Ranking) {
+        let key = (ranking.generation, self.km.to_bits());
+        if self.made_for == Some(key) {
+            return;
+        }
+        self.made_for = Some(key);
+        self.list.clear();
+        if !self.is_on() {
+            return;
+        }
+        let passing = &ranking.order()[..ranking.passing_count()];
+        self.list = siting::neighbourhood::spread_by_rank(
+            survey,
+            passing.iter().map(|&i| i as usize),
+            passing.len(),
+            self.km,
+        );
+    }
 }
 
 /// Rank with `siting` and turn the result into the views' form.
@@ -282,6 +362,17 @@ impl RobustnessJob {
     }
 }
 
+/// The areas as a second GeoJSON file beside a GeoJSON shortlist (none when no areas).
+fn write_areas_beside(
+    areas: &[siting::areas::Area],
+    shortlist: &std::path::Path,
+) -> Result<(), siting::SitingError> {
+    if areas.is_empty() {
+        return Ok(());
+    }
+    siting::export::areas::write_geojson(areas, &siting::export::areas::beside(shortlist))
+}
+
 /// Write the shortlist through `siting`'s exporters.
 pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<String, String> {
     let (Some(survey), Some(table), Some(full)) =
@@ -293,7 +384,8 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
         survey,
         session.criteria.to_toml(),
         siting::export::date::today(),
-    );
+    )
+    .with_areas(session.areas.areas());
     let limit = req.passing_only.then(|| session.ranking.passing_count());
     let smaa = session
         .smaa
@@ -313,11 +405,12 @@ pub fn export(session: &crate::session::Session, req: &ExportRequest) -> Result<
             reviews: &reviews,
             only_kept: req.only_kept,
         }),
-        areas: &[],
-        only: None,
+        areas: session.areas.areas(),
+        only: session.spread.list(),
     };
     let res = match req.format {
-        ExportFormat::GeoJson => siting::export::geojson::write_geojson(&set, &req.path),
+        ExportFormat::GeoJson => siting::export::geojson::write_geojson(&set, &req.path)
+            .and_then(|()| write_areas_beside(set.areas, &req.path)),
         ExportFormat::GeoPackage => siting::export::gpkg::write_gpkg(&set, &req.path),
         ExportFormat::Csv => siting::export::csv::write_csv(&set, &req.path),
         ExportFormat::MapPicture => return Err("pictures are written by the window".into()),

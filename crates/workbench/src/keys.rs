@@ -139,6 +139,28 @@ impl WorkbenchApp {
             self.export.open = true;
         }
         ui.separator();
+        for (keep, title, hint) in [
+            (
+                siting::areas::Keep::Inside,
+                "Add study area…",
+                "a polygon file (any vector OGR reads) candidates must lie inside",
+            ),
+            (
+                siting::areas::Keep::Outside,
+                "Add keep-out zone…",
+                "a polygon file (any vector OGR reads) candidates must keep out of",
+            ),
+        ] {
+            if ui
+                .add_enabled(has_survey, egui::Button::new(title))
+                .on_hover_text(hint)
+                .clicked()
+            {
+                let start = self.start_dir();
+                self.set_prompt(PathPrompt::new(PromptPurpose::AddArea(keep), &start));
+            }
+        }
+        ui.separator();
         let can_survey =
             self.terrain.is_some() && self.job.is_none() && self.survey_runner.is_some();
         if ui

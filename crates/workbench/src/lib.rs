@@ -7,6 +7,7 @@
 //! in tests without a window.
 
 pub mod app;
+pub mod areas_panel;
 pub mod charts;
 pub mod compare;
 pub mod crater_sheet;
@@ -18,6 +19,7 @@ pub mod fit_view;
 pub mod job;
 pub mod keys;
 pub mod map;
+pub mod map_draw;
 pub mod map_grid;
 pub mod map_legend;
 pub mod marks;
@@ -74,6 +76,8 @@ pub struct WorkbenchOptions {
     pub map_settings: Option<map::MapSettings>,
     /// How longitudes are written at start (screenshots); default otherwise.
     pub lon_convention: Option<survey::LonConvention>,
+    /// Area files added to the criteria at start (margin 0), each kept inside or outside.
+    pub areas: Vec<(PathBuf, siting::areas::Keep)>,
 }
 
 #[derive(Debug, thiserror::Error)]
@@ -118,6 +122,9 @@ pub fn run(options: WorkbenchOptions) -> Result<(), WorkbenchError> {
                     .clone()
                     .unwrap_or_else(job::default_survey_runner),
             );
+            for (path, keep) in &options.areas {
+                areas_panel::add_area(&mut app.session, path, *keep, 0.0);
+            }
             let first = options.open.clone().or(options.demo_dem.clone());
             if let Some(p) = first {
                 app.open_path(&cc.egui_ctx, &p);

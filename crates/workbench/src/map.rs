@@ -3,6 +3,7 @@
 //! mark, a km scale bar and a cursor read-out; pan and zoom by mouse and keyboard, and a
 //! "go to lon, lat" box.
 
+use crate::map_draw;
 use crate::map_grid::{self, Graticule, Viewport};
 use crate::map_legend::{self, LegendState};
 use crate::marks::{CandidateMarks, MarkStyle};
@@ -81,6 +82,10 @@ pub struct MapView {
     /// The place last gone to, lon/lat degrees, marked on the map.
     goto_point: Option<(f64, f64)>,
     graticule: Option<(GridKey, Graticule)>,
+    /// The polygon being drawn ("Draw area" in the bar).
+    pub drawing: map_draw::Drawing,
+    /// The criteria's areas traced through the grid.
+    outlines: map_draw::AreaOutlines,
 }
 
 impl MapView {
@@ -174,6 +179,8 @@ impl MapView {
             ui.checkbox(&mut self.settings.show_grid, "Lon/lat lines");
             ui.checkbox(&mut self.settings.show_legend, "Legend");
             ui.separator();
+            self.drawing_controls(ui);
+            ui.separator();
             ui.label("Longitudes");
             for c in LonConvention::ALL {
                 ui.selectable_value(&mut session.lon_convention, c, c.label());
@@ -199,6 +206,24 @@ impl MapView {
                 ui.colored_label(Color32::from_rgb(240, 140, 120), e);
             }
         });
+    }
+
+    /// "Draw area" and, while drawing, what the polygon will be.
+    fn drawing_controls(&mut self, ui: &mut egui::Ui) {
+        let d = &mut self.drawing;
+        let was_on = d.on;
+        ui.toggle_value(&mut d.on, "Draw area").on_hover_text(
+            "Click the map to add vertices; double-click or Enter closes the polygon and asks \
+             where to save it (GeoJSON); Esc cancels",
+        );
+        if was_on && !d.on {
+            d.vertices.clear();
+        }
+        if d.on {
+            ui.selectable_value(&mut d.keep, siting::areas::Keep::Outside, "keep-out zone");
+            ui.selectable_value(&mut d.keep, siting::areas::Keep::Inside, "study area");
+            ui.label(format!("{} vertices", d.vertices.len()));
+        }
     }
 
     fn do_requested_go_to(&mut self, geom: &GridGeometry, convention: LonConvention) {
@@ -256,6 +281,9 @@ impl MapView {
         }
         self.do_requested_go_to(&geom, session.lon_convention);
         self.handle_input(ui, &response, rect);
+        let drawing = self.drawing.on;
+        self.drawing
+            .handle(ui, &response, &self.viewport(rect), &geom);
         self.centre_on_selection(session, &geom, rect);
         let clip = painter.with_clip_rect(rect);
         let shown = self.draw_terrain(ui, &clip, rect, terrain);
@@ -265,7 +293,11 @@ impl MapView {
                 map_grid::draw_graticule_lines(&clip, g);
             }
         }
-        self.draw_candidates(&clip, session, &geom, &response);
+        self.outlines.update(session.areas.areas(), &geom);
+        self.outlines.draw(&clip, &self.viewport(rect));
+        self.draw_candidates(&clip, session, &geom, &response, drawing);
+        self.drawing
+            .draw(&clip, &self.viewport(rect), &geom, response.hover_pos());
         self.draw_overlays(&clip, session, &geom, &response, shown);
         response
             .widget_info(|| egui::WidgetInfo::labeled(egui::Role::Canvas, true, "Terrain view"));
@@ -333,6 +365,7 @@ impl MapView {
         session: &mut Session,
         geom: &Arc<GridGeometry>,
         response: &egui::Response,
+        drawing: bool,
     ) {
         let rect = response.rect;
         let view = MarkStyle {
@@ -356,7 +389,7 @@ impl MapView {
             let resp = response.clone();
             resp.on_hover_ui_at_pointer(|ui| hover_card(ui, session, i));
         }
-        if response.clicked() {
+        if response.clicked() && !drawing {
             if let Some(i) = self.hovered {
                 session.select(Some(i), true);
             }
@@ -390,6 +423,12 @@ impl MapView {
                     .map(|_| self.marks.score_range()),
                 show_failing: self.settings.show_failing,
                 goto_shown: self.goto_point.is_some(),
+                areas: session
+                    .areas
+                    .areas()
+                    .iter()
+                    .map(|a| (a.name(), a.spec.keep))
+                    .collect(),
             };
             boxes.extend(map_legend::draw_legends(painter, rect, &state));
         }

@@ -32,6 +32,8 @@ pub struct LegendState {
     pub score_range: Option<(f64, f64)>,
     pub show_failing: bool,
     pub goto_shown: bool,
+    /// The criteria's areas drawn on the map: name and which side candidates keep to.
+    pub areas: Vec<(String, siting::areas::Keep)>,
 }
 
 /// What the height legend says heights are measured from: "above the 1737.4 km sphere".
@@ -171,6 +173,7 @@ enum Icon {
     Ring(Color32),
     Anchor,
     Goto,
+    Area(siting::areas::Keep),
     Nothing,
 }
 
@@ -207,6 +210,9 @@ fn marks_legend(painter: &Painter, corner: Pos2, state: &LegendState) -> Rect {
     ];
     if state.goto_shown {
         rows.push((Icon::Goto, "Place you went to".into()));
+    }
+    for (name, keep) in &state.areas {
+        rows.push((Icon::Area(*keep), format!("{}: {name}", keep.noun())));
     }
     rows.push((Icon::Nothing, "No mark: no crater found there".into()));
     let title = "Rim colour: score";
@@ -317,6 +323,25 @@ fn draw_icon(painter: &Painter, icon: &Icon, c: Pos2) {
         }
         Icon::Anchor => draw_anchor(painter, c),
         Icon::Goto => draw_goto(painter, c),
+        Icon::Area(keep) => {
+            let r = Rect::from_center_size(c, Vec2::splat(11.0));
+            let stroke = Stroke::new(2.0, crate::map_draw::colour_of(keep));
+            let corners = [
+                r.left_top(),
+                r.right_top(),
+                r.right_bottom(),
+                r.left_bottom(),
+                r.left_top(),
+            ];
+            match keep {
+                siting::areas::Keep::Inside => {
+                    painter.add(Shape::line(corners.to_vec(), stroke));
+                }
+                siting::areas::Keep::Outside => {
+                    painter.extend(Shape::dashed_line(&corners, stroke, 3.0, 2.0));
+                }
+            }
+        }
         Icon::Nothing => {}
     }
 }

@@ -6,6 +6,9 @@ use std::path::{Path, PathBuf};
 /// File kinds the workbench opens, by extension.
 pub const OPENABLE: [&str; 6] = ["tif", "tiff", "img", "json", "toml", "lbl"];
 
+/// Vector files an area is commonly read from (any OGR vector can be typed in).
+pub const AREA_FILES: [&str; 7] = ["geojson", "json", "gpkg", "shp", "kml", "gml", "fgb"];
+
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum PromptPurpose {
     Open,
@@ -13,11 +16,17 @@ pub enum PromptPurpose {
     SaveSurvey,
     SaveCriteria,
     LoadCriteria,
+    /// An area file to add to the criteria, kept inside or outside.
+    AddArea(siting::areas::Keep),
+    /// Where to write the polygon drawn on the map (GeoJSON), then added as this kind.
+    SaveDrawnArea(siting::areas::Keep),
 }
 
 pub struct PathPrompt {
     pub purpose: PromptPurpose,
     pub path: String,
+    /// The margin of an area being added, km.
+    pub margin_km: f64,
 }
 
 impl PathPrompt {
@@ -25,6 +34,7 @@ impl PathPrompt {
         PathPrompt {
             purpose,
             path: start.display().to_string(),
+            margin_km: 0.0,
         }
     }
 
@@ -35,6 +45,26 @@ impl PathPrompt {
             PromptPurpose::SaveSurvey => "Save the survey",
             PromptPurpose::SaveCriteria => "Save criteria",
             PromptPurpose::LoadCriteria => "Load criteria",
+            PromptPurpose::AddArea(siting::areas::Keep::Inside) => "Add a study area",
+            PromptPurpose::AddArea(siting::areas::Keep::Outside) => "Add a keep-out zone",
+            PromptPurpose::SaveDrawnArea(_) => "Save the drawn area (GeoJSON)",
+        }
+    }
+
+    /// Whether the prompt adds an area (then it asks for a margin too).
+    fn adds_area(&self) -> bool {
+        matches!(
+            self.purpose,
+            PromptPurpose::AddArea(_) | PromptPurpose::SaveDrawnArea(_)
+        )
+    }
+
+    /// Whether files with extension `ext` (lower case) are listed.
+    fn lists(&self, ext: &str) -> bool {
+        if self.adds_area() {
+            AREA_FILES.contains(&ext)
+        } else {
+            OPENABLE.contains(&ext)
         }
     }
 
@@ -80,7 +110,7 @@ impl PathPrompt {
                             let openable = p
                                 .extension()
                                 .and_then(|e| e.to_str())
-                                .is_some_and(|e| OPENABLE.contains(&e.to_lowercase().as_str()));
+                                .is_some_and(|e| self.lists(&e.to_lowercase()));
                             if p.is_dir() {
                                 if ui.selectable_label(false, format!("{name}/")).clicked() {
                                     self.path = p.display().to_string();
@@ -90,11 +120,29 @@ impl PathPrompt {
                             }
                         }
                     });
+                if self.adds_area() {
+                    ui.horizontal(|ui| {
+                        ui.label("Margin:");
+                        let r = ui.add(
+                            egui::DragValue::new(&mut self.margin_km)
+                                .range(0.0..=1000.0)
+                                .speed(0.1)
+                                .suffix(" km"),
+                        );
+                        r.on_hover_text(
+                            "How far inside a study area's edge, or outside a keep-out zone, a \
+                             candidate must be",
+                        );
+                    });
+                }
                 ui.horizontal(|ui| {
-                    let verb = if self.purpose == PromptPurpose::Open
-                        || self.purpose == PromptPurpose::LoadCriteria
-                    {
+                    let verb = if matches!(
+                        self.purpose,
+                        PromptPurpose::Open | PromptPurpose::LoadCriteria
+                    ) {
                         "Open"
+                    } else if matches!(self.purpose, PromptPurpose::AddArea(_)) {
+                        "Add"
                     } else {
                         "Save"
                     };

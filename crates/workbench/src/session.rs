@@ -51,6 +51,13 @@ pub struct Session {
     pub survey_unsaved: bool,
     /// Where the study was last saved or read: saving again goes there without asking.
     pub study_path: Option<PathBuf>,
+    /// The folder of the criteria file last loaded: relative area paths start there (else
+    /// beside the study, else beside the survey).
+    pub criteria_dir: Option<PathBuf>,
+    /// The criteria's areas as last read (read again only when `criteria.areas` changes).
+    pub areas: engine::LoadedAreas,
+    /// The spread of the shortlist, km (0: off), and the shortlist it gives.
+    pub spread: crate::engine::Spread,
     generation: u64,
 }
 
@@ -143,6 +150,9 @@ impl Default for Session {
             saved: SavedState::default(),
             survey_unsaved: false,
             study_path: None,
+            criteria_dir: None,
+            areas: Default::default(),
+            spread: Default::default(),
             generation: 0,
         }
     }
@@ -303,7 +313,17 @@ impl Session {
         c
     }
 
-    /// Rank again with the current criteria. Called in the same frame as any criteria edit.
+    /// The folder relative area paths start from: the criteria file's, else the study's,
+    /// else the survey's.
+    pub fn areas_base(&self) -> Option<PathBuf> {
+        self.criteria_dir.clone().or_else(|| {
+            let file = self.study_path.as_ref().or(self.survey_path.as_ref())?;
+            file.parent().map(PathBuf::from)
+        })
+    }
+
+    /// Rank again with the current criteria. Called in the same frame as any criteria edit;
+    /// the areas are read again only when `criteria.areas` changed.
     pub fn rerank(&mut self) {
         let Some(survey) = self.survey.clone() else {
             self.ranking = Ranking::default();
@@ -311,8 +331,14 @@ impl Session {
         };
         // The last good ranking stays on screen when the edited criteria cannot be ranked.
         let mut ranking = std::mem::take(&mut self.ranking);
-        let result =
-            engine::prepare(&survey, &self.criteria, self.prepared.as_ref()).and_then(|table| {
+        let base = self.areas_base();
+        let result = self
+            .areas
+            .get(&self.criteria.areas, base.as_deref())
+            .and_then(|areas| {
+                engine::prepare(&survey, &self.criteria, &areas, self.prepared.as_ref())
+            })
+            .and_then(|table| {
                 engine::rank_into(&table, &self.criteria, self.generation + 1, &mut ranking)?;
                 Ok(table)
             });
@@ -325,6 +351,7 @@ impl Session {
             }
             Err(e) => self.criteria_error = Some(e),
         }
+        self.spread.update(&survey, &self.ranking);
     }
 
     pub fn candidate_count(&self) -> usize {
@@ -333,6 +360,19 @@ impl Session {
 
     pub fn candidate(&self, index: usize) -> Option<&survey::Candidate> {
         self.survey.as_ref()?.candidates.get(index)
+    }
+
+    /// The value of metric `m` for candidate `index`: from the survey, or for a
+    /// neighbourhood metric from the prepared table.
+    pub fn metric_value(&self, m: &survey::MetricInfo, index: usize) -> Option<f64> {
+        let survey = self.survey.as_ref()?;
+        if index >= survey.candidates.len() {
+            return None;
+        }
+        match &self.prepared {
+            Some(t) if t.len() == survey.candidates.len() => t.metric_value(survey, m, index),
+            _ => (m.get)(&survey.candidates[index]),
+        }
     }
 
     /// Why candidate `index` fails, one line per requirement missed.
@@ -389,6 +429,7 @@ impl Session {
     }
 
     pub fn adopt_study(&mut self, study: siting::Study, path: Option<PathBuf>) {
+        self.criteria_dir = None;
         self.criteria = study.criteria.clone();
         self.criteria_baseline = study.criteria;
         self.history.clear();

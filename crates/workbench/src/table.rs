@@ -32,8 +32,18 @@ pub enum StatusFilter {
 }
 
 /// What the listed rows depend on: ranking generation, sort, direction, find text, verdict
-/// filter, candidate count, and which robustness run (if any) the probabilities come from.
-type ViewKey = (u64, SortKey, bool, String, StatusFilter, usize, Option<u64>);
+/// filter, candidate count, which robustness run (if any) the probabilities come from, and
+/// the shortlist's spread (km, bits).
+type ViewKey = (
+    u64,
+    SortKey,
+    bool,
+    String,
+    StatusFilter,
+    usize,
+    Option<u64>,
+    u64,
+);
 
 pub struct CandidateTable {
     pub sort: SortKey,
@@ -98,6 +108,35 @@ fn finds(session: &Session, i: usize, needle: &str) -> bool {
     })
 }
 
+/// "Spread": the least distance between any two candidates of the shortlist ("Meeting
+/// limits" and exports), km; 0 is off. The shortlist is worked out again only on a change.
+fn spread_control(ui: &mut egui::Ui, session: &mut Session) {
+    ui.label("Spread");
+    let mut km = session.spread.km;
+    // A drag value (drag sideways or type): a slider would not fit the bar on one line.
+    let r = ui.add(
+        egui::DragValue::new(&mut km)
+            .range(0.0..=f64::INFINITY)
+            .speed(0.5)
+            .max_decimals(1)
+            .suffix(" km"),
+    );
+    ui.ctx().accesskit_node_builder(r.id, |node| {
+        node.set_label("Spread of the shortlist [km]");
+    });
+    r.on_hover_text(
+        "Shortlist (\"Meeting limits\" and exports) taken by rank with every pair at least this \
+         far apart (great circle); 0 is off",
+    );
+    let km = if km.is_finite() { km.max(0.0) } else { 0.0 };
+    if km != session.spread.km {
+        session.spread.km = km;
+        if let Some(survey) = session.survey.clone() {
+            session.spread.update(&survey, &session.ranking);
+        }
+    }
+}
+
 /// A probability as a table cell.
 fn percent(p: Option<f64>) -> String {
     p.map_or("–".into(), |p| format!("{:.1} %", p * 100.0))
@@ -141,6 +180,7 @@ impl CandidateTable {
             self.status,
             session.candidate_count(),
             session.smaa.as_ref().map(|(g, _)| *g),
+            session.spread.km.to_bits(),
         );
         if self.rows_key.as_ref() == Some(&key) {
             return;
@@ -153,11 +193,19 @@ impl CandidateTable {
         };
         let r = &session.ranking;
         let needle = self.filter_text.trim().to_lowercase();
+        // With a spread, "Meeting limits" lists the spread shortlist only.
+        let mut shortlisted = Vec::new();
+        if let Some(list) = session.spread.list() {
+            shortlisted.resize(survey.candidates.len(), false);
+            for &i in list {
+                shortlisted[i] = true;
+            }
+        }
         let keep = |i: usize| {
             let pass = r.passed(i);
             let status_ok = match self.status {
                 StatusFilter::All => true,
-                StatusFilter::Passing => pass,
+                StatusFilter::Passing => pass && shortlisted.get(i).copied().unwrap_or(true),
                 StatusFilter::Failing => !pass,
             };
             status_ok && finds(session, i, &needle)
@@ -194,7 +242,7 @@ impl CandidateTable {
             match self.sort {
                 SortKey::RankFirst => probability(i, true),
                 SortKey::TopN => probability(i, false),
-                SortKey::Metric(m) => (METRICS[m].get)(&survey.candidates[i as usize]),
+                SortKey::Metric(m) => session.metric_value(&METRICS[m], i as usize),
                 SortKey::Rank | SortKey::Score | SortKey::Id => None,
             }
         };
@@ -307,6 +355,8 @@ impl CandidateTable {
             ui.selectable_value(&mut self.status, StatusFilter::All, "All");
             ui.selectable_value(&mut self.status, StatusFilter::Passing, "Meeting limits");
             ui.selectable_value(&mut self.status, StatusFilter::Failing, "Failing");
+            ui.separator();
+            spread_control(ui, session);
             self.rebuild(session);
             ui.separator();
             ui.label(format!(
@@ -440,9 +490,10 @@ impl CandidateTable {
                             }
                             for m in METRICS {
                                 row.col(|ui| {
-                                    ui.label(
-                                        m.format_number_in((m.get)(c), session.lon_convention),
-                                    );
+                                    ui.label(m.format_number_in(
+                                        session.metric_value(m, i),
+                                        session.lon_convention,
+                                    ));
                                 });
                             }
                             if (clicked || row.response().clicked())

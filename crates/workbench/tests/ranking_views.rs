@@ -12,7 +12,7 @@ use std::sync::Arc;
 fn places_read_one_by_one_are_the_full_rankings() {
     let survey = common::large_survey(40_000);
     let criteria = common::test_criteria();
-    let table = engine::prepare(&survey, &criteria, None).expect("table");
+    let table = engine::prepare(&survey, &criteria, &[], None).expect("table");
     let full = siting::rank(&table, &criteria).expect("full ranking");
     let fresh = || engine::rank(&table, &criteria, 1).expect("ranking");
     let n = full.order.len();

@@ -207,23 +207,12 @@ fn spread_shortlist(
     count: usize,
     km: f64,
 ) -> Vec<usize> {
-    let points: Vec<(f64, f64)> = survey
-        .candidates
-        .iter()
-        .map(|c| (c.crater.centre_lon_deg, c.crater.centre_lat_deg))
-        .collect();
     let passing = ranking
         .order
         .iter()
         .map(|&i| i as usize)
         .filter(|&i| table.passed(i));
-    siting::neighbourhood::spread_shortlist(
-        &points,
-        passing,
-        count,
-        km,
-        siting::ranking::body_radius_m(survey),
-    )
+    siting::neighbourhood::spread_by_rank(survey, passing, count, km)
 }
 
 /// A structure for the terminal, or "no structure".
