@@ -63,6 +63,13 @@ pub fn key_row(ui: &mut egui::Ui, entries: &[KeyEntry<'_>]) {
 }
 
 /// Grid marks every 15 degrees of azimuth, stronger every 45 and 90.
+/// The level line (0 degrees of elevation) of a skyline or sky plot, dashed grey.
+pub fn level_line() -> egui_plot::HLine {
+    egui_plot::HLine::new("", 0.0)
+        .color(Color32::from_gray(150))
+        .style(egui_plot::LineStyle::dashed_loose())
+}
+
 /// Elevation marks every 10 degrees with the 30-degree ones stronger, so a skyline plot of
 /// -90..+30 degrees labels -90, -60, -30, 0 and 30 rather than the level line alone.
 pub fn elevation_grid(input: GridInput) -> Vec<GridMark> {

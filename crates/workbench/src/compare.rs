@@ -8,8 +8,8 @@ use crate::fit_plan::{backdrop, plan, plan_half_width_m};
 use crate::profiles::{radial_profiles, RadialProfiles};
 use crate::session::{candidate_label, Session};
 use crate::sky_view::{SkyFigures, SkyView};
-use egui::{Color32, RichText};
-use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoints, VLine};
+use egui::RichText;
+use egui_plot::{Line, LineStyle, Plot, PlotPoints, VLine};
 use std::collections::HashMap;
 use std::sync::Arc;
 use terrain::{Dem, LocalFrame};
@@ -300,11 +300,7 @@ impl CompareView {
             .x_axis_formatter(crate::charts::azimuth_tick)
             .allow_scroll(false)
             .show(ui, |plot| {
-                plot.hline(
-                    HLine::new("", 0.0)
-                        .color(Color32::from_gray(150))
-                        .style(LineStyle::dashed_loose()),
-                );
+                plot.hline(crate::charts::level_line());
                 for &(k, f) in &figures {
                     let colour = COMPARE_COLOURS[k % 4];
                     crate::sky_view::draw_zone(plot, f, colour.gamma_multiply(0.25), colour);

@@ -541,11 +541,7 @@ fn sky_plot(ui: &mut egui::Ui, p: &OperationsPictures) {
         .y_axis_label("above the skyline [°]")
         .allow_scroll(false)
         .show(ui, |plot| {
-            plot.hline(
-                HLine::new("", 0.0)
-                    .color(Color32::from_gray(150))
-                    .style(LineStyle::dashed_loose()),
-            );
+            plot.hline(crate::charts::level_line());
             plot.hline(
                 HLine::new("", p.relay_margin_deg)
                     .color(RELAY.gamma_multiply(0.6))

@@ -215,17 +215,30 @@ fn a_polygon_drawn_on_the_map_is_saved_as_geojson_and_added() {
     h.get_by_label("Draw area").click();
     h.run_steps(2);
     let selected = h.state().session.selected;
-    for d in [egui::vec2(-80.0, 60.0), egui::vec2(80.0, 60.0), egui::vec2(0.0, -80.0)] {
+    for d in [
+        egui::vec2(-80.0, 60.0),
+        egui::vec2(80.0, 60.0),
+        egui::vec2(0.0, -80.0),
+    ] {
         click_at(&mut h, centre + d);
     }
     assert_eq!(h.state().map.drawing.vertices.len(), 3);
-    assert_eq!(h.state().session.selected, selected, "a click while drawing selected");
+    assert_eq!(
+        h.state().session.selected,
+        selected,
+        "a click while drawing selected"
+    );
     h.key_press(egui::Key::Enter);
     h.run_steps(3);
     assert!(!h.state().map.drawing.on);
     h.get_by_label("Save the drawn area (GeoJSON)");
     // What the save writes, read back by OGR through siting, as an area of the criteria.
-    let ring = h.state_mut().map.drawing.take_ring().expect("a closed polygon");
+    let ring = h
+        .state_mut()
+        .map
+        .drawing
+        .take_ring()
+        .expect("a closed polygon");
     let dir = tempfile::tempdir().expect("temp dir");
     let file = dir.path().join("drawn.geojson");
     quietbowl_workbench::map_draw::write_area(&file, &ring).expect("written");
@@ -238,6 +251,9 @@ fn a_polygon_drawn_on_the_map_is_saved_as_geojson_and_added() {
     let read = &areas[0].features[0].polygons[0][0];
     assert_eq!(read.len(), 4, "three vertices and the closing one");
     for (a, b) in ring.iter().zip(read) {
-        assert!((a.0 - b.0).abs() < 1e-9 && (a.1 - b.1).abs() < 1e-9, "{a:?} read as {b:?}");
+        assert!(
+            (a.0 - b.0).abs() < 1e-9 && (a.1 - b.1).abs() < 1e-9,
+            "{a:?} read as {b:?}"
+        );
     }
 }

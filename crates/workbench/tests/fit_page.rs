@@ -6,21 +6,10 @@ mod common;
 use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
 use quietbowl_workbench::crater_sheet::SheetTab;
-use quietbowl_workbench::session::candidate_label;
-use quietbowl_workbench::{Session, WorkbenchApp};
+use quietbowl_workbench::WorkbenchApp;
 
 fn harness_on(id: u32, survey: survey::SurveyFile) -> Harness<'static, WorkbenchApp> {
-    let mut app = WorkbenchApp::new(Session::with_survey_and_criteria(
-        survey,
-        common::test_criteria(),
-    ));
-    app.sheet.tab = SheetTab::Fit;
-    let mut h = Harness::builder()
-        .with_size(egui::vec2(1600.0, 1000.0))
-        .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
-    h.get_by_label(&candidate_label(id)).click();
-    h.run_steps(8);
-    h
+    common::harness_on_page(SheetTab::Fit, id, survey)
 }
 
 #[test]

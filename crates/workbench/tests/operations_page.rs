@@ -8,8 +8,7 @@ mod common;
 use egui_kittest::kittest::Queryable;
 use egui_kittest::Harness;
 use quietbowl_workbench::crater_sheet::SheetTab;
-use quietbowl_workbench::session::candidate_label;
-use quietbowl_workbench::{Session, WorkbenchApp};
+use quietbowl_workbench::WorkbenchApp;
 use survey::SurveyFile;
 
 /// The survey with fits, candidate 1 given invented operations figures and the survey the
@@ -48,17 +47,7 @@ fn survey_with_operations() -> SurveyFile {
 }
 
 fn harness_on(id: u32) -> Harness<'static, WorkbenchApp> {
-    let mut app = WorkbenchApp::new(Session::with_survey_and_criteria(
-        survey_with_operations(),
-        common::test_criteria(),
-    ));
-    app.sheet.tab = SheetTab::Operations;
-    let mut h = Harness::builder()
-        .with_size(egui::vec2(1600.0, 1000.0))
-        .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
-    h.get_by_label(&candidate_label(id)).click();
-    h.run_steps(8);
-    h
+    common::harness_on_page(SheetTab::Operations, id, survey_with_operations())
 }
 
 #[test]

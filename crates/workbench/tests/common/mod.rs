@@ -280,3 +280,23 @@ pub fn until_job_ends(h: &mut egui_kittest::Harness<'static, quietbowl_workbench
         h.step();
     }
 }
+
+/// A 1600 x 1000 window on `survey` with the test criteria, the crater sheet on `tab`, and the
+/// candidate `id` selected by clicking its name in the list.
+pub fn harness_on_page(
+    tab: quietbowl_workbench::crater_sheet::SheetTab,
+    id: u32,
+    survey: SurveyFile,
+) -> egui_kittest::Harness<'static, quietbowl_workbench::WorkbenchApp> {
+    use egui_kittest::kittest::Queryable;
+    use quietbowl_workbench::{Session, WorkbenchApp};
+    let mut app = WorkbenchApp::new(Session::with_survey_and_criteria(survey, test_criteria()));
+    app.sheet.tab = tab;
+    let mut h = egui_kittest::Harness::builder()
+        .with_size(egui::vec2(1600.0, 1000.0))
+        .build_ui_state(|ui, app: &mut WorkbenchApp| app.ui(ui), app);
+    h.get_by_label(&quietbowl_workbench::session::candidate_label(id))
+        .click();
+    h.run_steps(8);
+    h
+}
