@@ -104,6 +104,25 @@ pub struct Operations {
     pub tracks: SkyTracks,
 }
 
+/// The relay's orbit the inputs name: their CSV (a relative path taken from `base`) or the
+/// default circle.
+pub fn relay_orbit(
+    inputs: &OperationsInputs,
+    base: Option<&Path>,
+) -> Result<relay::RelayOrbit, OperationsError> {
+    Ok(match &inputs.relay_orbit_csv {
+        Some(p) => {
+            let path = Path::new(p);
+            let path = match base {
+                Some(b) if path.is_relative() => b.join(path),
+                _ => path.to_path_buf(),
+            };
+            relay::RelayOrbit::from_csv(&path, inputs.relay_period_days)?
+        }
+        None => relay::RelayOrbit::circle(inputs.relay_orbit_radius_km, inputs.relay_period_days),
+    })
+}
+
 impl Operations {
     /// Check the inputs, read the relay orbit (a relative CSV path is taken from `base`) and
     /// sample the relay and the Sun over the series.
@@ -112,22 +131,9 @@ impl Operations {
         base: Option<&Path>,
     ) -> Result<Operations, OperationsError> {
         inputs.validate().map_err(OperationsError::Inputs)?;
-        let orbit = match &inputs.relay_orbit_csv {
-            Some(p) => {
-                let path = Path::new(p);
-                let path = match base {
-                    Some(b) if path.is_relative() => b.join(path),
-                    _ => path.to_path_buf(),
-                };
-                relay::RelayOrbit::from_csv(&path, inputs.relay_period_days)?
-            }
-            None => {
-                relay::RelayOrbit::circle(inputs.relay_orbit_radius_km, inputs.relay_period_days)
-            }
-        };
         Ok(Operations {
             inputs: inputs.clone(),
-            tracks: SkyTracks::compute(&orbit),
+            tracks: SkyTracks::compute(&relay_orbit(inputs, base)?),
         })
     }
 

@@ -55,6 +55,68 @@ fn position_m(p: &Point, radius_m: f64) -> Vec3 {
     unit(p.lon_deg, p.lat_deg).map(|c| c * (radius_m + p.height_m))
 }
 
+/// The straight line of a shot from `from` to `to` on a sphere of radius `radius_m`.
+pub struct ShotLine {
+    a: Vec3,
+    v: Vec3,
+    radius_m: f64,
+    /// Great-circle ground distance from `from` to `to`, m.
+    pub ground_m: f64,
+    /// Straight-line length, m.
+    pub range_m: f64,
+    /// Above `from`'s local horizontal, degrees.
+    pub elevation_deg: f64,
+}
+
+/// A point of a shot line: where it stands over the ground and how high above the sphere.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct LinePoint {
+    pub lon_deg: f64,
+    pub lat_deg: f64,
+    pub height_m: f64,
+    /// Ground distance from the launcher, m (the fraction of the line times its ground
+    /// distance).
+    pub ground_from_start_m: f64,
+}
+
+impl ShotLine {
+    pub fn new(radius_m: f64, from: &Point, to: &Point) -> ShotLine {
+        let (a, b) = (position_m(from, radius_m), position_m(to, radius_m));
+        let v = [b[0] - a[0], b[1] - a[1], b[2] - a[2]];
+        let range_m = dot(&v, &v).sqrt();
+        let up = unit(from.lon_deg, from.lat_deg);
+        let elevation_deg = (dot(&v, &up) / range_m)
+            .clamp(-1.0, 1.0)
+            .asin()
+            .to_degrees();
+        let ground_m = terrain::geodesy::distance_m(
+            radius_m,
+            (from.lon_deg, from.lat_deg),
+            (to.lon_deg, to.lat_deg),
+        );
+        ShotLine {
+            a,
+            v,
+            radius_m,
+            ground_m,
+            range_m,
+            elevation_deg,
+        }
+    }
+
+    /// The point a fraction `f` (0 at `from`, 1 at `to`) along the line.
+    pub fn at(&self, f: f64) -> LinePoint {
+        let q = [0, 1, 2].map(|k| self.a[k] + f * self.v[k]);
+        let (lon_deg, lat_deg) = lonlat(&q);
+        LinePoint {
+            lon_deg,
+            lat_deg,
+            height_m: dot(&q, &q).sqrt() - self.radius_m,
+            ground_from_start_m: f * self.ground_m,
+        }
+    }
+}
+
 /// One straight shot from `from` to `to` over `grid`, sampled every half post.
 pub fn shot(
     grid: &ElevationGrid,
@@ -63,17 +125,8 @@ pub fn shot(
     limits: &ShotLimits,
     post_m: f64,
 ) -> Shot {
-    let r = grid.geometry.body_radius_m;
-    let (a, b) = (position_m(from, r), position_m(to, r));
-    let v = [b[0] - a[0], b[1] - a[1], b[2] - a[2]];
-    let range_m = dot(&v, &v).sqrt();
-    let up = unit(from.lon_deg, from.lat_deg);
-    let elevation_deg = (dot(&v, &up) / range_m)
-        .clamp(-1.0, 1.0)
-        .asin()
-        .to_degrees();
-    let ground_m =
-        terrain::geodesy::distance_m(r, (from.lon_deg, from.lat_deg), (to.lon_deg, to.lat_deg));
+    let line = ShotLine::new(grid.geometry.body_radius_m, from, to);
+    let ground_m = line.ground_m;
     let steps = (ground_m / (0.5 * post_m)).ceil().max(1.0) as usize;
     let mut lowest: Option<(f64, f64)> = None;
     let mut known = true;
@@ -82,24 +135,23 @@ pub fn shot(
         if (1.0 - f) * ground_m < limits.end_exclusion_m {
             break;
         }
-        let q = [a[0] + f * v[0], a[1] + f * v[1], a[2] + f * v[2]];
-        let (lon, lat) = lonlat(&q);
-        let Some(g) = grid.sample_lonlat(lon, lat) else {
+        let q = line.at(f);
+        let Some(g) = grid.sample_lonlat(q.lon_deg, q.lat_deg) else {
             known = false;
             continue;
         };
-        let c = dot(&q, &q).sqrt() - r - g;
+        let c = q.height_m - g;
         if lowest.is_none_or(|(lc, _)| c < lc) {
-            lowest = Some((c, f * ground_m));
+            lowest = Some((c, q.ground_from_start_m));
         }
     }
     let clearance_m = lowest.filter(|_| known).map(|(c, _)| c);
     Shot {
-        range_m,
-        elevation_deg,
+        range_m: line.range_m,
+        elevation_deg: line.elevation_deg,
         clearance_m,
         clearance_at_m: lowest.map(|(_, d)| d),
-        reachable: range_m <= limits.range_m
+        reachable: line.range_m <= limits.range_m
             && clearance_m.is_some_and(|c| c >= limits.min_clearance_m),
     }
 }

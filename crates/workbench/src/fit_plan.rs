@@ -55,21 +55,44 @@ pub fn plan_half_width_m(f: &StructureFit, frame: &LocalFrame) -> f64 {
     (far * PLAN_MARGIN).max(1.0)
 }
 
+/// The DEM window holding a square of half-side `half_m` round the frame's centre (at most
+/// `max_px` a side), and the DEM's post there (the smaller side), m.
+pub fn window_round(
+    dem: &Dem,
+    frame: &LocalFrame,
+    half_m: f64,
+    max_px: usize,
+) -> Result<(terrain::ElevationGrid, f64), String> {
+    let geom = dem.geometry();
+    let (col, row) = geom
+        .lonlat_to_pixel(frame.centre_lon_deg, frame.centre_lat_deg)
+        .ok_or("the crater lies off the DEM")?;
+    let (dx, dy) = geom
+        .pixel_size_m_at(col, row)
+        .ok_or("the DEM's pixel size is unknown here")?;
+    let post_m = dx.min(dy);
+    // The square's corners are sqrt(2) half-widths out; a little more covers projection skew.
+    let half_px = (half_m * 1.6 / post_m).ceil() as usize + 2;
+    if 2 * half_px > max_px {
+        return Err(format!(
+            "the surroundings span more than {max_px} px of the DEM; not drawn"
+        ));
+    }
+    let grid = dem
+        .read_window(
+            col.floor() as isize - half_px as isize,
+            row.floor() as isize - half_px as isize,
+            2 * half_px,
+            2 * half_px,
+        )
+        .map_err(|e| e.to_string())?;
+    Ok((grid, post_m))
+}
+
 /// Grey hillshade of the DEM resampled onto the plan square (nearest pixel).
 pub fn backdrop(dem: &Dem, frame: &LocalFrame, half_m: f64) -> Option<egui::ColorImage> {
     let geom = dem.geometry();
-    let (col, row) = geom.lonlat_to_pixel(frame.centre_lon_deg, frame.centre_lat_deg)?;
-    let (dx, dy) = geom.pixel_size_m_at(col, row)?;
-    // The square's corners are sqrt(2) half-widths out; a little more covers projection skew.
-    let half_px = (half_m * 1.6 / dx.min(dy)).ceil() as usize + 2;
-    if 2 * half_px > BACKDROP_WINDOW_MAX_PX {
-        return None;
-    }
-    let (c0, r0) = (
-        col.floor() as isize - half_px as isize,
-        row.floor() as isize - half_px as isize,
-    );
-    let grid = dem.read_window(c0, r0, 2 * half_px, 2 * half_px).ok()?;
+    let (grid, _) = window_round(dem, frame, half_m, BACKDROP_WINDOW_MAX_PX).ok()?;
     let shade = terrain::derivatives::hillshade(&grid, LAMP_AZIMUTH_DEG, LAMP_ALTITUDE_DEG, 1.0);
     let n = BACKDROP_PX;
     let pixels = (0..n * n)

@@ -6,17 +6,18 @@
 //! thread, once per selected crater.
 
 use crate::charts::{key_row, KeyEntry, KeyMark};
+use crate::fit_plan::window_round;
 use egui::{Color32, RichText, Stroke};
 use egui_plot::{HLine, Line, LineStyle, Plot, PlotPoints};
 use operations::landing::{safe_mask, LandingLimits};
-use operations::sky::{Site, Track};
-use operations::{Operations, OperationsInputs, SKYLINE_REACH_MAX_M, SKYLINE_REACH_MIN_M};
+use operations::shots::{Point, ShotLine};
+use operations::sky::{Site, SkyTracks, Track, SERIES_START_JD_TT, SERIES_STEP_DAYS};
+use operations::{OperationsInputs, SKYLINE_REACH_MAX_M, SKYLINE_REACH_MIN_M};
 use std::sync::mpsc::{channel, Receiver};
 use std::sync::Arc;
 use structure::patch::Patch;
 use survey::Candidate;
-use terrain::{Dem, ElevationGrid, LocalFrame};
-use visibility::frames::{dot, unit};
+use terrain::{Dem, LocalFrame};
 
 /// Days of the relay and Sun series drawn (two lunations).
 const DAYS_SHOWN: f64 = 60.0;
@@ -203,11 +204,6 @@ fn figures_grid(ui: &mut egui::Ui, c: &Candidate) {
         });
 }
 
-/// A point's body-frame position in metres, `height_m` above a sphere of `radius_m`.
-fn position_m(lon: f64, lat: f64, height_m: f64, radius_m: f64) -> [f64; 3] {
-    unit(lon, lat).map(|c| c * (radius_m + height_m))
-}
-
 /// Read the DEM round the crater and draw every picture of the page.
 fn compute(
     dem: &Dem,
@@ -235,7 +231,7 @@ fn compute(
     let half_m = far * 1.15 + inputs.landing_dispersion_3sigma_m;
     let reach_m = (inputs.skyline_reach_diameters * m.diameter_m)
         .clamp(SKYLINE_REACH_MIN_M, SKYLINE_REACH_MAX_M);
-    let (grid, post_m) = read_round(dem, &frame, half_m + reach_m)?;
+    let (grid, post_m) = window_round(dem, &frame, half_m + reach_m, WINDOW_MAX_PX)?;
     let patch = Patch::build(
         &grid,
         m.centre_lon_deg,
@@ -249,25 +245,27 @@ fn compute(
     let lander_h = ground(report.lander_lon_deg, report.lander_lat_deg)
         .ok_or("no ground under the lander")?
         + inputs.mast_height_m;
-    let from = position_m(
-        report.lander_lon_deg,
-        report.lander_lat_deg,
-        lander_h,
-        radius_m,
-    );
+    let from = Point {
+        lon_deg: report.lander_lon_deg,
+        lat_deg: report.lander_lat_deg,
+        height_m: lander_h,
+    };
     let shots = fit
         .anchors
         .iter()
         .map(|a| {
-            shot_profile(
-                &from,
-                &position_m(a.lon_deg, a.lat_deg, a.height_m, radius_m),
-                radius_m,
-                &ground,
-            )
+            let to = Point {
+                lon_deg: a.lon_deg,
+                lat_deg: a.lat_deg,
+                height_m: a.height_m,
+            };
+            shot_profile(&ShotLine::new(radius_m, &from, &to), &ground)
         })
         .collect();
-    let ops = Operations::new(inputs, None).map_err(|e| e.to_string())?;
+    // Only the days drawn: the series' start at its own step, not the whole nodal cycle.
+    let span = DAYS_SHOWN + SERIES_STEP_DAYS;
+    let orbit = operations::relay_orbit(inputs, None).map_err(|e| e.to_string())?;
+    let tracks = SkyTracks::compute_over(&orbit, SERIES_START_JD_TT, span, SERIES_STEP_DAYS, span);
     let skyline = operations::skyline::sweep(
         &patch,
         patch
@@ -313,38 +311,10 @@ fn compute(
             .map(|l| local(l.aim_lon_deg, l.aim_lat_deg)),
         anchors,
         shots,
-        relay: above(&ops.tracks.relay),
-        sun: above(&ops.tracks.sun),
+        relay: above(&tracks.relay),
+        sun: above(&tracks.sun),
         relay_margin_deg: inputs.relay_margin_deg,
     })
-}
-
-/// The DEM window holding a square of half-side `half_m` round the frame's centre, and the
-/// DEM's post there (the smaller side), m.
-fn read_round(dem: &Dem, frame: &LocalFrame, half_m: f64) -> Result<(ElevationGrid, f64), String> {
-    let geom = dem.geometry();
-    let (col, row) = geom
-        .lonlat_to_pixel(frame.centre_lon_deg, frame.centre_lat_deg)
-        .ok_or("the crater lies off the DEM")?;
-    let (dx, dy) = geom
-        .pixel_size_m_at(col, row)
-        .ok_or("the DEM's pixel size is unknown here")?;
-    let post_m = dx.min(dy);
-    let half_px = (half_m * 1.5 / post_m).ceil() as usize + 2;
-    if 2 * half_px > WINDOW_MAX_PX {
-        return Err(format!(
-            "the crater's surroundings span more than {WINDOW_MAX_PX} px; pictures not drawn"
-        ));
-    }
-    let grid = dem
-        .read_window(
-            col.floor() as isize - half_px as isize,
-            row.floor() as isize - half_px as isize,
-            2 * half_px,
-            2 * half_px,
-        )
-        .map_err(|e| e.to_string())?;
-    Ok((grid, post_m))
 }
 
 /// Safe ground green, hazards red, no data black, shaded by a lamp in the north-west so the
@@ -392,31 +362,19 @@ fn hazard_image(patch: &Patch, inputs: &OperationsInputs, half_m: f64) -> egui::
     }
 }
 
-/// The straight shot from `a` to `b` (body-frame metres): its height and the ground's height
-/// above the sphere against ground distance from `a`.
-fn shot_profile(
-    a: &[f64; 3],
-    b: &[f64; 3],
-    radius_m: f64,
-    ground: &dyn Fn(f64, f64) -> Option<f64>,
-) -> ShotProfile {
-    let ra = dot(a, a).sqrt();
+/// The shot from the launcher to an anchor: the line's height and the ground's height above
+/// the sphere against ground distance from the launcher (`operations::shots::ShotLine`, the
+/// line the survey's shot figures sample).
+fn shot_profile(line: &ShotLine, ground: &dyn Fn(f64, f64) -> Option<f64>) -> ShotProfile {
     let mut out = ShotProfile {
         ground: Vec::with_capacity(SHOT_SAMPLES + 1),
         line: Vec::with_capacity(SHOT_SAMPLES + 1),
     };
     for k in 0..=SHOT_SAMPLES {
-        let t = k as f64 / SHOT_SAMPLES as f64;
-        let p = [0, 1, 2].map(|i| a[i] + t * (b[i] - a[i]));
-        let r = dot(&p, &p).sqrt();
-        let s = radius_m * (dot(a, &p) / (ra * r)).clamp(-1.0, 1.0).acos();
-        let (lon, lat) = (
-            p[1].atan2(p[0]).to_degrees(),
-            (p[2] / r).asin().to_degrees(),
-        );
-        out.line.push([s, r - radius_m]);
-        if let Some(g) = ground(lon, lat) {
-            out.ground.push([s, g]);
+        let q = line.at(k as f64 / SHOT_SAMPLES as f64);
+        out.line.push([q.ground_from_start_m, q.height_m]);
+        if let Some(g) = ground(q.lon_deg, q.lat_deg) {
+            out.ground.push([q.ground_from_start_m, g]);
         }
     }
     out
