@@ -24,6 +24,15 @@ pub enum CraterError {
         diameter_m: f64,
         reason: String,
     },
+    /// Measured, but the bowl is shallower than the survey's depth gate: the rim was traced, so
+    /// another size guess at the same place finds the same shallow bowl.
+    #[error("crater at lon {lon_deg:.4}, lat {lat_deg:.4} (D about {diameter_m:.0} m) is not reported: {reason}")]
+    BelowDepthGate {
+        lon_deg: f64,
+        lat_deg: f64,
+        diameter_m: f64,
+        reason: String,
+    },
     #[error("cannot read catalogue {path}: {reason}")]
     Catalogue { path: PathBuf, reason: String },
     #[error("catalogue {path}, line {line}: {reason} (pass lenient mode to skip bad rows)")]

@@ -283,6 +283,12 @@ fn measure_in(
     gates: Option<&DetectOptions>,
 ) -> Result<CraterMeasurement, CraterError> {
     let nm = |reason: &str| not_measurable(lon_deg, lat_deg, diameter_guess_m, reason);
+    let shallow = |reason: &str| CraterError::BelowDepthGate {
+        lon_deg,
+        lat_deg,
+        diameter_m: diameter_guess_m,
+        reason: reason.into(),
+    };
     if opts.azimuths < 16
         || !(diameter_guess_m > 0.0)
         || !lon_deg.is_finite()
@@ -320,7 +326,7 @@ fn measure_in(
                 .filter(|z| z.is_finite())
                 .fold(f64::INFINITY, f64::min);
             if (stats::median(&mut zs) - low) / (2.0 * r) < 0.35 * min_depth_to_diameter {
-                return Err(nm("far too shallow for a crater"));
+                return Err(shallow("far too shallow for a crater"));
             }
         }
         // A rim fitted far outside the survey's range after the first rounds does not come
@@ -467,14 +473,14 @@ fn measure_in(
         Err(floor::FloorFail::TooFewPixels) => {
             return Err(nm("the floor has too few valid pixels"))
         }
-        Err(floor::FloorFail::TooHigh) => return Err(nm("shallower than the depth gate")),
+        Err(floor::FloorFail::TooHigh) => return Err(shallow("shallower than the depth gate")),
     };
     let depth = rim_det_median - fl.floor_level_m;
     if !(depth > 0.0) {
         return Err(nm("the rim does not stand above the floor"));
     }
     if depth / (2.0 * r) < least {
-        return Err(nm("shallower than the depth gate"));
+        return Err(shallow("shallower than the depth gate"));
     }
 
     let ell = ellipse_fit::fit(&rim_pts);

@@ -9,6 +9,7 @@
 //! breached sector rises monotonically from floor to plain and yields no crest there.
 
 use crate::sampler::LocalSampler;
+use wide::f32x4;
 
 /// Heights along `n_az` rays from (cx, cy), azimuths clockwise from north starting at 0,
 /// radii `k * dr` for k in 0..n_r. NaN where there is no data.
@@ -561,18 +562,17 @@ fn bilinear(heights: &[f32], w: usize, h: usize, c: f64, r: f64) -> f64 {
 }
 
 /// Keys (1981, IEEE Trans. ASSP 29:1153, from memory) cubic convolution weights, a = -1/2,
-/// of the four posts at offsets -1, 0, 1, 2 from a position a fraction `t` past post 0.
+/// of the four posts at offsets -1, 0, 1, 2 from a position a fraction `t` past post 0: the
+/// kernel 1.5|x|^3 - 2.5|x|^2 + 1 within one post, -0.5|x|^3 + 2.5|x|^2 - 4|x| + 2 within two,
+/// written out for |x| = 1 + t, t, 1 - t, 2 - t as one cubic in t per lane (Horner form).
 #[inline(always)]
-fn keys_weights(t: f64) -> [f64; 4] {
-    // Kernel 1.5|x|^3 - 2.5|x|^2 + 1 within one post, -0.5|x|^3 + 2.5|x|^2 - 4|x| + 2 within
-    // two, written out for |x| = 1 + t, t, 1 - t, 2 - t.
-    let (t2, t3) = (t * t, t * t * t);
-    [
-        -0.5 * t3 + t2 - 0.5 * t,
-        1.5 * t3 - 2.5 * t2 + 1.0,
-        -1.5 * t3 + 2.0 * t2 + 0.5 * t,
-        0.5 * t3 - 0.5 * t2,
-    ]
+fn keys_weights(t: f32) -> f32x4 {
+    const A: f32x4 = f32x4::new([-0.5, 1.5, -1.5, 0.5]);
+    const B: f32x4 = f32x4::new([1.0, -2.5, 2.0, -0.5]);
+    const C: f32x4 = f32x4::new([-0.5, 0.0, 0.5, 0.0]);
+    const D: f32x4 = f32x4::new([0.0, 1.0, 0.0, 0.0]);
+    let t = f32x4::splat(t);
+    ((A * t + B) * t + C) * t + D
 }
 
 /// Height at a window position (pixel-centre convention) by cubic convolution over the 4 x 4
@@ -583,23 +583,32 @@ fn keys_weights(t: f64) -> [f64; 4] {
 /// reproduces quadratics, and a rounded rim's top stays where the ground has it (demo patch,
 /// lightly diffused rims under 16 px read from their tops: 3.4% of D outside the planted crest
 /// bilinearly, 1.8% by cubic convolution; ours).
+///
+/// Computed in four `f32` lanes, one row of posts per vector, on heights taken relative to
+/// the post at (c0, r0): the weights sum to one, so the offset comes back whole, and the
+/// rounding is that of `f32` on the local relief (under 0.1 mm for relief of hundreds of
+/// metres), not on the absolute height.
 #[inline(always)]
 fn cubic_convolution(heights: &[f32], w: usize, h: usize, c: f64, r: f64) -> f64 {
     if !(c >= 1.0 && r >= 1.0 && c < (w - 2) as f64 && r < (h - 2) as f64) {
         return bilinear(heights, w, h, c, r);
     }
     let (c0, r0) = (c as u32 as usize, r as u32 as usize);
-    let (wc, wr) = (keys_weights(c - c0 as f64), keys_weights(r - r0 as f64));
-    let mut sum = 0.0;
-    for (j, wj) in wr.iter().enumerate() {
-        let start = (r0 + j - 1) * w + c0 - 1;
-        let q = &heights[start..start + 4];
-        sum += wj
-            * (wc[0] * q[0] as f64
-                + wc[1] * q[1] as f64
-                + wc[2] * q[2] as f64
-                + wc[3] * q[3] as f64);
-    }
+    let (wc, wr) = (
+        keys_weights((c - c0 as f64) as f32),
+        keys_weights((r - r0 as f64) as f32).to_array(),
+    );
+    let base = heights[r0 * w + c0];
+    let origin = f32x4::splat(base);
+    let start = (r0 - 1) * w + c0 - 1;
+    // One bounds check for the whole 4 x 4 block.
+    let block = &heights[start..start + 3 * w + 4];
+    let row = |j: usize| {
+        let q = &block[j * w..j * w + 4];
+        f32x4::new([q[0], q[1], q[2], q[3]]) - origin
+    };
+    let rows = row(0) * wr[0] + row(1) * wr[1] + row(2) * wr[2] + row(3) * wr[3];
+    let sum = base as f64 + (rows * wc).reduce_add() as f64;
     if sum.is_finite() {
         sum
     } else {
