@@ -190,20 +190,30 @@ impl ElevationGrid {
         if !(col >= 0.0 && row >= 0.0) {
             return None;
         }
-        let (c0, r0) = (col.floor() as usize, row.floor() as usize);
+        // Both are at least 0 here, where truncation is the floor: `as` saves the libm call
+        // (x86-64's baseline has no rounding instruction) and saturates as floor's cast would.
+        let (c0, r0) = (col as usize, row as usize);
         let (fc, fr) = (col - c0 as f64, row - r0 as f64);
         let c1 = if fc > 0.0 { c0 + 1 } else { c0 };
         let r1 = if fr > 0.0 { r0 + 1 } else { r0 };
-        let h00 = self.get(c0, r0)? as f64;
-        let h10 = self.get(c1, r0)? as f64;
-        let h01 = self.get(c0, r1)? as f64;
-        let h11 = self.get(c1, r1)? as f64;
-        Some(
-            h00 * (1.0 - fc) * (1.0 - fr)
-                + h10 * fc * (1.0 - fr)
-                + h01 * (1.0 - fc) * fr
-                + h11 * fc * fr,
-        )
+        if c1 >= self.width || r1 >= self.height {
+            return None;
+        }
+        let h = &self.heights_m;
+        let (a, b) = (r0 * self.width, r1 * self.width);
+        let (h00, h10, h01, h11) = (
+            h[a + c0] as f64,
+            h[a + c1] as f64,
+            h[b + c0] as f64,
+            h[b + c1] as f64,
+        );
+        // A NaN (nodata) neighbour makes the sum NaN whatever its weight, and a sum that is
+        // not a number is no height: one test for all four.
+        let v = h00 * (1.0 - fc) * (1.0 - fr)
+            + h10 * fc * (1.0 - fr)
+            + h01 * (1.0 - fc) * fr
+            + h11 * fc * fr;
+        (!v.is_nan()).then_some(v)
     }
 
     /// Bilinear height at a lon/lat, or `None` outside the window or on nodata.
