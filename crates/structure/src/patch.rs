@@ -52,7 +52,6 @@ impl Patch {
             let (c, r) = geom.lonlat_to_pixel(lon, lat)?;
             Some((c - 0.5, r - 0.5))
         };
-        let (col0, row0) = (grid.col0 as f64, grid.row0 as f64);
         let m = control_nodes(2.0 * half_m, geom.body_radius_m);
         let step = 2.0 * half_m / (m - 1) as f64;
         let mut nodes = Vec::with_capacity(m * m);
@@ -65,22 +64,7 @@ impl Patch {
                 nodes.push(p);
             }
         }
-        let mut heights_m = Vec::with_capacity(n * n);
-        for j in 0..n {
-            let v = (j as f64 * cell_m) / step;
-            let (jj, t) = split(v, m);
-            for i in 0..n {
-                let u = (i as f64 * cell_m) / step;
-                let (ii, s) = split(u, m);
-                let k = jj * m + ii;
-                let w = [(1.0 - s) * (1.0 - t), s * (1.0 - t), (1.0 - s) * t, s * t];
-                let (p00, p10, p01, p11) = (nodes[k], nodes[k + 1], nodes[k + m], nodes[k + m + 1]);
-                let c = w[0] * p00.0 + w[1] * p10.0 + w[2] * p01.0 + w[3] * p11.0;
-                let r = w[0] * p00.1 + w[1] * p10.1 + w[2] * p01.1 + w[3] * p11.1;
-                // Window pixel-centre convention, as ElevationGrid::sample expects.
-                heights_m.push(grid.sample(c - col0, r - row0).unwrap_or(f64::NAN));
-            }
-        }
+        let heights_m = sample_lattice(grid, &nodes, m, n, cell_m / step);
         Some(Patch {
             frame,
             cell_m,
@@ -116,6 +100,40 @@ impl Patch {
             + h[k + self.n] * (1.0 - s) * t
             + h[k + self.n + 1] * s * t
     }
+}
+
+/// Heights of the `n` x `n` lattice whose node (i, j) lies at control-net coordinates
+/// (i, j) * `per_step` on the `m` x `m` net `nodes` (whole-raster pixel positions): each row's
+/// two bounding rows of the net blended once, then each node's position between two blended
+/// control points, then the window's bilinear height there.
+fn sample_lattice(
+    grid: &ElevationGrid,
+    nodes: &[(f64, f64)],
+    m: usize,
+    n: usize,
+    per_step: f64,
+) -> Vec<f64> {
+    let (col0, row0) = (grid.col0 as f64, grid.row0 as f64);
+    let mut heights_m = Vec::with_capacity(n * n);
+    let mut blended = vec![(0.0, 0.0); m];
+    for j in 0..n {
+        let (jj, t) = split(j as f64 * per_step, m);
+        let (lower, upper) = (
+            &nodes[jj * m..(jj + 1) * m],
+            &nodes[(jj + 1) * m..(jj + 2) * m],
+        );
+        for ((b, p0), p1) in blended.iter_mut().zip(lower).zip(upper) {
+            *b = (p0.0 + t * (p1.0 - p0.0), p0.1 + t * (p1.1 - p0.1));
+        }
+        heights_m.extend((0..n).map(|i| {
+            let (ii, s) = split(i as f64 * per_step, m);
+            let (a, b) = (blended[ii], blended[ii + 1]);
+            let (c, r) = (a.0 + s * (b.0 - a.0), a.1 + s * (b.1 - a.1));
+            // Window pixel-centre convention, as ElevationGrid::sample expects.
+            grid.sample(c - col0, r - row0).unwrap_or(f64::NAN)
+        }));
+    }
+    heights_m
 }
 
 /// Control-net cell index and fraction for lattice coordinate `u` (in control steps).

@@ -23,7 +23,10 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let number = |i: usize, name: &str| -> Result<Option<f64>, String> {
         std::env::args()
             .nth(i)
-            .map(|v| v.parse::<f64>().map_err(|e| format!("{name} must be a number ({e})")))
+            .map(|v| {
+                v.parse::<f64>()
+                    .map_err(|e| format!("{name} must be a number ({e})"))
+            })
             .transpose()
     };
     if let Some(lat) = number(3, "LAT_DEG")? {
