@@ -341,9 +341,12 @@ impl<'a> LazyHorizon<'a> {
         }
     }
 
-    pub fn marched(&self) -> usize {
+    /// How many sectors have been read so far (each marched once, or set to the sphere's
+    /// horizon when not wanted).
+    pub fn sectors_read(&self) -> usize {
         self.memo.iter().filter(|m| m.is_some()).count()
     }
+
     /// Number of sectors.
     pub fn sectors(&self) -> usize {
         self.memo.len()
@@ -458,7 +461,7 @@ fn window_pixel(m: &March, azimuth: SinCos, j: usize) -> Option<Px> {
 
 /// The exact positions found so far along one edge azimuth, by span end (steps that are
 /// multiples of `EXACT_EVERY`, then the last step): two neighbouring sectors share an edge.
-pub(crate) type EdgeMemo = Vec<Option<Option<Px>>>;
+type EdgeMemo = Vec<Option<Option<Px>>>;
 
 /// Window pixel positions along one sector edge, step by step, from exact positions every
 /// `EXACT_EVERY` steps.
