@@ -8,9 +8,13 @@
 //! asin(rho/D) ~ 0.28 deg) and the upper limb is higher by asin(R_earth / |D - rho|). Near the
 //! horizon the limb sits at (90 - theta) + (R_earth - rho)/D, highest at the smallest D, so the
 //! envelope's perigee distance (the smallest over the cycle) gives the conservative margin.
+//!
+//! The worst disc is found by branch and bound (`worst_disc`): no skyline is below the
+//! sphere's horizon, which bounds every disc's clearance from below, so over a horizon marched
+//! on demand ([`earth_margin_lazy`]) only the discs that can still be the worst are read.
 
 use crate::constants::{EARTH_EQUATORIAL_RADIUS_KM, MOON_RADIUS_KM};
-use crate::horizon::Horizon;
+use crate::horizon::{Horizon, LazyHorizon};
 use crate::libration::LibrationEnvelope;
 use serde::Serialize;
 use terrain::geodesy::{azimuth_deg, central_angle_rad};
@@ -150,9 +154,46 @@ pub fn earth_margin(
     lat_deg: f64,
     horizon: &Horizon,
 ) -> EarthMargin {
-    let site = (lon_deg, lat_deg);
+    // No floor: every disc is read, in outline order (the reference the lazy form matches).
+    let floor_deg = f64::NEG_INFINITY;
+    margin_over(
+        env,
+        (lon_deg, lat_deg),
+        horizon.site_height_m,
+        floor_deg,
+        |from, to| horizon.lowest_between(from, to),
+    )
+}
+
+/// [`earth_margin`] over a horizon marched on demand: the same margin, field for field, with
+/// only the sectors of the discs that can still be the worst case marched.
+pub fn earth_margin_lazy(
+    env: &LibrationEnvelope,
+    lon_deg: f64,
+    lat_deg: f64,
+    horizon: &mut LazyHorizon,
+) -> EarthMargin {
+    let (height_m, floor_deg) = (horizon.site_height_m, horizon.sphere_horizon_deg);
+    margin_over(env, (lon_deg, lat_deg), height_m, floor_deg, |from, to| {
+        horizon.lowest_between(from, to)
+    })
+}
+
+/// The margin from the discs of every test point, with `sky(from, to)` the lowest skyline over
+/// an azimuth range, never below `floor_deg`.
+fn margin_over(
+    env: &LibrationEnvelope,
+    site: (f64, f64),
+    site_height_m: f64,
+    floor_deg: f64,
+    sky: impl FnMut(f64, f64) -> f64,
+) -> EarthMargin {
     let d_km = env.distance_min_km;
-    let (pts, inside) = test_points(env, lon_deg, lat_deg);
+    let (pts, inside) = test_points(env, site.0, site.1);
+    let discs: Vec<EarthDisc> = pts
+        .iter()
+        .map(|&p| EarthDisc::new(site, p, d_km, site_height_m))
+        .collect();
     let mut m = EarthMargin {
         clearance_deg: f64::INFINITY,
         clearance_sphere_deg: f64::INFINITY,
@@ -164,22 +205,63 @@ pub fn earth_margin(
         earth_distance_km: d_km,
         inside_envelope: inside,
     };
-    for &p in &pts {
-        let disc = EarthDisc::new(site, p, d_km, horizon.site_height_m);
+    for disc in &discs {
         let (_, limb_datum) = earth_elevation_deg(disc.theta_deg, d_km, 0.0);
-        let sky = horizon.lowest_between(disc.azimuth_from_deg, disc.azimuth_to_deg);
-        let c = sky - disc.limb_deg;
-        if c < m.clearance_deg {
-            m.clearance_deg = c;
-            m.worst_azimuth_deg = disc.centre_azimuth_deg;
-            m.worst_limb_elevation_deg = disc.limb_deg;
-            m.worst_horizon_deg = sky;
-        }
         m.clearance_sphere_deg = m.clearance_sphere_deg.min(-limb_datum);
         m.highest_limb_elevation_deg = m.highest_limb_elevation_deg.max(limb_datum);
         m.limb_margin_deg = m.limb_margin_deg.min(disc.theta_deg - 90.0);
     }
+    if let Some(w) = worst_disc(&discs, floor_deg, sky) {
+        let disc = &discs[w.index];
+        m.clearance_deg = w.clearance_deg;
+        m.worst_azimuth_deg = disc.centre_azimuth_deg;
+        m.worst_limb_elevation_deg = disc.limb_deg;
+        m.worst_horizon_deg = w.sky_deg;
+    }
     m
+}
+
+/// The disc with the least clearance (skyline - upper limb) and the skyline it met.
+struct Worst {
+    index: usize,
+    sky_deg: f64,
+    clearance_deg: f64,
+}
+
+/// Branch and bound: no skyline is below `floor_deg`, so a disc's clearance is at least
+/// `floor_deg - limb`. The discs are visited from the smallest such bound, and the search stops
+/// once the next bound exceeds the least clearance found: no disc left can match it. Ties go
+/// to the disc first in `discs` order, as in a plain scan with a strict `<`; `None` when no
+/// clearance is below +inf (none is a number). With a floor of -inf every disc is read.
+fn worst_disc(
+    discs: &[EarthDisc],
+    floor_deg: f64,
+    mut sky: impl FnMut(f64, f64) -> f64,
+) -> Option<Worst> {
+    let bound = |i: usize| floor_deg - discs[i].limb_deg;
+    let mut order: Vec<usize> = (0..discs.len()).collect();
+    order.sort_by(|&a, &b| bound(a).total_cmp(&bound(b)).then(a.cmp(&b)));
+    let mut best: Option<Worst> = None;
+    for i in order {
+        if best.as_ref().is_some_and(|w| bound(i) > w.clearance_deg) {
+            break;
+        }
+        let disc = &discs[i];
+        let sky_deg = sky(disc.azimuth_from_deg, disc.azimuth_to_deg);
+        let c = sky_deg - disc.limb_deg;
+        let better = match &best {
+            None => c < f64::INFINITY,
+            Some(w) => c < w.clearance_deg || (c == w.clearance_deg && i < w.index),
+        };
+        if better {
+            best = Some(Worst {
+                index: i,
+                sky_deg,
+                clearance_deg: c,
+            });
+        }
+    }
+    best
 }
 
 /// The envelope's outline seen from a site, as (azimuth, elevation of the Earth's centre) in

@@ -20,8 +20,8 @@ mod options;
 mod report;
 pub mod sky;
 
-pub use earth::{earth_margin, earth_zone_from_site, EarthMargin};
-pub use horizon::{horizon_profile, Horizon, HorizonSpec, HorizonTerrain, NodataRule};
+pub use earth::{earth_margin, earth_margin_lazy, earth_zone_from_site, EarthMargin};
+pub use horizon::{horizon_profile, Horizon, HorizonSpec, HorizonTerrain, LazyHorizon, NodataRule};
 pub use libration::{LibrationEnvelope, SubEarthPoint};
 pub use options::{validate_site, VisibilityError, VisibilityOptions};
 pub use report::{EnvelopeSummary, HorizonRow, SiteReport, SiteVisibility, SkySummary, CAUTION};
@@ -36,23 +36,25 @@ pub fn in_far_side_band(lon_deg: f64) -> bool {
     wrap_deg_180(lon_deg - 180.0).abs() <= FAR_SIDE_BAND_HALF_WIDTH_DEG
 }
 
-fn compute(
+/// A site's figures, its horizon (only the sectors the margin read are marched) and its Earth
+/// margin.
+fn compute<'a>(
     lon_deg: f64,
     lat_deg: f64,
-    terrain: Option<&HorizonTerrain>,
+    terrain: Option<&'a HorizonTerrain<'a>>,
     opts: &VisibilityOptions,
-) -> (SiteVisibility, Horizon, EarthMargin) {
+) -> (SiteVisibility, LazyHorizon<'a>, EarthMargin) {
     let env = LibrationEnvelope::standard();
     let wanted =
         terrain.map(|_| earth::sectors_needed(env, lon_deg, lat_deg, opts.horizon_azimuths));
-    let horizon = Horizon::compute_sectors(
+    let mut horizon = LazyHorizon::new(
         lon_deg,
         lat_deg,
         terrain,
         &opts.horizon_spec(opts.horizon_azimuths),
         wanted.as_deref(),
     );
-    let margin = earth_margin(env, lon_deg, lat_deg, &horizon);
+    let margin = earth_margin_lazy(env, lon_deg, lat_deg, &mut horizon);
     let cycle = PoleCycle::standard();
     let gc = cycle.gc_separation_deg(lat_deg);
     let (hpbw, _) = sky::beam_widths_deg(opts.aperture_m, opts.frequency_hz);

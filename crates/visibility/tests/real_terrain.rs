@@ -1,34 +1,14 @@
 //! The horizon and Earth margin on the real LOLA 4 pixel-per-degree product, when present.
 
-use std::path::PathBuf;
-use terrain::{Dem, OpenOptions};
-use visibility::{site_visibility, VisibilityOptions};
+mod common;
 
-fn lola_dir() -> Option<PathBuf> {
-    let dir = std::env::var_os("QUIETBOWL_LOLA_DIR")
-        .map(PathBuf::from)
-        .unwrap_or_else(|| {
-            PathBuf::from(concat!(
-                env!("CARGO_MANIFEST_DIR"),
-                "/../../../shared/data/lola-ldem4"
-            ))
-        });
-    dir.join("LDEM_4.LBL").exists().then_some(dir)
-}
+use visibility::{site_visibility, VisibilityOptions};
 
 #[test]
 fn daedalus_floor_is_walled_in_on_lola_ldem4() {
-    let Some(dir) = lola_dir() else {
+    let Some(dem) = common::lola_ldem4() else {
         println!("SKIPPED: LOLA LDEM_4.LBL not found (set QUIETBOWL_LOLA_DIR)");
         return;
-    };
-    // The product is there: a failure to open it is a failure, not a skip.
-    let dem = match Dem::open(dir.join("LDEM_4.LBL"), &OpenOptions::default()) {
-        Ok(d) => d,
-        Err(e) => panic!(
-            "LDEM_4 is present in {} but did not open: {e}",
-            dir.display()
-        ),
     };
     // Daedalus: 5.9 S, 179.4 E, about 93 km across and about 3 km deep (IAU Gazetteer of
     // Planetary Nomenclature for position and size; depth from memory).

@@ -58,3 +58,28 @@ pub fn bowl(depth_m: f64, radius_m: f64, rim_m: f64) -> impl Fn(f64, f64) -> f64
 pub fn num(v: &serde_json::Value) -> f64 {
     v.as_f64().expect("fixture number")
 }
+
+/// The LOLA LDEM_4 product (real data) from `QUIETBOWL_LOLA_DIR` or `../shared/data/lola-ldem4`
+/// beside the checkout: `None` when its label is absent (the caller prints a SKIPPED line); a
+/// failure, not a skip, when it is there and does not open.
+pub fn lola_ldem4() -> Option<terrain::Dem> {
+    let dir = std::env::var_os("QUIETBOWL_LOLA_DIR")
+        .map(std::path::PathBuf::from)
+        .unwrap_or_else(|| {
+            std::path::PathBuf::from(concat!(
+                env!("CARGO_MANIFEST_DIR"),
+                "/../../../shared/data/lola-ldem4"
+            ))
+        });
+    let label = dir.join("LDEM_4.LBL");
+    if !label.exists() {
+        return None;
+    }
+    match terrain::Dem::open(&label, &terrain::OpenOptions::default()) {
+        Ok(d) => Some(d),
+        Err(e) => panic!(
+            "LDEM_4 is present in {} but did not open: {e}",
+            dir.display()
+        ),
+    }
+}
