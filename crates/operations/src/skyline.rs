@@ -11,7 +11,8 @@
 //!
 //! Not every node is read, yet the skyline is the one of every node, sector for sector (the
 //! crate's tests compare the two on the demo terrain). The nodes within [`NEAR_POSTS`] posts of
-//! the point (in each axis) are read one by one. Beyond, the lattice's max-pooled pyramid
+//! the point (in each axis; every node of a reach up to [`ALL_NODES_UP_TO_POSTS`]) are read
+//! one by one. Beyond, the lattice's max-pooled pyramid
 //! (level l: the highest height of each block of 2^l x 2^l posts and which node holds it,
 //! built once per lattice as far as its skylines need and shared by all of them) is read in
 //! square rings, each level from where the one below stops, so a level-l block lies about
@@ -52,9 +53,11 @@ use visibility::Horizon;
 
 /// Nodes within this many posts of the point, in each axis, are read one by one; the pyramid's
 /// blocks beyond (a block's size over its distance at most about 2 / NEAR_POSTS). Of 8, 16, 24
-/// and 32, the fastest on the skyline bench's 2.8 and 8 km reaches and no slower on the demo
-/// survey.
+/// and 32, the fastest on the skyline bench's 2.8 and 8 km reaches.
 pub const NEAR_POSTS: i64 = 16;
+/// A reach of at most this many posts is read node by node: the pyramid's rings cost more
+/// than they spare there (the skyline bench's 500 m reach).
+pub const ALL_NODES_UP_TO_POSTS: f64 = 32.0;
 
 /// The skyline at local (x0, y0) of `patch`, `mast_m` above the ground there, in `sectors`
 /// sectors, reading nodes out to `reach_m`. `None` without ground at the point. For several
@@ -149,7 +152,11 @@ impl<'a> Skylines<'a> {
     fn sweep_rings(&mut self, eye: &Eye) {
         let patch = self.patch;
         let centre = [eye.x0, eye.y0].map(|v| ((v + patch.half_m) / patch.cell_m).round() as i64);
-        let plan = rings(centre, self.near_posts, eye.reach_square(patch));
+        let near_posts = match eye.reach_m <= ALL_NODES_UP_TO_POSTS * patch.cell_m {
+            true => self.near_posts.max(ALL_NODES_UP_TO_POSTS as i64),
+            false => self.near_posts,
+        };
+        let plan = rings(centre, near_posts, eye.reach_square(patch));
         let (_, near, _) = plan[0];
         let (spans, read) = (&mut self.spans, &mut self.read);
         *read = 0;
