@@ -207,21 +207,17 @@ impl Operations {
         )
     }
 
-    /// Relay and night at local (x, y) of `patch`, `mast_height_m` above the ground, the
-    /// skyline read out to `reach_m`. `None` without ground there.
+    /// Relay and night at local (x, y) of the lattice of `skylines`, `mast_height_m` above
+    /// the ground, the skyline read out to `reach_m`. `None` without ground there.
     fn sky_at(
         &self,
-        patch: &Patch,
+        skylines: &mut skyline::Skylines,
         (x, y): (f64, f64),
         reach_m: f64,
     ) -> Option<(AboveSkyline, NightFigures)> {
-        let skyline = skyline::sweep(
-            patch,
-            (x, y),
-            self.inputs.mast_height_m,
-            reach_m,
-            SKYLINE_SECTORS,
-        )?;
+        let patch = skylines.patch();
+        let skyline =
+            skylines.sweep((x, y), self.inputs.mast_height_m, reach_m, SKYLINE_SECTORS)?;
         let (lon, lat) = patch.frame.to_lonlat(x, y);
         let site = sky::Site::new(lon, lat, skyline.site_height_m, patch.frame.radius_m);
         let relay =
@@ -271,12 +267,17 @@ impl Operations {
             height_m: grid.sample_lonlat(lon, lat)? + self.inputs.mast_height_m,
         };
         let shots = shots::shots(grid, &lander, anchors, &shot_limits, post_m);
-        let (relay_l, night_l) = self.sky_at(&patch, patch.frame.to_local(lon, lat), reach_m)?;
+        let mut skylines = skyline::Skylines::new(&patch);
+        let (relay_l, night_l) =
+            self.sky_at(&mut skylines, patch.frame.to_local(lon, lat), reach_m)?;
         let mut relay_a = Vec::with_capacity(anchors.len());
         let mut night_a = Vec::with_capacity(anchors.len());
         for a in anchors {
-            let (r, n) =
-                self.sky_at(&patch, patch.frame.to_local(a.lon_deg, a.lat_deg), reach_m)?;
+            let (r, n) = self.sky_at(
+                &mut skylines,
+                patch.frame.to_local(a.lon_deg, a.lat_deg),
+                reach_m,
+            )?;
             relay_a.push(r);
             night_a.push(n);
         }
