@@ -13,6 +13,9 @@
 set -euo pipefail
 root=$(cd "$(dirname "$0")/.." && pwd)
 range=${1:-800..2500}
+# 1000 px tiles: the 2000 x 2000 px demo is four tiles, one per array task (the default tile
+# would make it one tile, and three tasks would have nothing to do).
+tile=1000
 tasks=4
 cargo_target=${CARGO_TARGET_DIR:-$root/target}
 bin_dir=$cargo_target/release
@@ -106,12 +109,12 @@ out=$work/survey
 mkdir -p "$out"
 jid=$(sbatch --parsable --array=1-$tasks --cpus-per-task=1 --mem=2G --time=20 \
   --export=ALL,PATH="$bin_dir:$PATH" --chdir="$work" --output="$work/task-%a.log" \
-  "$root/deploy/slurm-survey.sh" "$dem" "$out" "$range" 2G)
+  "$root/deploy/slurm-survey.sh" "$dem" "$out" "$range" 2G "$tile")
 parts=$(for k in $(seq $tasks); do printf '%s ' "$out/part-$k.json"; done)
 mid=$(sbatch --parsable --dependency=afterok:"$jid" --cpus-per-task=1 --mem=2G --time=10 \
   --export=ALL,PATH="$bin_dir:$PATH" --chdir="$work" --output="$work/merge.log" \
   --wrap "quietbowl merge $parts --out $out/survey.json")
-echo "cluster-check: array job $jid ($tasks tasks, diameters $range m), merge job $mid"
+echo "cluster-check: array job $jid ($tasks tasks, diameters $range m, $tile px tiles), merge job $mid"
 while squeue -h -j "$jid,$mid" 2>/dev/null | grep -q .; do sleep 1; done
 state=$(scontrol show job "$mid" 2>/dev/null | grep -o 'JobState=[A-Z_]*' || true)
 [ -s "$out/survey.json" ] || {
@@ -121,8 +124,12 @@ state=$(scontrol show job "$mid" 2>/dev/null | grep -o 'JobState=[A-Z_]*' || tru
 }
 echo "cluster-check: Slurm run done in $(( $(date +%s) - started )) s"
 
-"$bin_dir/quietbowl" survey "$dem" --diameter "$range" --memory 2G --no-checkpoint \
+"$bin_dir/quietbowl" survey "$dem" --diameter "$range" --memory 2G --tile "$tile" --no-checkpoint \
   --out "$work/single.json" >/dev/null 2>&1
+for k in $(seq $tasks); do
+  printf 'cluster-check: task %s surveyed %s candidates\n' "$k" \
+    "$(python3 -c 'import json,sys; print(len(json.load(open(sys.argv[1]))["candidates"]))' "$out/part-$k.json")"
+done
 if cmp "$out/survey.json" "$work/single.json"; then
   echo "cluster-check: passed: the merged survey of $tasks Slurm array tasks equals the single-machine run byte for byte ($(stat -c %s "$work/single.json") bytes)"
 else
