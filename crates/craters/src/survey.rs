@@ -104,6 +104,7 @@ pub fn crater_score(m: &CraterMeasurement) -> f64 {
 const SCORE_INTERCEPT: f64 = -3.8718;
 const SCORE_WEIGHTS: [f64; 6] = [8.8208, 4.6527, 1.1456, -30.5646, -17.5856, -10.7075];
 
+/// Size guesses tried per proposal, as factors of its diameter, in order ([`measure_proposal`]).
 const GUESS_FACTORS: [f64; 2] = [1.0, 1.5];
 
 /// A retry's size guess that lies more than this factor outside the survey's diameter range
