@@ -34,12 +34,26 @@ pub fn destination(
     azimuth_deg: f64,
     distance_m: f64,
 ) -> (f64, f64) {
-    let (l1, p1) = (start.0.to_radians(), start.1.to_radians());
-    let (az, d) = (azimuth_deg.to_radians(), distance_m / radius_m);
-    let p2 = (p1.sin() * d.cos() + p1.cos() * d.sin() * az.cos())
-        .clamp(-1.0, 1.0)
-        .asin();
-    let l2 = l1 + (az.sin() * d.sin() * p1.cos()).atan2(d.cos() - p1.sin() * p2.sin());
+    let p1 = start.1.to_radians();
+    destination_sin_cos(
+        start.0.to_radians(),
+        p1.sin_cos(),
+        (distance_m / radius_m).sin_cos(),
+        azimuth_deg.to_radians().sin_cos(),
+    )
+}
+
+/// [`destination`] from the start's longitude in radians and the sines and cosines of its
+/// latitude, of the central angle travelled and of the azimuth: for callers stepping along
+/// one azimuth from one point, who work those out once. The same point to the bit.
+pub fn destination_sin_cos(
+    lon1_rad: f64,
+    (sp1, cp1): (f64, f64),
+    (sd, cd): (f64, f64),
+    (saz, caz): (f64, f64),
+) -> (f64, f64) {
+    let p2 = (sp1 * cd + cp1 * sd * caz).clamp(-1.0, 1.0).asin();
+    let l2 = lon1_rad + (saz * sd * cp1).atan2(cd - sp1 * p2.sin());
     (
         crate::projection::wrap_deg_180(l2.to_degrees()),
         p2.to_degrees(),

@@ -25,7 +25,7 @@
 
 use serde::{Deserialize, Serialize};
 use std::collections::HashMap;
-use terrain::projection::wrap_deg_180;
+use terrain::geodesy::destination_sin_cos;
 use terrain::ElevationGrid;
 
 /// What a missing height (nodata, or beyond the grid window) on the way to the horizon means.
@@ -437,21 +437,10 @@ impl SiteTrig {
     }
 }
 
-/// The point reached from a site along an azimuth over a central angle, given their sines and
-/// cosines: `terrain::geodesy::destination`'s arithmetic operation for operation, so the same
-/// point to the bit, with the trigonometry of the site, the step and the azimuth done once
-/// instead of at every point.
-fn destination_from(site: SiteTrig, (sd, cd): SinCos, (saz, caz): SinCos) -> (f64, f64) {
-    let (sp1, cp1) = site.lat;
-    let p2 = (sp1 * cd + cp1 * sd * caz).clamp(-1.0, 1.0).asin();
-    let l2 = site.lon_rad + (saz * sd * cp1).atan2(cd - sp1 * p2.sin());
-    (wrap_deg_180(l2.to_degrees()), p2.to_degrees())
-}
-
 /// Window pixel position of the point at step `j` along an azimuth (its sine and cosine).
 fn window_pixel(m: &March, azimuth: SinCos, j: usize) -> Option<Px> {
     let (t, step) = (m.t, (m.steps.sin_g[j], m.steps.cos_g[j]));
-    let (lon, lat) = destination_from(m.site, step, azimuth);
+    let (lon, lat) = destination_sin_cos(m.site.lon_rad, m.site.lat, step, azimuth);
     let (col, row) = t.grid.geometry.lonlat_to_pixel(lon, lat)?;
     Some((
         col - 0.5 - t.grid.col0 as f64,
