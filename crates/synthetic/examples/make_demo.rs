@@ -2,8 +2,8 @@
 //! --example make_demo -- [OUT_DIR [SEED [LAT_DEG [SIZE_KM]]]]` (default: `demo-terrain/` at
 //! the workspace root, the default spec's seed, latitude and size). Another seed gives a patch
 //! of the same kind with other craters: held-out terrain for checking that a detection change
-//! tuned on the demo holds elsewhere. Another latitude or size keeps the crater density (the
-//! crater counts scale with the area, as `DemoSpec::small` scales them).
+//! tuned on the demo holds elsewhere. Another latitude or size keeps the crater density
+//! (`DemoSpec::with_size`).
 
 use std::path::PathBuf;
 
@@ -39,14 +39,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         if !(size_km > 0.0 && size_km <= 600.0) {
             return Err(format!("SIZE_KM must lie within 0..600 (got {size_km})").into());
         }
-        let area_ratio = (size_km / spec.size_km).powi(2);
-        let scaled = |n: usize| (n as f64 * area_ratio).round() as usize;
-        spec.crater_count = scaled(spec.crater_count).max(1);
-        spec.host_count = scaled(spec.host_count).max(1);
-        spec.breached_count = scaled(spec.breached_count);
-        spec.boulder_floor_count = scaled(spec.boulder_floor_count);
-        spec.crater_max_diameter_m = spec.crater_max_diameter_m.min(size_km * 1000.0 / 4.0);
-        spec.size_km = size_km;
+        spec = spec.with_size(size_km);
     }
     let started = std::time::Instant::now();
     let terrain = synthetic::generate(&spec)?;

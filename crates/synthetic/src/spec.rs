@@ -79,18 +79,32 @@ impl Default for DemoSpec {
 impl DemoSpec {
     /// A small, quick variant of the demo scenario for tests: same laws, a few km across.
     pub fn small(seed: u64, size_km: f64) -> DemoSpec {
-        let area_ratio = (size_km / 60.0).powi(2);
         let d = DemoSpec::default();
+        let s = d.clone().with_size(size_km);
         DemoSpec {
             seed,
-            size_km,
-            crater_count: ((d.crater_count as f64 * area_ratio).round() as usize).max(20),
-            crater_max_diameter_m: d.crater_max_diameter_m.min(size_km * 1000.0 / 4.0),
-            host_count: ((d.host_count as f64 * area_ratio).round() as usize)
-                .clamp(2, d.host_count),
+            crater_count: s.crater_count.max(20),
+            host_count: s.host_count.clamp(2, d.host_count),
             breached_count: 2,
             boulder_floor_count: 1,
-            ..d
+            ..s
+        }
+    }
+
+    /// This spec over a patch `size_km` across, at the same crater density: the crater, host,
+    /// breached-rim and boulder-floor counts scale with the area (at least one crater and one
+    /// host), and no crater is wider than a quarter of the patch.
+    pub fn with_size(self, size_km: f64) -> DemoSpec {
+        let area_ratio = (size_km / self.size_km).powi(2);
+        let scaled = |n: usize| (n as f64 * area_ratio).round() as usize;
+        DemoSpec {
+            size_km,
+            crater_count: scaled(self.crater_count).max(1),
+            host_count: scaled(self.host_count).max(1),
+            breached_count: scaled(self.breached_count),
+            boulder_floor_count: scaled(self.boulder_floor_count),
+            crater_max_diameter_m: self.crater_max_diameter_m.min(size_km * 1000.0 / 4.0),
+            ..self
         }
     }
 
