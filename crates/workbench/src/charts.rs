@@ -73,41 +73,31 @@ pub fn level_line() -> egui_plot::HLine {
 /// Elevation marks every 10 degrees with the 30-degree ones stronger, so a skyline plot of
 /// -90..+30 degrees labels -90, -60, -30, 0 and 30 rather than the level line alone.
 pub fn elevation_grid(input: GridInput) -> Vec<GridMark> {
-    let (lo, hi) = input.bounds;
-    let mut marks = Vec::new();
-    let mut e = (lo / 10.0).floor() * 10.0;
-    while e <= hi {
-        let step_size = if e.rem_euclid(30.0) == 0.0 {
-            30.0
-        } else {
-            10.0
-        };
-        marks.push(GridMark {
-            value: e,
-            step_size,
-        });
-        e += 10.0;
-    }
-    marks
+    marks_every(input, 10.0, &[30.0])
 }
 
+/// Azimuth marks every 15 degrees, the 45-degree ones stronger and the cardinal ones strongest.
 pub fn azimuth_grid(input: GridInput) -> Vec<GridMark> {
+    marks_every(input, 15.0, &[90.0, 45.0])
+}
+
+/// Marks every `step` over the input's bounds, each carrying as its size the first of `strong`
+/// (largest first) it is a multiple of, else `step`.
+fn marks_every(input: GridInput, step: f64, strong: &[f64]) -> Vec<GridMark> {
     let (lo, hi) = input.bounds;
     let mut marks = Vec::new();
-    let mut a = (lo / 15.0).floor() * 15.0;
-    while a <= hi {
-        let step_size = if a.rem_euclid(90.0) == 0.0 {
-            90.0
-        } else if a.rem_euclid(45.0) == 0.0 {
-            45.0
-        } else {
-            15.0
-        };
+    let mut v = (lo / step).floor() * step;
+    while v <= hi {
+        let step_size = strong
+            .iter()
+            .copied()
+            .find(|s| v.rem_euclid(*s) == 0.0)
+            .unwrap_or(step);
         marks.push(GridMark {
-            value: a,
+            value: v,
             step_size,
         });
-        a += 15.0;
+        v += step;
     }
     marks
 }
