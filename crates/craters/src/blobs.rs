@@ -26,52 +26,65 @@ pub struct Blob {
     pub response: f64,
 }
 
-/// Gaussian smoothing (separable, kernel out to 3 sigma), renormalised over the taps inside
-/// the grid and over valid (non-NaN) cells, so edges and holes do not pull heights to zero.
-fn smooth(z: &[f32], w: usize, h: usize, sigma: f64) -> Vec<f32> {
-    let rad = (3.0 * sigma).ceil() as usize;
-    let k: Vec<f64> = (0..=2 * rad)
-        .map(|t| {
-            let x = t as f64 - rad as f64;
-            (-(x * x) / (2.0 * sigma * sigma)).exp()
-        })
-        .collect();
-    let pass = |src: &[f32], w: usize, h: usize| -> Vec<f32> {
+/// Buffers for [`Smoother::smooth`], reused from scale to scale (fresh ones per scale had the
+/// kernel zero their pages again each time).
+#[derive(Default)]
+struct Smoother {
+    pass_out: Vec<f32>,
+    flipped: Vec<f32>,
+}
+
+impl Smoother {
+    /// Gaussian smoothing (separable, kernel out to 3 sigma), renormalised over the taps inside
+    /// the grid and over valid (non-NaN) cells, so edges and holes do not pull heights to zero.
+    fn smooth(&mut self, z: &[f32], w: usize, h: usize, sigma: f64) -> &[f32] {
+        let rad = (3.0 * sigma).ceil() as usize;
+        let k: Vec<f64> = (0..=2 * rad)
+            .map(|t| {
+                let x = t as f64 - rad as f64;
+                (-(x * x) / (2.0 * sigma * sigma)).exp()
+            })
+            .collect();
         // Along rows of a w x h array; the caller transposes for the other axis.
-        let mut out = vec![f32::NAN; w * h];
-        out.par_chunks_mut(w)
-            .zip(src.par_chunks(w))
-            .for_each(|(o, s)| {
-                for (i, v) in o.iter_mut().enumerate() {
-                    let (mut sum, mut wt) = (0.0, 0.0);
-                    let lo = i.saturating_sub(rad);
-                    let hi = (i + rad).min(w - 1);
-                    for (x, &sv) in s.iter().enumerate().take(hi + 1).skip(lo) {
-                        if !sv.is_nan() {
-                            let kv = k[x + rad - i];
-                            sum += kv * sv as f64;
-                            wt += kv;
+        let pass = |src: &[f32], out: &mut Vec<f32>, w: usize, h: usize| {
+            out.resize(w * h, 0.0);
+            out.par_chunks_mut(w)
+                .zip(src.par_chunks(w))
+                .for_each(|(o, s)| {
+                    for (i, v) in o.iter_mut().enumerate() {
+                        let (mut sum, mut wt) = (0.0, 0.0);
+                        let lo = i.saturating_sub(rad);
+                        let hi = (i + rad).min(w - 1);
+                        for (x, &sv) in s.iter().enumerate().take(hi + 1).skip(lo) {
+                            if !sv.is_nan() {
+                                let kv = k[x + rad - i];
+                                sum += kv * sv as f64;
+                                wt += kv;
+                            }
                         }
+                        *v = if wt > 0.0 {
+                            (sum / wt) as f32
+                        } else {
+                            f32::NAN
+                        };
                     }
-                    if wt > 0.0 {
-                        *v = (sum / wt) as f32;
-                    }
+                });
+        };
+        let transpose = |src: &[f32], t: &mut Vec<f32>, w: usize, h: usize| {
+            t.resize(w * h, 0.0);
+            for j in 0..h {
+                for i in 0..w {
+                    t[i * h + j] = src[j * w + i];
                 }
-            });
-        out
-    };
-    let transpose = |src: &[f32], w: usize, h: usize| -> Vec<f32> {
-        let mut t = vec![0f32; w * h];
-        for j in 0..h {
-            for i in 0..w {
-                t[i * h + j] = src[j * w + i];
             }
-        }
-        t
-    };
-    let rows = pass(z, w, h);
-    let cols = pass(&transpose(&rows, w, h), h, w);
-    transpose(&cols, h, w)
+        };
+        let (out, flipped) = (&mut self.pass_out, &mut self.flipped);
+        pass(&z[..w * h], out, w, h);
+        transpose(out, flipped, w, h);
+        pass(flipped, out, h, w);
+        transpose(out, flipped, h, w);
+        flipped
+    }
 }
 
 /// Blobs of the grid `z` (w x h cells) at the scales `sigmas` (cells, ascending): cells where
@@ -88,8 +101,9 @@ pub fn find(z: &[f32], w: usize, h: usize, sigmas: &[f64], cell: f64, min_ratio:
     }
     let mut best = vec![f32::NEG_INFINITY; w * h];
     let mut best_s = vec![0usize; w * h];
+    let mut smoother = Smoother::default();
     for (si, &s) in sigmas.iter().enumerate() {
-        let l = smooth(z, w, h, s);
+        let l = smoother.smooth(z, w, h, s);
         let norm = (s * s) as f32;
         // The Laplacian reads one cell either side: keep its cells clear of the edge band where
         // the smoothing kernel is cut.
