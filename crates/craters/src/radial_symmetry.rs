@@ -107,19 +107,17 @@ impl Slot {
 /// neighbours give no vote), or `None` where no cell has a slope. Cells flatter than the median
 /// are background and cast no vote.
 fn voters(z: &[f32], w: usize, h: usize) -> Option<Vec<Voter>> {
-    let mut grad = vec![(0f32, 0f32, 0f32); w * h];
+    // The gradient is computed twice (for the median, then for the voters) rather than kept:
+    // a w x h array of it cost more in fresh pages than the second pass costs in arithmetic.
+    let gradient = |i: usize, j: usize| {
+        let gx = (z[j * w + i + 1] - z[j * w + i - 1]) * 0.5;
+        let gy = (z[(j + 1) * w + i] - z[(j - 1) * w + i]) * 0.5;
+        let m = gx.hypot(gy);
+        (m.is_finite() && m > 0.0).then_some((gx, gy, m))
+    };
+    let cells = || (1..h - 1).flat_map(|j| (1..w - 1).map(move |i| (i, j)));
     let mut mags = Vec::with_capacity((w - 2) * (h - 2));
-    for j in 1..h - 1 {
-        for i in 1..w - 1 {
-            let gx = (z[j * w + i + 1] - z[j * w + i - 1]) * 0.5;
-            let gy = (z[(j + 1) * w + i] - z[(j - 1) * w + i]) * 0.5;
-            let m = gx.hypot(gy);
-            if m.is_finite() && m > 0.0 {
-                grad[j * w + i] = (gx / m, gy / m, m);
-                mags.push(m as f64);
-            }
-        }
-    }
+    mags.extend(cells().filter_map(|(i, j)| gradient(i, j).map(|g| g.2 as f64)));
     if mags.is_empty() {
         return None;
     }
@@ -127,14 +125,10 @@ fn voters(z: &[f32], w: usize, h: usize) -> Option<Vec<Voter>> {
     // Untouched capacity costs no memory: reserve for every sloping cell.
     let mut out = Vec::with_capacity(mags.len());
     drop(mags);
-    out.extend(
-        (1..h - 1)
-            .flat_map(|j| (1..w - 1).map(move |i| (i, j)))
-            .filter_map(|(i, j)| {
-                let (ux, uy, g) = grad[j * w + i];
-                (g > med).then_some((i as u32, j as u32, ux, uy, g / med))
-            }),
-    );
+    out.extend(cells().filter_map(|(i, j)| {
+        let (gx, gy, m) = gradient(i, j)?;
+        (m > med).then_some((i as u32, j as u32, gx / m, gy / m, m / med))
+    }));
     Some(out)
 }
 
