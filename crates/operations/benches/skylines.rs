@@ -1,4 +1,4 @@
-//! Speed of one candidate's skylines on the demo terrain (invented,
+//! Speed of one candidate's lattice and skylines on the demo terrain (invented,
 //! demo-terrain/farside-patch.tif): the lattice round the crater built before timing, then the
 //! skylines at the lander and at every anchor on it (the pyramid included), as
 //! `Operations::for_candidate` sweeps them. Three real
@@ -86,6 +86,9 @@ fn bench(cr: &mut Criterion) {
     let mast = operations::OperationsInputs::default().mast_height_m;
     for c in &CANDIDATES {
         let (patch, reach) = lattice(&grid, post_m, c);
+        cr.bench_function(&format!("lattice_{}", c.name), |b| {
+            b.iter(|| lattice(&grid, post_m, black_box(c)).0.n)
+        });
         let points: Vec<(f64, f64)> = c
             .points
             .iter()
