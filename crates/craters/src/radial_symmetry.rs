@@ -23,74 +23,130 @@ fn k_n(n: f64) -> f64 {
 }
 const ALPHA: i32 = 2;
 
-/// Separable Gaussian blur of `v` in place, `tmp` (resized to w x h) holding the row pass.
-fn gaussian_blur(v: &mut [f32], tmp: &mut Vec<f32>, w: usize, h: usize, sigma: f64) {
-    let rad = (2.0 * sigma).ceil() as usize;
+/// Output rows voted per strip. Each strip is voted with the rows its votes and its blur reach
+/// beyond it, into buffers of its own size: no grid-sized buffer but the summed transform and
+/// the best radius per cell is ever made (fresh grid-sized buffers cost more in zeroed pages
+/// than the strips' overlap costs in arithmetic), and the strips' buffers stay in the cache.
+const STRIP_ROWS: usize = 64;
+
+/// The blur's sigma at radius `n` cells, and its reach in rows (taps out to 2 sigma).
+fn blur_sigma(n: f64) -> f64 {
+    (0.25 * n).max(0.5)
+}
+
+fn blur_reach(n: f64) -> usize {
+    (2.0 * blur_sigma(n)).ceil() as usize
+}
+
+/// The normalised Gaussian taps out to `rad` either side.
+fn blur_taps(sigma: f64, rad: usize) -> Vec<f32> {
     let k: Vec<f32> = (-(rad as isize)..=rad as isize)
         .map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32)
         .collect();
     let ks: f32 = k.iter().sum();
-    let k: Vec<f32> = k.iter().map(|kv| kv / ks).collect();
-    // Taps falling outside the window count as zero (the kernel is not renormalised there).
-    tmp.clear();
-    tmp.resize(w * h, 0.0);
-    for (src, dst) in v.chunks_exact(w).zip(tmp.chunks_exact_mut(w)) {
-        for (t, &kv) in k.iter().enumerate() {
-            // dst[i] += kv * src[i + t - rad] wherever that index exists.
-            let (d0, s0) = if t < rad { (rad - t, 0) } else { (0, t - rad) };
-            let len = w.saturating_sub(d0.max(s0));
-            for (d, s) in dst[d0..d0 + len].iter_mut().zip(&src[s0..s0 + len]) {
-                *d += kv * s;
-            }
-        }
-    }
-    v.fill(0.0);
-    for j in 0..h {
-        let dst = &mut v[j * w..(j + 1) * w];
-        for (t, &kv) in k.iter().enumerate() {
-            let jj = j as isize + t as isize - rad as isize;
-            if jj < 0 || jj as usize >= h {
-                continue;
-            }
-            for (d, s) in dst
-                .iter_mut()
-                .zip(&tmp[jj as usize * w..(jj as usize + 1) * w])
-            {
-                *d += kv * s;
-            }
-        }
-    }
+    k.iter().map(|kv| kv / ks).collect()
 }
 
-/// A cell steeper than the level's median slope: position, downhill unit vector and weight
+/// A cell steeper than the level's median slope: column, row, downhill unit vector and weight
 /// (slope over the median).
 type Voter = (u32, u32, f32, f32, f32);
 
-/// One worker's buffers for the transform at one radius, reused from radius to radius (fresh
-/// buffers per radius made the kernel zero hundreds of megabytes of pages per survey).
+/// The central-difference gradient at interior cell (i, j) and its magnitude; `None` without
+/// a slope (flat, or a NaN neighbour).
+#[inline]
+fn gradient(z: &[f32], w: usize, i: usize, j: usize) -> Option<(f32, f32, f32)> {
+    let gx = (z[j * w + i + 1] - z[j * w + i - 1]) * 0.5;
+    let gy = (z[(j + 1) * w + i] - z[(j - 1) * w + i]) * 0.5;
+    let m = gx.hypot(gy);
+    (m.is_finite() && m > 0.0).then_some((gx, gy, m))
+}
+
+/// The median slope of the interior cells that have one, or `None` where none has.
+fn median_slope(z: &[f32], w: usize, h: usize) -> Option<f32> {
+    let mut mags: Vec<f32> = Vec::with_capacity((w - 2) * (h - 2));
+    mags.extend(
+        (1..h - 1)
+            .flat_map(|j| (1..w - 1).map(move |i| (i, j)))
+            .filter_map(|(i, j)| gradient(z, w, i, j).map(|g| g.2)),
+    );
+    (!mags.is_empty()).then(|| crate::stats::median_f32(&mut mags).max(1e-12) as f32)
+}
+
+/// One worker's buffers for a strip, reused from strip to strip.
 #[derive(Default)]
-struct Slot {
+struct Strip {
+    voters: Vec<Voter>,
     /// Votes per cell, saturating: only min(votes, k_n) <= 9.9 is read.
     votes: Vec<u8>,
     /// The weighted votes, then the transform itself.
     field: Vec<f32>,
     /// The blur's row pass.
-    tmp: Vec<f32>,
+    rows: Vec<f32>,
+    /// The largest transform per output cell so far.
+    best_value: Vec<f32>,
 }
 
-impl Slot {
-    /// The blurred transform at radius `n` cells into `self.field`.
-    fn transform(&mut self, voters: &[Voter], w: usize, h: usize, n: f64) {
+impl Strip {
+    /// Output rows `r0..r1`: the blurred transform summed over `radii` in their order into
+    /// `total` and, per cell, the index of the first radius with the largest transform into
+    /// `best` (both slices hold rows r0..r1 only).
+    fn vote(
+        &mut self,
+        (z, w, h): (&[f32], usize, usize),
+        med: f32,
+        radii: &[f64],
+        (r0, r1): (usize, usize),
+        total: &mut [f32],
+        best: &mut [u16],
+    ) {
+        let n_max = radii.iter().copied().fold(0.0, f64::max);
+        let rad_max = blur_reach(n_max);
+        // The rows the blur reads, and the rows whose votes can land in them (a vote lands
+        // round(u n) <= ceil(n) rows away).
+        let (f0, f1) = (r0.saturating_sub(rad_max), (r1 + rad_max).min(h));
+        let reach = n_max.ceil() as usize + 1;
+        let (v0, v1) = (f0.saturating_sub(reach).max(1), (f1 + reach).min(h - 1));
+        self.voters.clear();
+        for j in v0..v1 {
+            for i in 1..w - 1 {
+                if let Some((gx, gy, m)) = gradient(z, w, i, j) {
+                    if m > med {
+                        self.voters
+                            .push((i as u32, j as u32, gx / m, gy / m, m / med));
+                    }
+                }
+            }
+        }
+        total.fill(0.0);
+        best.fill(0);
+        self.best_value.clear();
+        self.best_value.resize(total.len(), f32::NEG_INFINITY);
+        for (r, &n) in radii.iter().enumerate() {
+            self.transform((w, f0, f1), n);
+            self.blur_into((w, h), (f0, f1), (r0, r1), n);
+            let cells = total.iter_mut().zip(best.iter_mut());
+            for (((t, b), bv), &v) in cells.zip(self.best_value.iter_mut()).zip(&self.field) {
+                *t += v;
+                if v > *bv {
+                    (*b, *bv) = (r as u16, v);
+                }
+            }
+        }
+    }
+
+    /// The unblurred transform at radius `n` over rows f0..f1 into `self.field`.
+    fn transform(&mut self, (w, f0, f1): (usize, usize, usize), n: f64) {
+        let cells = (f1 - f0) * w;
         let (votes, field) = (&mut self.votes, &mut self.field);
         votes.clear();
-        votes.resize(w * h, 0);
+        votes.resize(cells, 0);
         field.clear();
-        field.resize(w * h, 0.0);
-        for &(i, j, ux, uy, wt) in voters {
+        field.resize(cells, 0.0);
+        for &(i, j, ux, uy, wt) in &self.voters {
             let ti = i as isize - round_small(ux as f64 * n);
             let tj = j as isize - round_small(uy as f64 * n);
-            if ti >= 0 && tj >= 0 && (ti as usize) < w && (tj as usize) < h {
-                let t = tj as usize * w + ti as usize;
+            if ti >= 0 && tj >= f0 as isize && (ti as usize) < w && (tj as usize) < f1 {
+                let t = (tj as usize - f0) * w + ti as usize;
                 votes[t] = votes[t].saturating_add(1);
                 field[t] += wt;
             }
@@ -99,37 +155,51 @@ impl Slot {
         for (fv, &ov) in field.iter_mut().zip(votes.iter()) {
             *fv = (*fv / kn) * ((ov as f32).min(kn) / kn).powi(ALPHA);
         }
-        gaussian_blur(field, &mut self.tmp, w, h, (0.25 * n).max(0.5));
     }
-}
 
-/// The cells steeper than the level's median slope (central-difference gradients; NaN
-/// neighbours give no vote), or `None` where no cell has a slope. Cells flatter than the median
-/// are background and cast no vote.
-fn voters(z: &[f32], w: usize, h: usize) -> Option<Vec<Voter>> {
-    // The gradient is computed twice (for the median, then for the voters) rather than kept:
-    // a w x h array of it cost more in fresh pages than the second pass costs in arithmetic.
-    let gradient = |i: usize, j: usize| {
-        let gx = (z[j * w + i + 1] - z[j * w + i - 1]) * 0.5;
-        let gy = (z[(j + 1) * w + i] - z[(j - 1) * w + i]) * 0.5;
-        let m = gx.hypot(gy);
-        (m.is_finite() && m > 0.0).then_some((gx, gy, m))
-    };
-    let cells = || (1..h - 1).flat_map(|j| (1..w - 1).map(move |i| (i, j)));
-    let mut mags = Vec::with_capacity((w - 2) * (h - 2));
-    mags.extend(cells().filter_map(|(i, j)| gradient(i, j).map(|g| g.2 as f64)));
-    if mags.is_empty() {
-        return None;
+    /// Separable Gaussian blur of the transform (rows f0..f1 in `self.field`), taps falling
+    /// outside the grid counted as zero (the kernel is not renormalised there); output rows
+    /// r0..r1 left in `self.field`, whose other rows the blur reaches.
+    fn blur_into(
+        &mut self,
+        (w, h): (usize, usize),
+        (f0, f1): (usize, usize),
+        (r0, r1): (usize, usize),
+        n: f64,
+    ) {
+        let rad = blur_reach(n);
+        let k = blur_taps(blur_sigma(n), rad);
+        let rows = &mut self.rows;
+        rows.clear();
+        rows.resize(self.field.len(), 0.0);
+        for (src, dst) in self.field.chunks_exact(w).zip(rows.chunks_exact_mut(w)) {
+            for (t, &kv) in k.iter().enumerate() {
+                // dst[i] += kv * src[i + t - rad] wherever that index exists.
+                let (d0, s0) = if t < rad { (rad - t, 0) } else { (0, t - rad) };
+                let len = w.saturating_sub(d0.max(s0));
+                for (d, s) in dst[d0..d0 + len].iter_mut().zip(&src[s0..s0 + len]) {
+                    *d += kv * s;
+                }
+            }
+        }
+        self.field.truncate((r1 - r0) * w);
+        self.field.fill(0.0);
+        for j in r0..r1 {
+            let dst = &mut self.field[(j - r0) * w..(j - r0 + 1) * w];
+            for (t, &kv) in k.iter().enumerate() {
+                let jj = j as isize + t as isize - rad as isize;
+                if jj < 0 || jj as usize >= h {
+                    continue;
+                }
+                // Within f0..f1: the strip's rows reach rad_max >= rad beyond r0..r1.
+                let q = jj as usize - f0;
+                debug_assert!((jj as usize) < f1);
+                for (d, s) in dst.iter_mut().zip(&rows[q * w..(q + 1) * w]) {
+                    *d += kv * s;
+                }
+            }
+        }
     }
-    let med = crate::stats::median(&mut mags).max(1e-12) as f32;
-    // Untouched capacity costs no memory: reserve for every sloping cell.
-    let mut out = Vec::with_capacity(mags.len());
-    drop(mags);
-    out.extend(cells().filter_map(|(i, j)| {
-        let (gx, gy, m) = gradient(i, j)?;
-        (m > med).then_some((i as u32, j as u32, gx / m, gy / m, m / med))
-    }));
-    Some(out)
 }
 
 /// `x.round() as isize` for the small finite values of the voting (|x| < 2^52) without the
@@ -144,35 +214,39 @@ fn round_small(x: f64) -> isize {
 
 /// Peaks of the summed transform over `radii` (cells) scoring at least `min_score`.
 pub fn peaks(z: &[f32], w: usize, h: usize, radii: &[f64], min_score: f64) -> Vec<Peak> {
+    peaks_in_strips(z, w, h, radii, min_score, STRIP_ROWS)
+}
+
+/// [`peaks`], voting `strip_rows` output rows at a time (the result does not depend on it).
+fn peaks_in_strips(
+    z: &[f32],
+    w: usize,
+    h: usize,
+    radii: &[f64],
+    min_score: f64,
+    strip_rows: usize,
+) -> Vec<Peak> {
     if w < 3 || h < 3 || radii.is_empty() || z.len() < w * h {
         return Vec::new();
     }
-    let Some(voters) = voters(z, w, h) else {
+    let Some(med) = median_slope(z, w, h) else {
         return Vec::new();
     };
-    // Radii vote independently: as many at a time as there are workers (rayon), summed in
-    // the radii's order afterwards, each cell keeping the first radius that scored best.
+    // Best radii are kept as 16-bit indices.
+    let radii = &radii[..radii.len().min(usize::from(u16::MAX))];
+    // Strips of rows in parallel (rayon), each summing the radii in their order.
     use rayon::prelude::*;
-    let workers = rayon::current_num_threads().clamp(1, radii.len());
-    let mut slots: Vec<Slot> = (0..workers).map(|_| Slot::default()).collect();
     let mut total = vec![0f32; w * h];
-    let mut best = vec![(f32::NEG_INFINITY, 0u32); w * h];
-    for (c, chunk) in radii.chunks(workers).enumerate() {
-        slots
-            .par_iter_mut()
-            .zip(chunk.par_iter())
-            .for_each(|(slot, &n)| slot.transform(&voters, w, h, n));
-        for (k, slot) in slots.iter().take(chunk.len()).enumerate() {
-            let r = (c * workers + k) as u32;
-            for ((t, b), &v) in total.iter_mut().zip(best.iter_mut()).zip(&slot.field) {
-                *t += v;
-                if v > b.0 {
-                    *b = (v, r);
-                }
-            }
-        }
-    }
-    drop(slots);
+    let mut best = vec![0u16; w * h];
+    total
+        .par_chunks_mut(strip_rows.max(1) * w)
+        .zip(best.par_chunks_mut(strip_rows.max(1) * w))
+        .enumerate()
+        .for_each_init(Strip::default, |strip, (k, (tot, bst))| {
+            let r0 = k * strip_rows.max(1);
+            let r1 = r0 + tot.len() / w;
+            strip.vote((z, w, h), med, radii, (r0, r1), tot, bst);
+        });
     let sup = (radii[0].round() as isize).max(2);
     let mut out = Vec::new();
     for j in 0..h {
@@ -202,7 +276,7 @@ pub fn peaks(z: &[f32], w: usize, h: usize, radii: &[f64], min_score: f64) -> Ve
                 }
             }
             if is_max {
-                let best = best[j * w + i].1 as usize;
+                let best = usize::from(best[j * w + i]);
                 out.push(Peak {
                     i,
                     j,
@@ -218,6 +292,58 @@ pub fn peaks(z: &[f32], w: usize, h: usize, radii: &[f64], min_score: f64) -> Ve
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Strips are an implementation detail: any strip height gives the same peaks, to the
+    /// bit, as voting the grid whole (a rough terrain of overlapping bowls and a slope).
+    #[test]
+    fn strips_give_the_whole_grids_peaks() {
+        let (w, h) = (90usize, 131usize);
+        let mut x = 7u64;
+        let mut noise = || {
+            x = x
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            ((x >> 40) as f64 / (1u64 << 24) as f64 - 0.5) * 0.3
+        };
+        let bowls = [
+            (20.0, 30.0, 9.0),
+            (60.0, 64.0, 14.0),
+            (45.0, 100.0, 6.0),
+            (70.0, 120.0, 11.0),
+        ];
+        let z: Vec<f32> = (0..w * h)
+            .map(|k| {
+                let (i, j) = ((k % w) as f64, (k / w) as f64);
+                let depth: f64 = bowls
+                    .iter()
+                    .map(|&(ci, cj, r)| {
+                        let rho = (i - ci).hypot(j - cj) / r;
+                        if rho < 1.0 {
+                            r * (rho * rho - 1.0)
+                        } else {
+                            0.0
+                        }
+                    })
+                    .sum();
+                (depth + 0.05 * j + noise()) as f32
+            })
+            .collect();
+        let radii: Vec<f64> = (2..=9).map(f64::from).collect();
+        let key = |p: &[Peak]| -> Vec<(usize, usize, u64, u64)> {
+            p.iter()
+                .map(|p| (p.i, p.j, p.radius_cells.to_bits(), p.score.to_bits()))
+                .collect()
+        };
+        let whole = key(&peaks_in_strips(&z, w, h, &radii, 0.5, h));
+        assert!(whole.len() >= 4, "{} peaks", whole.len());
+        for rows in [1, 5, 17, 64] {
+            assert_eq!(
+                key(&peaks_in_strips(&z, w, h, &radii, 0.5, rows)),
+                whole,
+                "{rows} rows"
+            );
+        }
+    }
 
     #[test]
     fn round_small_is_round() {
