@@ -91,10 +91,10 @@ impl Patch {
         if !(u >= 0.0 && v >= 0.0 && u <= last && v <= last) {
             return f64::NAN;
         }
-        // In 0..=last here: through i64, one instruction on x86-64 (see ElevationGrid::sample).
+        // In 0..=last here: through u32, as ElevationGrid::sample.
         let (i, j) = (
-            (u as i64 as usize).min(self.n - 2),
-            (v as i64 as usize).min(self.n - 2),
+            (u as u32 as usize).min(self.n - 2),
+            (v as u32 as usize).min(self.n - 2),
         );
         let (s, t) = (u - i as f64, v - j as f64);
         let k = j * self.n + i;
@@ -144,6 +144,6 @@ fn sample_lattice(
 /// Control-net cell index and fraction for lattice coordinate `u` (in control steps).
 #[inline]
 fn split(u: f64, m: usize) -> (usize, f64) {
-    let i = (u as i64 as usize).min(m - 2);
+    let i = (u as u32 as usize).min(m - 2);
     (i, (u - i as f64).clamp(0.0, 1.0))
 }

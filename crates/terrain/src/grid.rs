@@ -192,9 +192,9 @@ impl ElevationGrid {
         }
         // Both are at least 0 here, where truncation is the floor: `as` saves the libm call
         // (x86-64's baseline has no rounding instruction) and saturates as floor's cast would.
-        // Through i64: x86-64 converts to signed integers in one instruction, to unsigned ones
-        // in several; every value this can give, i64::MAX included, is past the window.
-        let (c0, r0) = (col as i64 as usize, row as i64 as usize);
+        // Through u32 the cast skips the 64-bit unsigned conversion's fix-ups, as the craters
+        // crate's samplers do; a position past u32::MAX saturates there, still past the window.
+        let (c0, r0) = (col as u32 as usize, row as u32 as usize);
         let (fc, fr) = (col - c0 as f64, row - r0 as f64);
         let c1 = if fc > 0.0 { c0 + 1 } else { c0 };
         let r1 = if fr > 0.0 { r0 + 1 } else { r0 };
