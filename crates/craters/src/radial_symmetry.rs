@@ -29,22 +29,40 @@ const ALPHA: i32 = 2;
 /// than the strips' overlap costs in arithmetic), and the strips' buffers stay in the cache.
 const STRIP_ROWS: usize = 64;
 
-/// The blur's sigma at radius `n` cells, and its reach in rows (taps out to 2 sigma).
-fn blur_sigma(n: f64) -> f64 {
-    (0.25 * n).max(0.5)
+/// One voting radius and what its transform needs, worked out once per level.
+struct Radius {
+    /// Cells.
+    n: f64,
+    kn: f32,
+    /// The blur's reach in rows (taps out to 2 sigma, sigma = max(n / 4, 1/2)) and its
+    /// normalised Gaussian taps, `rad` either side.
+    rad: usize,
+    taps: Vec<f32>,
 }
 
-fn blur_reach(n: f64) -> usize {
-    (2.0 * blur_sigma(n)).ceil() as usize
+impl Radius {
+    fn new(n: f64) -> Radius {
+        let sigma = (0.25 * n).max(0.5);
+        let rad = (2.0 * sigma).ceil() as usize;
+        let k: Vec<f32> = (-(rad as isize)..=rad as isize)
+            .map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32)
+            .collect();
+        let ks: f32 = k.iter().sum();
+        Radius {
+            n,
+            kn: k_n(n) as f32,
+            rad,
+            taps: k.iter().map(|kv| kv / ks).collect(),
+        }
+    }
 }
 
-/// The normalised Gaussian taps out to `rad` either side.
-fn blur_taps(sigma: f64, rad: usize) -> Vec<f32> {
-    let k: Vec<f32> = (-(rad as isize)..=rad as isize)
-        .map(|x| (-(x * x) as f64 / (2.0 * sigma * sigma)).exp() as f32)
-        .collect();
-    let ks: f32 = k.iter().sum();
-    k.iter().map(|kv| kv / ks).collect()
+/// The radii of one level, and how far beyond a strip its blur reads (`rad_max` rows) and its
+/// votes come from (`vote_reach` rows: a vote lands round(u n) <= ceil(n) rows away).
+struct Plan {
+    radii: Vec<Radius>,
+    rad_max: usize,
+    vote_reach: usize,
 }
 
 /// A cell steeper than the level's median slope: column, row, downhill unit vector and weight
@@ -94,17 +112,14 @@ impl Strip {
         &mut self,
         (z, w, h): (&[f32], usize, usize),
         med: f32,
-        radii: &[f64],
+        plan: &Plan,
         (r0, r1): (usize, usize),
         total: &mut [f32],
         best: &mut [u16],
     ) {
-        let n_max = radii.iter().copied().fold(0.0, f64::max);
-        let rad_max = blur_reach(n_max);
-        // The rows the blur reads, and the rows whose votes can land in them (a vote lands
-        // round(u n) <= ceil(n) rows away).
-        let (f0, f1) = (r0.saturating_sub(rad_max), (r1 + rad_max).min(h));
-        let reach = n_max.ceil() as usize + 1;
+        // The rows the blur reads, and the rows whose votes can land in them.
+        let (f0, f1) = (r0.saturating_sub(plan.rad_max), (r1 + plan.rad_max).min(h));
+        let reach = plan.vote_reach;
         let (v0, v1) = (f0.saturating_sub(reach).max(1), (f1 + reach).min(h - 1));
         self.voters.clear();
         for j in v0..v1 {
@@ -121,9 +136,9 @@ impl Strip {
         best.fill(0);
         self.best_value.clear();
         self.best_value.resize(total.len(), f32::NEG_INFINITY);
-        for (r, &n) in radii.iter().enumerate() {
-            self.transform((w, f0, f1), n);
-            self.blur_into((w, h), (f0, f1), (r0, r1), n);
+        for (r, radius) in plan.radii.iter().enumerate() {
+            self.transform((w, f0, f1), radius);
+            self.blur_into((w, h), (f0, f1), (r0, r1), radius);
             let cells = total.iter_mut().zip(best.iter_mut());
             for (((t, b), bv), &v) in cells.zip(self.best_value.iter_mut()).zip(&self.field) {
                 *t += v;
@@ -134,8 +149,9 @@ impl Strip {
         }
     }
 
-    /// The unblurred transform at radius `n` over rows f0..f1 into `self.field`.
-    fn transform(&mut self, (w, f0, f1): (usize, usize, usize), n: f64) {
+    /// The unblurred transform at `radius` over rows f0..f1 into `self.field`.
+    fn transform(&mut self, (w, f0, f1): (usize, usize, usize), radius: &Radius) {
+        let n = radius.n;
         let cells = (f1 - f0) * w;
         let (votes, field) = (&mut self.votes, &mut self.field);
         votes.clear();
@@ -151,7 +167,7 @@ impl Strip {
                 field[t] += wt;
             }
         }
-        let kn = k_n(n) as f32;
+        let kn = radius.kn;
         for (fv, &ov) in field.iter_mut().zip(votes.iter()) {
             *fv = (*fv / kn) * ((ov as f32).min(kn) / kn).powi(ALPHA);
         }
@@ -165,10 +181,9 @@ impl Strip {
         (w, h): (usize, usize),
         (f0, f1): (usize, usize),
         (r0, r1): (usize, usize),
-        n: f64,
+        radius: &Radius,
     ) {
-        let rad = blur_reach(n);
-        let k = blur_taps(blur_sigma(n), rad);
+        let (rad, k) = (radius.rad, &radius.taps);
         let rows = &mut self.rows;
         rows.clear();
         rows.resize(self.field.len(), 0.0);
@@ -191,7 +206,7 @@ impl Strip {
                 if jj < 0 || jj as usize >= h {
                     continue;
                 }
-                // Within f0..f1: the strip's rows reach rad_max >= rad beyond r0..r1.
+                // Within f0..f1: the strip's rows reach plan.rad_max >= rad beyond r0..r1.
                 let q = jj as usize - f0;
                 debug_assert!((jj as usize) < f1);
                 for (d, s) in dst.iter_mut().zip(&rows[q * w..(q + 1) * w]) {
@@ -234,6 +249,15 @@ fn peaks_in_strips(
     };
     // Best radii are kept as 16-bit indices.
     let radii = &radii[..radii.len().min(usize::from(u16::MAX))];
+    let plan = {
+        let radii: Vec<Radius> = radii.iter().map(|&n| Radius::new(n)).collect();
+        let n_max = radii.iter().map(|r| r.n).fold(0.0, f64::max);
+        Plan {
+            rad_max: radii.iter().map(|r| r.rad).max().unwrap_or(0),
+            vote_reach: n_max.ceil() as usize + 1,
+            radii,
+        }
+    };
     // Strips of rows in parallel (rayon), each summing the radii in their order.
     use rayon::prelude::*;
     let mut total = vec![0f32; w * h];
@@ -245,7 +269,7 @@ fn peaks_in_strips(
         .for_each_init(Strip::default, |strip, (k, (tot, bst))| {
             let r0 = k * strip_rows.max(1);
             let r1 = r0 + tot.len() / w;
-            strip.vote((z, w, h), med, radii, (r0, r1), tot, bst);
+            strip.vote((z, w, h), med, &plan, (r0, r1), tot, bst);
         });
     let sup = (radii[0].round() as isize).max(2);
     let mut out = Vec::new();
