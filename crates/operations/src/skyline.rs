@@ -270,7 +270,7 @@ impl Far<'_> {
     fn run(&self, k0: i64, k1: i64) -> (std::ops::Range<usize>, usize) {
         let n = self.sky.len();
         let len = (k1 - k0 + 1).clamp(1, n as i64) as usize;
-        let start = spans::wrap(k0, n as i64) as usize;
+        let start = visibility::horizon::wrap_sector(k0, n as i64) as usize;
         let wrap = (start + len).saturating_sub(n);
         (start..start + len - wrap, wrap)
     }

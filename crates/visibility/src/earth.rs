@@ -14,7 +14,7 @@
 //! on demand ([`earth_margin_lazy`]) only the discs that can still be the worst are read.
 
 use crate::constants::{EARTH_EQUATORIAL_RADIUS_KM, MOON_RADIUS_KM};
-use crate::horizon::{Horizon, LazyHorizon};
+use crate::horizon::{wrap_sector, Horizon, LazyHorizon};
 use crate::libration::LibrationEnvelope;
 use serde::Serialize;
 use terrain::geodesy::{azimuth_deg, central_angle_rad};
@@ -140,7 +140,7 @@ pub fn sectors_needed(
             return vec![true; n];
         }
         for k in k0..=k1 {
-            wanted[k.rem_euclid(n as i64) as usize] = true;
+            wanted[wrap_sector(k, n as i64) as usize] = true;
         }
     }
     wanted

@@ -242,7 +242,7 @@ impl Horizon {
     /// The sector holding an azimuth.
     pub fn sector_of(&self, azimuth_deg: f64) -> usize {
         let n = self.elevation_deg.len().max(1) as i64;
-        floor_i64(azimuth_deg / self.sector_width_deg() + 0.5).rem_euclid(n) as usize
+        wrap_sector(floor_i64(azimuth_deg / self.sector_width_deg() + 0.5), n) as usize
     }
 
     /// The skyline bound of the sector holding an azimuth, degrees.
@@ -281,8 +281,23 @@ fn lowest_over(n: usize, from_deg: f64, to_deg: f64, mut value: impl FnMut(usize
     let k0 = floor_i64(from_deg / w + 0.5);
     let k1 = floor_i64(to_deg / w + 0.5);
     (k0..=k1)
-        .map(|k| value(k.rem_euclid(n as i64) as usize))
+        .map(|k| value(wrap_sector(k, n as i64) as usize))
         .fold(f64::INFINITY, f64::min)
+}
+
+/// `k.rem_euclid(n)`, with a comparison instead of a division for the sector indices of a
+/// circle of `n` sectors, which mostly lie within one turn either side of it.
+#[inline]
+pub fn wrap_sector(k: i64, n: i64) -> i64 {
+    if (0..n).contains(&k) {
+        k
+    } else if (-n..0).contains(&k) {
+        k + n
+    } else if (n..2 * n).contains(&k) {
+        k - n
+    } else {
+        k.rem_euclid(n)
+    }
 }
 
 /// A site's horizon whose sectors are marched only when first read, each at most once: sector
@@ -872,6 +887,15 @@ pub fn horizon_profile(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn wrap_sector_is_the_euclidean_remainder() {
+        for n in [1i64, 4, 720] {
+            for k in -5 * n..5 * n {
+                assert_eq!(wrap_sector(k, n), k.rem_euclid(n), "{k} mod {n}");
+            }
+        }
+    }
 
     #[test]
     fn floor_i64_matches_floor_everywhere() {

@@ -4,6 +4,8 @@
 //! length, and the blocks are pushed down to single sectors once at the end. The table is kept
 //! between skylines: a reset clears only the levels the last skyline wrote.
 
+use visibility::horizon::wrap_sector;
+
 pub(super) struct SpanMax {
     n: usize,
     /// levels[l][i]: the largest value over sectors i .. i + 2^l, on a doubled circle.
@@ -44,7 +46,7 @@ impl SpanMax {
             self.whole = self.whole.max(v);
             return;
         }
-        let a = wrap(k0, self.n as i64) as usize;
+        let a = wrap_sector(k0, self.n as i64) as usize;
         let l = (usize::BITS - 1 - len.leading_zeros()) as usize;
         self.used = self.used.max(l + 1);
         let row = &mut self.levels[l];
@@ -77,32 +79,8 @@ impl SpanMax {
     }
 }
 
-/// `k.rem_euclid(n)`, with a comparison instead of a division for the sector indices the
-/// skylines make, which lie within one turn either side of the circle.
-#[inline]
-pub(super) fn wrap(k: i64, n: i64) -> i64 {
-    if (0..n).contains(&k) {
-        k
-    } else if (-n..0).contains(&k) {
-        k + n
-    } else if (n..2 * n).contains(&k) {
-        k - n
-    } else {
-        k.rem_euclid(n)
-    }
-}
-
 #[cfg(test)]
 mod tests {
-    #[test]
-    fn wrap_is_the_euclidean_remainder() {
-        for n in [1i64, 4, 720] {
-            for k in -5 * n..5 * n {
-                assert_eq!(super::wrap(k, n), k.rem_euclid(n), "{k} mod {n}");
-            }
-        }
-    }
-
     #[test]
     fn span_max_matches_raising_every_sector() {
         let n = 720;
