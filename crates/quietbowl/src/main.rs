@@ -64,8 +64,8 @@ enum Command {
 
 /// The global allocator: mimalloc (Leijen, Zorn and de Moura 2019, "Mimalloc: Free List
 /// Sharding in Action", Microsoft Research MSR-TR-2019-18, from memory). The survey makes and
-/// frees blocks of megabytes to tens of megabytes per crater, per pyramid level and per voting
-/// radius on every worker. glibc's allocator hands such blocks back to the system when they are
+/// frees blocks of megabytes to tens of megabytes per crater and per pyramid level on every
+/// worker. glibc's allocator hands such blocks back to the system when they are
 /// freed, so the next one page-faults every page again and each hand-back flushes the TLB of
 /// every core: on a 3000 x 3000 px grid this took 7.1 s of system time against 14.6 s of user
 /// time, and 2-3 s with mimalloc, which keeps freed memory for reuse a while (ours).
